@@ -1,0 +1,47 @@
+"""``stavegen build``: the whole job from spar file to every output file, all or nothing."""
+
+from __future__ import annotations
+
+from pathlib import Path
+
+from rich.console import Console
+
+from .model.loader import load_spar
+from .outputs import OutputSet
+from .pipeline import Design, design
+from .render.console import verdict
+from .units import format_mass
+
+
+def output_names(slug: str) -> dict[str, str]:
+    """The files a build writes, by what they are."""
+    return {"json": f"{slug}.json"}
+
+
+def write_outputs(result: Design, folder: Path) -> list[Path]:
+    """Render every output into ``folder`` under temporary names, then rename them all."""
+    from .render.json_doc import to_json
+
+    names = output_names(result.spar.slug)
+    with OutputSet(folder) as out:
+        out.add_text(names["json"], to_json(result))
+        return out.commit()
+
+
+def run_build(path: Path, folder: Path, console: Console) -> Design:
+    """Check, lay out and write; prints progress and a short summary."""
+    with console.status("reading the spar file"):
+        spar = load_spar(path)
+    with console.status("checking sections against the plan"):
+        result = design(spar)
+    with console.status("writing outputs"):
+        written = write_outputs(result, folder)
+    r = result.assessment
+    console.print(verdict(result))
+    console.print(f"weight: {format_mass(r.hollow.mass.mass, spar.units)} hollow against "
+                  f"{format_mass(r.plan.mass.mass, spar.units)} solid")
+    for line in result.warnings:
+        console.print(f"[bold yellow]warning:[/] {line}")
+    for p in written:
+        console.print(f"wrote {p}")
+    return result

@@ -1,0 +1,43 @@
+"""Warnings a builder should see: geometry that is legal but poor, and settings outside common practice."""
+
+from __future__ import annotations
+
+from ..stations.evaluate import where
+from ..units import format_length
+from .assess import Assessment
+
+# Common practice (no source): scarf slope at least 8:1; end allowance 2 to 4 in per stave end.
+MIN_SCARF_RATIO = 8.0
+END_ALLOWANCE_RANGE_MM = (50.8, 101.6)
+
+
+def warnings_for(result: Assessment) -> list[str]:
+    """Plain sentences, worst first; empty when nothing needs saying."""
+    spar = result.spar
+    hollow = spar.hollow
+    out: list[str] = []
+    voided = [c for c in result.stations if c.station.section.void_area > 0]
+    if voided:
+        worst = max(voided, key=lambda c: c.station.section.void_area)
+        out.append(
+            f"The {hollow.joint.kind} notch leaves open voids inside the round "
+            f"({worst.station.section.void_area:.1f} mm² at {where(spar, worst.station.z)}): the square edge "
+            "does not fill the V. The flush birdsmouth closes with none; consider joint = \"birdsmouth-flush\".")
+    if hollow.min_corner_wall is not None:
+        thin = min(result.stations, key=lambda c: c.station.section.corner_wall)
+        wall = thin.station.section.corner_wall
+        if wall < hollow.min_corner_wall:
+            out.append(f"After rounding, the wall at the bore's corners is {format_length(wall, spar.units)} at "
+                       f"{where(spar, thin.station.z)}, below the minimum you set "
+                       f"({format_length(hollow.min_corner_wall, spar.units)}).")
+    if spar.stock is not None and spar.stock.scarf_ratio < MIN_SCARF_RATIO:
+        out.append(f"Scarf ratio {spar.stock.scarf_ratio:g}:1 is steeper than the 8:1 least slope of common "
+                   "practice for spars; 10:1 to 12:1 is better.")
+    low, high = END_ALLOWANCE_RANGE_MM
+    if not low <= hollow.end_allowance <= high:
+        out.append(f"End allowance {format_length(hollow.end_allowance, spar.units)} per stave end is outside "
+                   "the 2 to 4 in of common practice.")
+    if hollow.lamination_factor > 1.0:
+        out.append(f"A lamination factor of {hollow.lamination_factor:g} credits the staves with more stiffness "
+                   "than their wood has; 1.0 takes no credit.")
+    return out

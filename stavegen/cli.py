@@ -1,0 +1,175 @@
+"""The ``stavegen`` command line: build, check, section, woods, init."""
+
+from __future__ import annotations
+
+import functools
+import os
+import sys
+from importlib import resources
+from pathlib import Path
+from typing import Callable, Optional
+
+import typer
+from rich.console import Console
+
+from .errors import InputError
+
+app = typer.Typer(
+    add_completion=False,
+    no_args_is_help=True,
+    help="Turn the solid wooden spar of a set of plans into a hollow, stave-built one: check it against "
+         "the plan's stiffness, then lay out, template and order the wood for it.",
+)
+
+DEFAULT_SAMPLE = "catboat-mast.toml"
+EXIT_MISSED = 1
+EXIT_BAD_INPUT = 2
+
+
+def bundled_sample(name: str = DEFAULT_SAMPLE) -> Path:
+    """Path of a spar file shipped with stavegen (the repository's samples folder, installed with it)."""
+    try:
+        return Path(str(resources.files("stavegen.samples").joinpath(name)))
+    except ModuleNotFoundError:  # an editable install run from the source tree
+        return Path(__file__).resolve().parent.parent / "samples" / name
+
+
+def _fail(message: str, code: int = EXIT_BAD_INPUT) -> None:
+    sys.stderr.write(f"stavegen: {' '.join(message.split())}\n")
+    raise typer.Exit(code)
+
+
+def reports_errors(func: Callable) -> Callable:
+    """Turn InputError into one line on stderr and exit code 2; no traceback."""
+
+    @functools.wraps(func)
+    def wrapper(*args, **kwargs):
+        try:
+            return func(*args, **kwargs)
+        except InputError as exc:
+            if kwargs.get("spar") is not None:
+                exc.located(str(kwargs["spar"]))
+            _fail(exc.one_line())
+        except KeyboardInterrupt:
+            _fail("interrupted", 130)
+        except (typer.Exit, typer.Abort, SystemExit):
+            raise
+        except Exception as exc:  # a bug, not bad input: say so in one line unless debugging
+            if os.environ.get("STAVEGEN_DEBUG"):
+                raise
+            _fail(f"internal error ({type(exc).__name__}: {exc}); rerun with STAVEGEN_DEBUG=1 and report it", 3)
+
+    return wrapper
+
+
+def _console() -> Console:
+    """Rich output; a pipe or file gets lines wide enough for the station table."""
+    console = Console(highlight=False)
+    if not console.is_terminal:
+        console = Console(highlight=False, width=120)
+    return console
+
+
+@app.command()
+@reports_errors
+def check(
+    spar: Path = typer.Argument(..., help="The spar file (TOML).", show_default=False),
+    json_out: bool = typer.Option(False, "--json", help="Print the JSON document of every figure instead."),
+) -> None:
+    """Stiffness, strength and weight against the plan, station by station."""
+    from .pipeline import design_file
+
+    result = design_file(spar)
+    if json_out:
+        from .render.json_doc import to_json
+
+        sys.stdout.write(to_json(result))
+    else:
+        from .render.console import print_check
+
+        print_check(_console(), result)
+    if not result.passed:
+        raise typer.Exit(EXIT_MISSED)
+
+
+@app.command()
+@reports_errors
+def section(
+    spar: Path = typer.Argument(..., help="The spar file (TOML).", show_default=False),
+    at: str = typer.Option(..., "--at", help='Position from the heel: "7 ft 6 in", "2300 mm", or a bare '
+                                             "number in the file's unit.", show_default=False),
+) -> None:
+    """One cross-section in detail: stave width, notch, wall after rounding, voids, I."""
+    from .checks.ratios import check_station
+    from .model.loader import load_spar
+    from .pipeline import resolve
+    from .render.console import section_table
+    from .stations.evaluate import evaluate_stations
+    from .stations.grid import StationMark
+    from .units import UnitError, parse_length
+
+    model, _ = resolve(load_spar(spar))
+    try:
+        z = parse_length(at, model.units)
+    except UnitError as exc:
+        raise InputError(str(exc), "--at") from None
+    if not 0 <= z <= model.length:
+        raise InputError(f"{at!r} is not on the spar (0 to {model.length:.0f} mm)", "--at")
+    station = evaluate_stations(model, (StationMark(z, ("asked",)),))[0]
+    _console().print(section_table(model, check_station(model, station)))
+
+
+@app.command()
+@reports_errors
+def woods(
+    units: str = typer.Option("in", "--units", help='"in" for psi and lb/ft³, "mm" for MPa and kg/m³.'),
+) -> None:
+    """The built-in wood table, with the source of every figure."""
+    from .model.woods import wood_table
+    from .render.console import woods_table
+
+    if units not in ("in", "mm"):
+        raise InputError(f'{units!r} is not "in" or "mm"', "--units")
+    _console().print(woods_table(list(wood_table().values()), units))
+
+
+@app.command()
+@reports_errors
+def init(
+    path: Path = typer.Argument(..., help="Where to write the starter spar file.", show_default=False),
+    units: str = typer.Option("in", "--units", help='"in" or "mm".'),
+    force: bool = typer.Option(False, "--force", help="Overwrite an existing file."),
+) -> None:
+    """Write a commented starter spar file to edit."""
+    from .model.starter import starter_text
+    from .outputs import OutputSet
+
+    if units not in ("in", "mm"):
+        raise InputError(f'{units!r} is not "in" or "mm"', "--units")
+    if path.exists() and not force:
+        raise InputError("already exists; pass --force to overwrite it", source=str(path))
+    with OutputSet(path.parent if str(path.parent) else Path(".")) as out:
+        out.add_text(path.name, starter_text(units))
+        out.commit()
+    _console().print(f"wrote {path}: edit it, then run [bold]stavegen check {path}[/]")
+
+
+@app.command()
+@reports_errors
+def build(
+    spar: Optional[Path] = typer.Argument(None, help="The spar file (TOML); none builds the bundled example.",
+                                          show_default=False),
+    out: Path = typer.Option(Path("stavegen-out"), "-o", "--out", help="Folder for the outputs."),
+) -> None:
+    """The whole job: check, lay out, and write every output into the folder."""
+    from .build import run_build
+
+    console = _console()
+    path = spar if spar is not None else bundled_sample()
+    result = run_build(path, out, console)
+    if not result.passed:
+        raise typer.Exit(EXIT_MISSED)
+
+
+def main() -> None:  # console-script entry point
+    app()

@@ -1,0 +1,171 @@
+"""The validated spar: frozen dataclasses in millimetres, newtons and kg/m³.
+
+Everything downstream of the loader reads these and nothing else; units
+appear only in :attr:`Spar.units`, which says how to print.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from typing import Literal, Union
+
+import numpy as np
+
+from .woods import Wood
+
+AUTO = "auto"
+JOINTS = ("birdsmouth-flush", "birdsmouth-centered", "birdsmouth-custom", "bevel")
+TAPERS = ("square-edge", "symmetric")
+PAPERS = ("letter", "a4")
+MIN_STAVES, MAX_STAVES = 4, 24
+
+
+@dataclass(frozen=True)
+class Profile:
+    """A length (mm) given at positions along the spar (mm from the heel), linear between."""
+
+    z: tuple[float, ...]
+    value: tuple[float, ...]
+
+    @classmethod
+    def constant(cls, value: float, length: float) -> "Profile":
+        return cls((0.0, float(length)), (float(value), float(value)))
+
+    def at(self, z: float | np.ndarray) -> float | np.ndarray:
+        """Value at ``z`` (mm), interpolated linearly between the given positions."""
+        return np.interp(z, self.z, self.value)
+
+    @property
+    def is_constant(self) -> bool:
+        return max(self.value) - min(self.value) <= 1e-9 * max(1.0, max(self.value))
+
+    @property
+    def largest(self) -> float:
+        return max(self.value)
+
+    @property
+    def smallest(self) -> float:
+        return min(self.value)
+
+
+@dataclass(frozen=True)
+class Joint:
+    """How neighbouring staves meet.
+
+    ``kind`` is one of :data:`JOINTS`. For ``birdsmouth-custom`` the builder's
+    cutter fixes the notch depth (mm, along the width) and the apex height
+    above the inner face, as a length (mm) or as a fraction of the thickness.
+    """
+
+    kind: str = "birdsmouth-flush"
+    depth: float | None = None
+    apex_height: float | None = None
+    apex_fraction: float | None = None
+
+    @property
+    def is_birdsmouth(self) -> bool:
+        return self.kind.startswith("birdsmouth")
+
+
+@dataclass(frozen=True)
+class Plug:
+    """Solid blocking filling the bore from ``start`` to ``end`` (mm from the heel)."""
+
+    start: float
+    end: float
+    wood: Wood
+
+    def covers(self, z: float) -> bool:
+        return self.start <= z <= self.end
+
+
+@dataclass(frozen=True)
+class Plan:
+    """The solid spar drawn in the plans: the stiffness and strength target."""
+
+    wood: Wood
+    diameter: Profile
+
+
+@dataclass(frozen=True)
+class Hollow:
+    """The stave-built spar to be made.
+
+    ``staves`` and ``wall`` may be :data:`AUTO` until the sizing step fills them.
+    ``wall`` is the stave thickness (mm) along the spar; ``diameter`` the
+    finished outside diameter (mm). Allowances are in mm.
+    """
+
+    wood: Wood
+    staves: Union[int, Literal["auto"]]
+    joint: Joint
+    wall: Union[Profile, Literal["auto"]]
+    diameter: Profile
+    lamination_factor: float = 1.0
+    margin: float = 0.0
+    min_strength_ratio: float | None = None
+    min_corner_wall: float | None = None
+    planing_allowance: float = 1.5875
+    end_allowance: float = 76.2
+    taper: str = "square-edge"
+    plugs: tuple[Plug, ...] = ()
+    diameter_given: bool = False
+
+    def plug_at(self, z: float) -> Plug | None:
+        for plug in self.plugs:
+            if plug.covers(z):
+                return plug
+        return None
+
+
+@dataclass(frozen=True)
+class Stock:
+    """The boards staves are ripped from (mm); nominal sizes are for the board-foot tally."""
+
+    thickness: float
+    nominal_thickness: float
+    widths: tuple[float, ...]
+    nominal_widths: tuple[float, ...]
+    lengths: tuple[float, ...]
+    kerf: float = 3.175
+    scarf_ratio: float = 8.0
+    scarf_stagger: float = 304.8
+    no_scarf: tuple[tuple[float, float], ...] = ()
+    waste: float = 0.10
+    edge_allowance: float = 1.5875
+
+
+@dataclass(frozen=True)
+class OutputOptions:
+    """Drawing and printing choices: paper for full-size templates, station mark spacing (mm)."""
+
+    paper: str = "letter"
+    mark_spacing: float = 304.8
+    templates_on_boards: bool = False
+
+
+@dataclass(frozen=True)
+class Spar:
+    """One spar file, validated: everything in SI millimetres."""
+
+    name: str
+    units: str
+    length: float
+    plan: Plan
+    hollow: Hollow
+    stock: Stock | None
+    output: OutputOptions = field(default_factory=OutputOptions)
+    source: str = ""
+
+    @property
+    def slug(self) -> str:
+        """File-name stem for outputs: lowercase words joined by hyphens."""
+        import re
+
+        words = re.findall(r"[a-z0-9]+", self.name.lower())
+        return "-".join(words) or "spar"
+
+    @property
+    def resolved(self) -> bool:
+        """True once staves and wall are numbers, not :data:`AUTO`."""
+        return self.hollow.staves != AUTO and self.hollow.wall != AUTO

@@ -1,0 +1,49 @@
+"""Wood properties: the built-in table and woods a spar file defines itself."""
+
+from __future__ import annotations
+
+import tomllib
+from dataclasses import dataclass
+from functools import lru_cache
+from importlib import resources
+
+from ..units import MPA_PER_PSI
+
+MOISTURE_FACTOR = 1.12
+"""Density at 12 % MC over (specific gravity x 1000 kg/m³): the water the wood holds (TRADE.md)."""
+
+
+@dataclass(frozen=True)
+class Wood:
+    """One wood. Stresses in N/mm² (MPa), density in kg/m³ at 12 % moisture content."""
+
+    key: str
+    name: str
+    moe: float
+    mor: float
+    density: float
+    specific_gravity: float | None = None
+    source: str = "defined in the spar file"
+
+
+@lru_cache(maxsize=1)
+def wood_table() -> dict[str, Wood]:
+    """The built-in woods, keyed by lowercase hyphenated name, in the data file's order."""
+    text = resources.files("stavegen.model").joinpath("data/woods.toml").read_text(encoding="utf-8")
+    rows = tomllib.loads(text)
+    return {
+        key: Wood(
+            key=key,
+            name=row["name"],
+            moe=row["moe_mpsi"] * 1e6 * MPA_PER_PSI,
+            mor=row["mor_psi"] * MPA_PER_PSI,
+            density=float(row["density_kg_m3"]),
+            specific_gravity=row["specific_gravity"],
+            source=row["source"],
+        )
+        for key, row in rows.items()
+    }
+
+
+def known_wood_keys() -> list[str]:
+    return list(wood_table())

@@ -1,0 +1,50 @@
+"""The pipeline a command runs: spar file → model → sections → checks → layout → outputs."""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from pathlib import Path
+from typing import Any
+
+from .checks.advice import warnings_for
+from .checks.assess import Assessment, assess
+from .errors import InputError
+from .model.loader import load_spar
+from .model.spar import Spar
+
+
+@dataclass(frozen=True)
+class Design:
+    """What stavegen worked out for one spar; renderers draw from this and compute nothing."""
+
+    spar: Spar
+    assessment: Assessment
+    warnings: tuple[str, ...] = ()
+    layout: Any = None
+    solved: tuple[str, ...] = field(default=())
+
+    @property
+    def passed(self) -> bool:
+        return self.assessment.passed
+
+
+def resolve(spar: Spar) -> tuple[Spar, tuple[str, ...]]:
+    """Fill ``"auto"`` staves and wall; return the spar and one line per solved value."""
+    if spar.resolved:
+        return spar, ()
+    key = "hollow.staves" if spar.hollow.staves == "auto" else "hollow.wall"
+    raise InputError('"auto" is not available in this version; give a number', key, spar.source)
+
+
+def design(spar: Spar) -> Design:
+    """Check the spar (solving what is ``auto``) without laying out the staves."""
+    try:
+        spar, solved = resolve(spar)
+        result = assess(spar)
+    except InputError as exc:
+        raise exc.located(spar.source)
+    return Design(spar=spar, assessment=result, warnings=tuple(warnings_for(result)), solved=solved)
+
+
+def design_file(path: str | Path) -> Design:
+    return design(load_spar(path))

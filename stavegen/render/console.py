@@ -1,0 +1,183 @@
+"""What the commands print: rich tables in the spar's units, drawn from computed results only."""
+
+from __future__ import annotations
+
+from rich import box
+from rich.console import Console
+from rich.panel import Panel
+from rich.table import Table
+from rich.text import Text
+
+from ..cautions import CAUTIONS, HEADLINE
+from ..checks.assess import Assessment
+from ..checks.ratios import StationCheck
+from ..model.spar import Spar
+from ..model.woods import Wood
+from ..pipeline import Design
+from ..section.properties import Section
+from ..units import KG_M3_PER_LB_FT3, format_force, format_length, format_mass, format_tape, stress_in
+
+
+def length(spar: Spar, mm: float | None, tape: bool = False) -> str:
+    return "—" if mm is None else format_length(mm, spar.units, tape)
+
+
+def cautions_panel() -> Panel:
+    body = Text()
+    for i, line in enumerate(CAUTIONS):
+        body.append("• " + line + ("\n" if i < len(CAUTIONS) - 1 else ""))
+    return Panel(body, title=HEADLINE, border_style="red", title_align="left")
+
+
+def _headline(spar: Spar) -> str:
+    h = spar.hollow
+    wall = h.wall
+    wall_text = (length(spar, wall.largest) if wall.is_constant
+                 else f"{length(spar, wall.smallest)} to {length(spar, wall.largest)}")
+    return (f"[bold]{spar.name}[/]  {length(spar, spar.length, tape=True)} long\n"
+            f"plan: solid {spar.plan.wood.name}   hollow: {h.staves} staves of {h.wood.name}, "
+            f"{h.joint.kind}, wall {wall_text}")
+
+
+def station_table(design: Design) -> Table:
+    spar = design.spar
+    result = design.assessment
+    weakest = result.weakest_stiffness
+    target = result.ei_target
+    table = Table(title="Station by station against the plan", header_style="bold", title_justify="left",
+                  box=box.SIMPLE_HEAD, pad_edge=False)
+    for col, justify in (("from\nheel", "right"), ("plan\nOD", "right"), ("\nOD", "right"), ("\nwall", "right"),
+                         ("stave\nwidth", "right"), ("notch\ndepth", "right"), ("EI\nratio", "right"),
+                         ("strength\nratio", "right"), ("\nplug", "center"), ("", "left")):
+        table.add_column(col, justify=justify, no_wrap=True)
+    for c in result.stations:
+        s = c.station
+        sec = s.section
+        ok = c.ei_ratio >= target - 1e-12
+        style = "bold yellow" if c is weakest else ("red" if not ok else None)
+        table.add_row(
+            format_tape(s.z) if spar.units == "in" else f"{s.z:.0f} mm",
+            length(spar, s.plan_diameter), length(spar, s.diameter), length(spar, s.wall),
+            length(spar, sec.stave_width), length(spar, sec.notch.depth if sec.notch else None),
+            f"{c.ei_ratio:.3f}", f"{c.strength_ratio:.3f}", "●" if s.plug else "",
+            ("least" if c is weakest else "ok") if ok else "SHORT",
+            style=style,
+        )
+    return table
+
+
+def spar_table(design: Design) -> Table:
+    spar = design.spar
+    r = design.assessment
+    table = Table(title="The whole spar", header_style="bold", title_justify="left", box=box.SIMPLE_HEAD)
+    table.add_column("")
+    table.add_column("plan (solid)", justify="right")
+    table.add_column("hollow", justify="right")
+    table.add_column("hollow / plan", justify="right")
+    rows = [
+        ("weight", format_mass(r.plan.mass.mass, spar.units), format_mass(r.hollow.mass.mass, spar.units),
+         r.hollow.mass.mass / r.plan.mass.mass),
+        ("centre of gravity from heel", length(spar, r.plan.mass.centre, True),
+         length(spar, r.hollow.mass.centre, True), r.hollow.mass.centre / r.plan.mass.centre),
+        (f"head deflection, {format_force(r.head_load, spar.units)} sideways, heel held",
+         length(spar, r.plan.tip_deflection), length(spar, r.hollow.tip_deflection),
+         r.hollow.tip_deflection / r.plan.tip_deflection),
+        ("Euler load, heel fixed, head free", format_force(r.plan.euler_load, spar.units),
+         format_force(r.hollow.euler_load, spar.units), r.hollow.euler_load / r.plan.euler_load),
+    ]
+    for label, a, b, ratio in rows:
+        table.add_row(label, a, b, f"{ratio:.3f}")
+    return table
+
+
+def verdict(design: Design) -> Text:
+    r = design.assessment
+    spar = design.spar
+    w = r.weakest_stiffness
+    s = r.weakest_strength
+    saved = r.plan.mass.mass - r.hollow.mass.mass
+    if r.passed:
+        text = Text("PASS ", style="bold green")
+        text.append(f"EI ratio at least {w.ei_ratio:.3f} (target {r.ei_target:.3f}), least at "
+                    f"{length(spar, w.station.z, True)} from the heel; strength ratio at least {s.strength_ratio:.3f}; "
+                    f"{format_mass(saved, spar.units)} lighter than the plan.")
+    else:
+        text = Text("FAIL ", style="bold red")
+        text.append(" ".join(r.shortfalls()) + ".")
+    return text
+
+
+def print_check(console: Console, design: Design) -> None:
+    console.print(_headline(design.spar))
+    for line in design.solved:
+        console.print(f"[cyan]solved:[/] {line}")
+    console.print(station_table(design))
+    console.print(spar_table(design))
+    for line in design.warnings:
+        console.print(Text("warning: ", style="bold yellow") + Text(line))
+    console.print(verdict(design))
+    console.print(cautions_panel())
+
+
+def section_table(spar: Spar, check: StationCheck) -> Table:
+    s = check.station
+    sec: Section = s.section
+    table = Table(title=f"Section at {length(spar, s.z, True)} from the heel", show_header=False,
+                  title_justify="left")
+    table.add_column("", style="bold")
+    table.add_column("", justify="right")
+    rows: list[tuple[str, str]] = [
+        ("staves, joint", f"{sec.staves}, {sec.joint}"),
+        ("finished diameter (plan)", f"{length(spar, s.diameter)} ({length(spar, s.plan_diameter)})"),
+        ("across flats before rounding", length(spar, sec.across_flats)),
+        ("stave thickness", length(spar, sec.thickness)),
+        ("stave width before the notch", length(spar, sec.stave_width)),
+    ]
+    if sec.notch:
+        phi, other = sec.v_face_angles
+        rows += [
+            ("notch depth (along the width)", length(spar, sec.notch.depth)),
+            ("notch apex above the inner face", length(spar, sec.notch.apex_height)),
+            ("V faces to the broad face", f"{phi:.2f}° and {other:.2f}° (a 90° V)"),
+        ]
+    else:
+        rows.append(("edge bevel off square", f"{sec.bevel_angle:.2f}°"))
+    rows += [
+        ("bore across flats", length(spar, 2 * sec.inner_apothem)),
+        ("wall after rounding, mid-stave", length(spar, sec.flat_wall)),
+        ("wall after rounding, at bore corners", length(spar, sec.corner_wall)),
+        ("voids inside the round", f"{sec.void_area:.2f} mm²"),
+        ("glue line per joint", length(spar, sec.glue_line)),
+        ("wood area", f"{sec.area:,.1f} mm²"),
+        ("I of the wall", f"{sec.inertia:,.0f} mm⁴"),
+        ("section modulus I/R", f"{sec.modulus:,.0f} mm³"),
+        ("plug", s.plug.wood.name if s.plug else "none"),
+        ("EI ratio / strength ratio", f"{check.ei_ratio:.3f} / {check.strength_ratio:.3f}"),
+    ]
+    for label, value in rows:
+        table.add_row(label, value)
+    return table
+
+
+def woods_table(woods: list[Wood], units: str) -> Table:
+    """The wood table; each row's source is a numbered note under the table."""
+    stress = "psi" if units == "in" else "MPa"
+    sources = list(dict.fromkeys(w.source for w in woods))
+    notes = "\n".join(f"[{i + 1}] {text}" for i, text in enumerate(sources))
+    table = Table(title="Built-in woods, 12 % moisture content", header_style="bold", title_justify="left",
+                  caption=notes, caption_justify="left")
+    for col in ("key", "wood", "SG", f"MOR, {stress}", f"MOE, {stress}", "density", "source"):
+        table.add_column(col, justify="left" if col in ("key", "wood") else "right", no_wrap=True)
+    system = "psi" if units == "in" else "mpa"
+    for w in woods:
+        density = f"{w.density / KG_M3_PER_LB_FT3:.1f} lb/ft³" if units == "in" else f"{w.density:.0f} kg/m³"
+        table.add_row(w.key, w.name, f"{w.specific_gravity:.2f}" if w.specific_gravity else "—",
+                      f"{stress_in(w.mor, system):,.0f}", f"{stress_in(w.moe, system):,.0f}", density,
+                      f"[{sources.index(w.source) + 1}]")
+    return table
+
+
+def assessment_summary(result: Assessment) -> str:
+    """One line for logs and the build's closing summary."""
+    w = result.weakest_stiffness
+    return f"EI ratio ≥ {w.ei_ratio:.3f}, strength ratio ≥ {result.weakest_strength.strength_ratio:.3f}"

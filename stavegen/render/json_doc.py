@@ -1,0 +1,130 @@
+"""The JSON document of every figure, in SI (mm, N, kg), under the keys users rely on."""
+
+from __future__ import annotations
+
+import json
+import math
+from typing import Any
+
+from .. import __version__
+from ..cautions import CAUTIONS
+from ..checks.ratios import StationCheck
+from ..model.woods import Wood
+from ..pipeline import Design
+
+SCHEMA_VERSION = 1
+
+
+def _wood(wood: Wood) -> dict[str, Any]:
+    return {
+        "key": wood.key,
+        "name": wood.name,
+        "moe_mpa": wood.moe,
+        "mor_mpa": wood.mor,
+        "density_kg_m3": wood.density,
+        "specific_gravity": wood.specific_gravity,
+        "source": wood.source,
+    }
+
+
+def _station(check: StationCheck) -> dict[str, Any]:
+    s = check.station
+    sec = s.section
+    return {
+        "z_mm": s.z,
+        "od_mm": s.diameter,
+        "wall_mm": s.wall,
+        "stave_width_mm": sec.stave_width,
+        "notch_depth_mm": sec.notch.depth if sec.notch else None,
+        "apex_height_mm": sec.notch.apex_height if sec.notch else None,
+        "across_flats_mm": sec.across_flats,
+        "area_mm2": sec.area,
+        "I_mm4": sec.inertia,
+        "EI_Nmm2": check.hollow.ei,
+        "plan_od_mm": s.plan_diameter,
+        "plan_I_mm4": check.plan.inertia,
+        "plan_EI_Nmm2": check.plan.ei,
+        "ei_ratio": check.ei_ratio,
+        "strength_ratio": check.strength_ratio,
+        "void_mm2": sec.void_area,
+        "min_wall_mm": sec.corner_wall,
+        "plug": s.plug is not None,
+        "plug_wood": s.plug.wood.key if s.plug else None,
+        "bore_area_mm2": sec.bore.area,
+        "bore_I_mm4": sec.bore_inertia,
+        "flat_wall_mm": sec.flat_wall,
+        "glue_line_mm": sec.glue_line,
+        "reasons": list(s.reasons),
+    }
+
+
+def document(design: Design) -> dict[str, Any]:
+    """Every computed figure of ``design`` as plain JSON-ready data."""
+    spar = design.spar
+    result = design.assessment
+    hollow = spar.hollow
+    weakest = result.weakest_stiffness
+    weakest_strength = result.weakest_strength
+    doc: dict[str, Any] = {
+        "stavegen": {"version": __version__, "schema": SCHEMA_VERSION},
+        "spar": {
+            "name": spar.name,
+            "length_mm": spar.length,
+            "staves": hollow.staves,
+            "joint": hollow.joint.kind,
+            "units": spar.units,
+            "source": spar.source,
+            "taper": hollow.taper,
+            "lamination_factor": hollow.lamination_factor,
+            "margin": hollow.margin,
+            "planing_allowance_mm": hollow.planing_allowance,
+            "end_allowance_mm": hollow.end_allowance,
+            "plugs": [{"from_mm": p.start, "to_mm": p.end, "wood": p.wood.key} for p in hollow.plugs],
+            "solved": list(design.solved),
+        },
+        "woods": {"plan": _wood(spar.plan.wood), "hollow": _wood(hollow.wood),
+                  "plugs": [_wood(p.wood) for p in hollow.plugs]},
+        "stations": [_station(c) for c in result.stations],
+        "check": {
+            "passed": result.passed,
+            "ei_target": result.ei_target,
+            "min_ei_ratio": weakest.ei_ratio,
+            "min_ei_ratio_z_mm": weakest.station.z,
+            "min_strength_ratio": weakest_strength.strength_ratio,
+            "min_strength_ratio_z_mm": weakest_strength.station.z,
+            "strength_target": hollow.min_strength_ratio,
+            "shortfalls": result.shortfalls(),
+        },
+        "mass": {
+            "hollow_kg": result.hollow.mass.mass,
+            "plan_kg": result.plan.mass.mass,
+            "hollow_cg_mm": result.hollow.mass.centre,
+            "plan_cg_mm": result.plan.mass.centre,
+            "saved_kg": result.plan.mass.mass - result.hollow.mass.mass,
+        },
+        "beam": {
+            "head_load_N": result.head_load,
+            "plan_tip_deflection_mm": result.plan.tip_deflection,
+            "hollow_tip_deflection_mm": result.hollow.tip_deflection,
+            "plan_euler_load_N": result.plan.euler_load,
+            "hollow_euler_load_N": result.hollow.euler_load,
+        },
+        "warnings": list(design.warnings),
+        "cautions": list(CAUTIONS),
+    }
+    return doc
+
+
+def _clean(value: Any) -> Any:
+    """JSON has no NaN or infinity: write them as null."""
+    if isinstance(value, float) and not math.isfinite(value):
+        return None
+    if isinstance(value, dict):
+        return {k: _clean(v) for k, v in value.items()}
+    if isinstance(value, (list, tuple)):
+        return [_clean(v) for v in value]
+    return value
+
+
+def to_json(design: Design) -> str:
+    return json.dumps(_clean(document(design)), indent=2, ensure_ascii=False) + "\n"

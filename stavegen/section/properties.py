@@ -1,0 +1,191 @@
+"""One finished cross-section of the hollow spar: geometry, validity and exact properties.
+
+finished = disc(R) ∩ union(staves). Its second moment comes from exact
+integration (:mod:`.integrals`): each stave clipped by the true circle,
+times N by the section's N-fold symmetry (about any diameter I = J/2 for
+N ≥ 3). The bore is the regular N-gon of apothem a_i; the voids are what
+the disc holds besides bore and staves, so I = I_disc − I_bore − I_voids
+holds by construction. Lengths mm, areas mm², second moments mm⁴.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+
+from shapely.geometry import Polygon
+
+from ..errors import DesignError
+from ..model.spar import Joint
+from ..units import format_length
+from .integrals import Moments, disc_moments, ring_in_disc_moments, ring_moments, segment_length_in_disc
+from .notch import Notch, bevel_angle, closure_width, notch_for, v_face_angles
+from .staves import StaveFrame, check_interference, stave_frame, stave_polygon
+
+VOID_TOLERANCE = 1e-9  # of the disc's area: below this a void is roundoff
+
+
+@dataclass(frozen=True)
+class Section:
+    """A finished hollow section at one position (mm, mm², mm⁴)."""
+
+    staves: int
+    joint: str
+    radius: float
+    thickness: float
+    outer_apothem: float
+    stave_width: float
+    notch: Notch | None
+    frame: StaveFrame
+    stave_outline: tuple[tuple[float, float], ...]
+    wall: Moments
+    bore: Moments
+    voids: Moments
+    overlap: float
+    glue_line: float
+
+    @property
+    def inner_apothem(self) -> float:
+        return self.outer_apothem - self.thickness
+
+    @property
+    def area(self) -> float:
+        """Wood in the finished wall, mm²."""
+        return self.wall.area
+
+    @property
+    def inertia(self) -> float:
+        """Second moment of the finished wall about any diameter, mm⁴."""
+        return self.wall.polar / 2
+
+    @property
+    def bore_inertia(self) -> float:
+        return self.bore.polar / 2
+
+    @property
+    def void_area(self) -> float:
+        return self.voids.area
+
+    @property
+    def modulus(self) -> float:
+        """Section modulus S = I / R, mm³."""
+        return self.inertia / self.radius
+
+    @property
+    def across_flats(self) -> float:
+        """Across the flats of the glued-up polygon before rounding, mm (2·a_o)."""
+        return 2 * self.outer_apothem
+
+    @property
+    def bore_corner_radius(self) -> float:
+        return self.inner_apothem / math.cos(math.pi / self.staves)
+
+    @property
+    def corner_wall(self) -> float:
+        """Thinnest wall after rounding, at the bore's corners: R − a_i / cos(π/N), mm."""
+        return self.radius - self.bore_corner_radius
+
+    @property
+    def flat_wall(self) -> float:
+        """Wall after rounding at the middle of a stave: R − a_i, mm."""
+        return self.radius - self.inner_apothem
+
+    @property
+    def v_face_angles(self) -> tuple[float, float] | None:
+        return v_face_angles(self.staves) if self.notch else None
+
+    @property
+    def bevel_angle(self) -> float | None:
+        return None if self.notch else bevel_angle(self.staves)
+
+    def stave_polygon(self) -> Polygon:
+        """Stave 0 (before rounding) as a shapely polygon in the axis frame."""
+        return Polygon(self.stave_outline)
+
+
+def bore_ring(staves: int, inner_apothem: float) -> list[tuple[float, float]]:
+    """The bore: the regular N-gon of apothem a_i, faces normal to each stave's y axis, counter-clockwise."""
+    corner = inner_apothem / math.cos(math.pi / staves)
+    start = math.pi / 2 - math.pi / staves
+    return [(corner * math.cos(start + k * 2 * math.pi / staves), corner * math.sin(start + k * 2 * math.pi / staves))
+            for k in range(staves)]
+
+
+def _ring_of(one: Moments, staves: int) -> Moments:
+    """Moments of N copies of one stave turned about the axis (N ≥ 3: isotropic, centroid on the axis)."""
+    half_polar = staves * one.polar / 2
+    return Moments(staves * one.area, 0.0, 0.0, half_polar, half_polar, 0.0)
+
+
+def _glue_line(staves: int, frame: StaveFrame, notch: Notch | None, radius: float) -> float:
+    """Length (mm) of one glued joint inside the finished round."""
+    phi = 2 * math.pi / staves
+    if notch is None:
+        # Bevelled faces lie on the radial line through the polygon's corners.
+        c = math.cos(math.pi / staves)
+        start, end = frame.inner / c, frame.outer / c
+        return max(0.0, min(end, radius) - start)
+    t = frame.outer - frame.inner
+    h, ft = notch.depth, notch.apex_height
+    sin_p, cos_p = math.sin(phi), math.cos(phi)
+    # Face 1 (neighbour's inner face) and face 2 (its end face), each from the apex to where it leaves the stave.
+    along_inner = min(h / cos_p if cos_p > 1e-12 else math.inf, ft / sin_p)
+    along_end = min(h / sin_p, (t - ft) / cos_p if cos_p > 1e-12 else math.inf, t)
+    d1 = (-cos_p, -sin_p)
+    d2 = (-sin_p, cos_p)
+    return (segment_length_in_disc(frame.apex, d1, along_inner, radius)
+            + segment_length_in_disc(frame.apex, d2, along_end, radius))
+
+
+def evaluate_section(staves: int, joint: Joint, radius: float, thickness: float,
+                     planing_allowance: float = 0.0, where: str = "", units: str = "mm") -> Section:
+    """The finished section of finished radius R (mm) from staves of ``thickness`` (mm).
+
+    The staves' outer faces stand ``planing_allowance`` (mm) proud of the round.
+    Raises DesignError for geometry that cannot be built, naming the key and
+    printing lengths in ``units``.
+    """
+    def show(mm: float) -> str:
+        return format_length(mm, units)
+
+    outer = radius + planing_allowance
+    inner = outer - thickness
+    at = f" at {where}" if where else ""
+    if inner <= 0:
+        raise DesignError(f"wall {show(thickness)} is too thick for the bore{at}: the staves' inner faces "
+                          f"would meet at the axis (outer apothem {show(outer)})", "hollow.wall")
+    notch = notch_for(joint, staves, thickness, units)
+    key = "hollow.notch" if joint.kind == "birdsmouth-custom" else "hollow.joint"
+    width = closure_width(staves, inner, notch, thickness)
+    frame = stave_frame(staves, outer, thickness, width, notch)
+    if notch is not None and not (0 < notch.depth < width):
+        raise DesignError(f"notch depth {show(notch.depth)} does not fit a stave {show(width)} wide{at}", key)
+    polygon = stave_polygon(staves, frame, notch, key)
+    overlap = check_interference(polygon, staves, at, key)
+    corner = inner / math.cos(math.pi / staves)
+    if radius <= corner:
+        raise DesignError(
+            f"rounding breaks into the bore{at}: finished radius {show(radius)} but the bore's corners reach "
+            f"{show(corner)}; use a thicker wall or more staves", "hollow.wall")
+    ring = list(polygon.exterior.coords)[:-1]
+    wall = _ring_of(ring_in_disc_moments(ring, radius), staves)
+    bore = ring_moments(bore_ring(staves, inner))
+    voids = disc_moments(radius) - bore - wall
+    if abs(voids.area) <= VOID_TOLERANCE * math.pi * radius**2:
+        voids = Moments()
+    return Section(
+        staves=staves,
+        joint=joint.kind,
+        radius=radius,
+        thickness=thickness,
+        outer_apothem=outer,
+        stave_width=width,
+        notch=notch,
+        frame=frame,
+        stave_outline=tuple(ring),
+        wall=wall,
+        bore=bore,
+        voids=voids,
+        overlap=overlap,
+        glue_line=_glue_line(staves, frame, notch, radius),
+    )

@@ -1,0 +1,89 @@
+"""The hollow spar's finished sections along its length.
+
+At each position: the finished diameter (linear between the file's
+stations), the wall there, and the exact section for the stave outer
+apothem a_o = R + planing allowance. Positions mm from the heel.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+from ..model.spar import Plug, Spar
+from ..section.properties import Section, evaluate_section
+from ..units import format_length
+from .grid import MERGE_TOLERANCE, StationMark, station_marks
+
+
+@dataclass(frozen=True)
+class Station:
+    """One evaluated position: diameters and wall (mm), the plug there if any, and the section."""
+
+    z: float
+    reasons: tuple[str, ...]
+    plan_diameter: float
+    diameter: float
+    wall: float
+    plug: Plug | None
+    section: Section
+
+
+def where(spar: Spar, z: float) -> str:
+    """A position for messages: ``5' 3" from the heel`` or ``1600.0 mm from the heel``."""
+    return f"{format_length(z, spar.units, tape=True)} from the heel"
+
+
+def plug_at_station(spar: Spar, z: float) -> Plug | None:
+    """The plug filling the bore at ``z``; at a plug's inner end the open bore beside it counts."""
+    tol = MERGE_TOLERANCE
+    for plug in spar.hollow.plugs:
+        inside = plug.start + tol < z < plug.end - tol
+        at_heel = z <= tol and plug.start <= tol
+        at_head = z >= spar.length - tol and plug.end >= spar.length - tol
+        if inside or at_heel or at_head:
+            return plug
+    return None
+
+
+class SectionCache:
+    """Sections keyed by (radius, wall): tapers often repeat the same section."""
+
+    def __init__(self, spar: Spar) -> None:
+        if not spar.resolved:
+            raise ValueError("staves and wall must be resolved before sections are evaluated")
+        self.spar = spar
+        self._cache: dict[tuple[float, float], Section] = {}
+
+    def at(self, z: float) -> Section:
+        """The finished section at ``z`` mm from the heel."""
+        spar = self.spar
+        radius = float(spar.hollow.diameter.at(z)) / 2
+        wall = float(spar.hollow.wall.at(z))
+        key = (round(radius, 9), round(wall, 9))
+        section = self._cache.get(key)
+        if section is None:
+            section = evaluate_section(spar.hollow.staves, spar.hollow.joint, radius, wall,
+                                       spar.hollow.planing_allowance, where(spar, z), spar.units)
+            self._cache[key] = section
+        return section
+
+
+def evaluate_stations(spar: Spar, marks: tuple[StationMark, ...] | None = None,
+                      cache: SectionCache | None = None) -> tuple[Station, ...]:
+    """Every station of the spar (or of ``marks``), heel to head."""
+    cache = cache or SectionCache(spar)
+    marks = marks if marks is not None else station_marks(spar)
+    stations = []
+    for mark in marks:
+        section = cache.at(mark.z)
+        stations.append(Station(
+            z=mark.z,
+            reasons=mark.reasons,
+            plan_diameter=float(spar.plan.diameter.at(mark.z)),
+            diameter=2 * section.radius,
+            wall=section.thickness,
+            plug=plug_at_station(spar, mark.z),
+            section=section,
+        ))
+    return tuple(stations)
+

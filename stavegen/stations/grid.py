@@ -1,0 +1,57 @@
+"""Where along the spar things are evaluated (positions in mm from the heel)."""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+from ..model.spar import AUTO, Spar
+
+MERGE_TOLERANCE = 0.05  # mm: positions closer than this are one station
+
+
+@dataclass(frozen=True)
+class StationMark:
+    """A position (mm from the heel) and why it is there: heel, head, plan, hollow, wall, mark, plug."""
+
+    z: float
+    reasons: tuple[str, ...]
+
+
+def station_marks(spar: Spar, extra: dict[str, list[float]] | None = None) -> tuple[StationMark, ...]:
+    """The stations of a spar: ends, file stations, plug ends and every ``output.mark_spacing``.
+
+    ``extra`` adds positions with a reason of the caller's (scarf ends, segment ends).
+    """
+    found: list[tuple[float, str]] = [(0.0, "heel"), (spar.length, "head")]
+    found += [(z, "plan") for z in spar.plan.diameter.z]
+    if spar.hollow.diameter_given:
+        found += [(z, "hollow") for z in spar.hollow.diameter.z]
+    if spar.hollow.wall != AUTO and not spar.hollow.wall.is_constant:
+        found += [(z, "wall") for z in spar.hollow.wall.z]
+    for plug in spar.hollow.plugs:
+        found += [(plug.start, "plug"), (plug.end, "plug")]
+    step = spar.output.mark_spacing
+    k = 1
+    while k * step < spar.length - MERGE_TOLERANCE:
+        found.append((k * step, "mark"))
+        k += 1
+    for reason, positions in (extra or {}).items():
+        found += [(z, reason) for z in positions]
+    found.sort()
+    marks: list[StationMark] = []
+    for z, reason in found:
+        z = min(max(z, 0.0), spar.length)
+        if marks and z - marks[-1].z <= MERGE_TOLERANCE:
+            last = marks[-1]
+            reasons = last.reasons if reason in last.reasons else last.reasons + (reason,)
+            # Ends stay exactly at 0 and L; a position from the file wins over a computed mark.
+            keep = last.z if (last.z in (0.0, spar.length) or reason == "mark") else z
+            marks[-1] = StationMark(keep, reasons)
+        else:
+            marks.append(StationMark(z, (reason,)))
+    return tuple(marks)
+
+
+def intervals(positions: list[float] | tuple[float, ...]) -> list[tuple[float, float, float]]:
+    """(start, middle, end) of each stretch between neighbouring positions, for Simpson's rule."""
+    return [(a, (a + b) / 2, b) for a, b in zip(positions, positions[1:])]

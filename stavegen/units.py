@@ -1,0 +1,232 @@
+"""Lengths, stresses and densities at the edges of the program.
+
+Inside, stavegen works in millimetres, newtons, N/mm² (MPa) and kg/m³.
+This module turns what a builder writes ("13 ft 6 in", "4 3/4", "1/8 in",
+"6.2 m", "120 mm", or a bare number in the file's unit) into millimetres,
+and turns millimetres back into what a builder reads: feet, inches and
+32nds where a tape measure is read, millimetres to one decimal otherwise.
+"""
+
+from __future__ import annotations
+
+import math
+import re
+from fractions import Fraction
+
+MM_PER_INCH = 25.4
+MM_PER_FOOT = 304.8
+MPA_PER_PSI = 0.006894757293168361  # 1 lbf/in² in N/mm² (exact by definition of lbf and in)
+KG_M3_PER_LB_FT3 = 16.01846337396014  # 1 lb/ft³ in kg/m³
+UNIT_SYSTEMS = ("in", "mm")
+
+_UNIT_MM = {
+    "ft": MM_PER_FOOT, "feet": MM_PER_FOOT, "foot": MM_PER_FOOT, "'": MM_PER_FOOT,
+    "in": MM_PER_INCH, "inch": MM_PER_INCH, "inches": MM_PER_INCH, '"': MM_PER_INCH,
+    "mm": 1.0, "cm": 10.0, "m": 1000.0,
+}
+
+# One term of a length: a number (whole, decimal, fraction, or whole and
+# fraction) followed by an optional unit.
+_TERM = re.compile(
+    r"""\s*(?:
+        (?P<fn>\d+)\s*/\s*(?P<fd>\d+)                               # 3/4
+      | (?P<whole>\d+(?:\.\d*)?|\.\d+)(?:[ \t]*[\s-][ \t]*(?P<mn>\d+)\s*/\s*(?P<md>\d+))?  # 4, 4.5, 4 3/4, 4-3/4
+    )\s*(?P<unit>feet|foot|ft|inches|inch|in|mm|cm|m|'|")?\s*""",
+    re.VERBOSE | re.IGNORECASE,
+)
+_EXPONENT = re.compile(r"^\s*[-+]?(\d+\.?\d*|\.\d+)[eE][-+]?\d+\s*(mm|cm|m|in|ft)?\s*$")
+
+
+class UnitError(ValueError):
+    """A value that is not a length (or stress, or density) as written."""
+
+
+def _check_finite(value: float, text: object) -> float:
+    if not math.isfinite(value):
+        raise UnitError(f"not a finite number: {text!r}")
+    if abs(value) > 1e9:
+        raise UnitError(f"too large to be a spar dimension: {text!r}")
+    return value
+
+
+def parse_length(value: object, units: str) -> float:
+    """Millimetres from a bare number (in ``units``) or a string with units.
+
+    ``units`` is the file's unit system, "in" or "mm". Raises UnitError with
+    the reason when the value cannot be read as a length.
+    """
+    if isinstance(value, bool):
+        raise UnitError(f"expected a length, got {str(value).lower()}")
+    if isinstance(value, (int, float)):
+        return _check_finite(float(value) * _UNIT_MM[units], value)
+    if not isinstance(value, str):
+        raise UnitError(f"expected a length, got {type(value).__name__}")
+    text = value.strip()
+    if not text:
+        raise UnitError("empty length")
+    sign = 1.0
+    if text[0] in "+-":
+        sign = -1.0 if text[0] == "-" else 1.0
+        text = text[1:].lstrip()
+    match = _EXPONENT.match(text)
+    if match:
+        number = float(text.rstrip("mcintf \t"))
+        unit = (match.group(2) or units).lower()
+        return _check_finite(sign * number * _UNIT_MM[unit], value)
+    terms: list[tuple[float, str | None]] = []
+    pos = 0
+    while pos < len(text):
+        term = _TERM.match(text, pos)
+        if not term or term.end() == pos:
+            raise UnitError(f"not a length: {value!r} (write e.g. 4 3/4, \"13 ft 6 in\", \"120 mm\")")
+        if term.group("fn"):
+            den = int(term.group("fd"))
+            if den == 0:
+                raise UnitError(f"division by zero in {value!r}")
+            number = int(term.group("fn")) / den
+        else:
+            number = float(term.group("whole"))
+            if term.group("mn"):
+                den = int(term.group("md"))
+                if den == 0:
+                    raise UnitError(f"division by zero in {value!r}")
+                if "." in term.group("whole"):
+                    raise UnitError(f"a decimal cannot carry a fraction: {value!r}")
+                number += int(term.group("mn")) / den
+        unit = term.group("unit")
+        terms.append((number, unit.lower() if unit else None))
+        pos = term.end()
+    return _check_finite(sign * _combine(terms, units, value), value)
+
+
+def _combine(terms: list[tuple[float, str | None]], units: str, original: object) -> float:
+    """Join parsed terms: a single number, or feet followed by inches."""
+    if len(terms) == 1:
+        number, unit = terms[0]
+        return number * _UNIT_MM[unit or units]
+    if len(terms) == 2:
+        (feet, u1), (inches, u2) = terms
+        if _UNIT_MM.get(u1 or "") == MM_PER_FOOT and (u2 is None or _UNIT_MM[u2] == MM_PER_INCH):
+            return feet * MM_PER_FOOT + inches * MM_PER_INCH
+    raise UnitError(f"not a length: {original!r} (combine only feet and inches, as \"13 ft 6 in\")")
+
+
+def to_unit(mm: float, units: str) -> float:
+    """``mm`` expressed in the unit system's base unit (inches or mm)."""
+    return mm / _UNIT_MM[units]
+
+
+def from_unit(value: float, units: str) -> float:
+    """Millimetres from a number in the unit system's base unit."""
+    return value * _UNIT_MM[units]
+
+
+def inch_fraction(inches: float, denominator: int = 32) -> tuple[int, int, int, int]:
+    """(sign, whole, numerator, denominator) of ``inches`` to the nearest 1/denominator, reduced."""
+    sign = -1 if inches < 0 else 1
+    total = round(abs(inches) * denominator)
+    whole, num = divmod(total, denominator)
+    frac = Fraction(num, denominator)
+    return sign if total else 1, whole, frac.numerator, frac.denominator if num else 1
+
+
+def format_inches(mm: float, mark: bool = True, denominator: int = 32) -> str:
+    """Inches and a fraction to the nearest 1/32: ``3 7/16"``."""
+    sign, whole, num, den = inch_fraction(mm / MM_PER_INCH, denominator)
+    text = "-" if sign < 0 else ""
+    if num and whole:
+        text += f"{whole} {num}/{den}"
+    elif num:
+        text += f"{num}/{den}"
+    else:
+        text += f"{whole}"
+    return text + ('"' if mark else "")
+
+
+def format_tape(mm: float, denominator: int = 32) -> str:
+    """A position as read off a tape: ``5' 3 7/16"``, or ``9 1/2"`` under a foot."""
+    sign, whole, num, den = inch_fraction(mm / MM_PER_INCH, denominator)
+    feet, inches = divmod(whole, 12)
+    prefix = "-" if sign < 0 else ""
+    rest = f"{inches} {num}/{den}" if num and inches else (f"{num}/{den}" if num else f"{inches}")
+    if feet == 0:
+        return f'{prefix}{rest}"'
+    return f"{prefix}{feet}' {rest}\""
+
+
+def format_mm(mm: float, decimals: int = 1) -> str:
+    """Millimetres to one decimal: ``1234.5 mm``."""
+    return f"{mm:.{decimals}f} mm"
+
+
+def format_length(mm: float, units: str, tape: bool = False) -> str:
+    """A length for people: fractions of an inch (feet too if ``tape``), or mm."""
+    if units == "in":
+        return format_tape(mm) if tape else format_inches(mm)
+    return format_mm(mm)
+
+
+def format_plain(mm: float, units: str) -> str:
+    """A length in the file's unit without a unit mark, for spreadsheets: ``3 7/16`` or ``87.3``."""
+    if units == "in":
+        return format_inches(mm, mark=False)
+    return f"{mm:.1f}"
+
+
+def round_trip_tolerance_mm(units: str) -> float:
+    """Largest error :func:`format_length` makes: half a 32nd, or half a tenth of a mm."""
+    return MM_PER_INCH / 64 if units == "in" else 0.05
+
+
+# Stresses (moduli and strengths) and densities -----------------------------
+
+_STRESS_MPA = {"psi": MPA_PER_PSI, "ksi": 1000 * MPA_PER_PSI, "mpa": 1.0, "gpa": 1000.0, "n/mm2": 1.0}
+_DENSITY = {"kg/m3": 1.0, "lb/ft3": KG_M3_PER_LB_FT3, "pcf": KG_M3_PER_LB_FT3}
+_QUANTITY = re.compile(r"^\s*([-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?)\s*([A-Za-z/0-9³²]+)?\s*$")
+
+
+def _parse_quantity(value: object, table: dict[str, float], default_unit: str, what: str) -> float:
+    if isinstance(value, bool):
+        raise UnitError(f"expected {what}, got {str(value).lower()}")
+    if isinstance(value, (int, float)):
+        return _check_finite(float(value) * table[default_unit], value)
+    if not isinstance(value, str):
+        raise UnitError(f"expected {what}, got {type(value).__name__}")
+    match = _QUANTITY.match(value)
+    if not match:
+        raise UnitError(f"not {what}: {value!r}")
+    unit = (match.group(2) or default_unit).lower().replace("³", "3").replace("²", "2")
+    if unit not in table:
+        raise UnitError(f"unknown unit {match.group(2)!r} for {what} (use {', '.join(table)})")
+    return _check_finite(float(match.group(1)) * table[unit], value)
+
+
+def parse_stress(value: object, units: str) -> float:
+    """N/mm² from a number (psi for "in" files, MPa for "mm") or "1.6e6 psi", "11 GPa"."""
+    return _parse_quantity(value, _STRESS_MPA, "psi" if units == "in" else "mpa", "a stress")
+
+
+def parse_density(value: object, units: str) -> float:
+    """kg/m³ from a number (lb/ft³ for "in" files, kg/m³ for "mm") or "28 lb/ft3", "450 kg/m3"."""
+    return _parse_quantity(value, _DENSITY, "lb/ft3" if units == "in" else "kg/m3", "a density")
+
+
+def stress_in(mpa: float, system: str) -> float:
+    """A stress from N/mm² into psi ("psi") or MPa ("mpa")."""
+    return mpa / MPA_PER_PSI if system == "psi" else mpa
+
+
+# Mass and force for people ----------------------------------------------------
+
+KG_PER_LB = 0.45359237
+N_PER_LBF = 4.4482216152605
+
+
+def format_mass(kg: float, units: str) -> str:
+    """``27.1 lb`` for inch files, ``12.3 kg`` for mm files."""
+    return f"{kg / KG_PER_LB:.1f} lb" if units == "in" else f"{kg:.1f} kg"
+
+
+def format_force(newtons: float, units: str) -> str:
+    """``1,234 lbf`` for inch files, ``5,490 N`` for mm files."""
+    return f"{newtons / N_PER_LBF:,.0f} lbf" if units == "in" else f"{newtons:,.0f} N"

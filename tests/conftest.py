@@ -1,0 +1,51 @@
+"""Shared helpers: spar files built in code, and the command line run in-process."""
+
+from __future__ import annotations
+
+import copy
+from pathlib import Path
+
+import pytest
+from typer.testing import CliRunner
+
+from stavegen.cli import app
+from stavegen.model.loader import parse_spar
+
+ROOT = Path(__file__).resolve().parent.parent
+SAMPLES = ROOT / "samples"
+
+# A plain uniform spar, invented for the tests (not a design).
+UNIFORM = {
+    "spar": {"name": "Test spar", "units": "mm", "length": 3000},
+    "plan": {"wood": "sitka-spruce", "stations": [[0, 100], [3000, 100]]},
+    "hollow": {"wood": "sitka-spruce", "staves": 8, "joint": "birdsmouth-flush", "wall": 20,
+               "planing_allowance": 0},
+}
+
+
+def spar_dict(**changes) -> dict:
+    """A copy of the uniform test spar with tables updated: spar_dict(hollow={"staves": 12})."""
+    data = copy.deepcopy(UNIFORM)
+    for table, values in changes.items():
+        if values is None:
+            data.pop(table, None)
+        elif isinstance(values, dict) and table in data:
+            data[table].update(values)
+        else:
+            data[table] = values
+    return data
+
+
+def make_spar(**changes):
+    return parse_spar(spar_dict(**changes), "test.toml")
+
+
+@pytest.fixture
+def run():
+    """Run the stavegen command line in-process: run(["check", path]) -> Result."""
+    runner = CliRunner()
+
+    def _run(args, **kw):
+        return runner.invoke(app, [str(a) for a in args], **kw)
+
+    return _run

@@ -1,0 +1,107 @@
+"""The commands as a user runs them: exit codes, JSON keys, files written."""
+
+import json
+import os
+
+import pytest
+
+from stavegen.model.loader import load_spar
+
+from conftest import SAMPLES
+
+STATION_KEYS = {"z_mm", "od_mm", "wall_mm", "stave_width_mm", "notch_depth_mm", "apex_height_mm",
+                "across_flats_mm", "area_mm2", "I_mm4", "EI_Nmm2", "plan_od_mm", "plan_I_mm4",
+                "plan_EI_Nmm2", "ei_ratio", "strength_ratio", "void_mm2", "min_wall_mm", "plug"}
+
+
+@pytest.mark.parametrize("name, code", [("catboat-mast.toml", 0), ("yawl-mainmast-metric.toml", 0),
+                                        ("skiff-boom-too-light.toml", 1)])
+def test_check_exit_codes_and_json(run, name, code):
+    result = run(["check", SAMPLES / name, "--json"])
+    assert result.exit_code == code, result.output
+    doc = json.loads(result.stdout)
+    assert set(doc) >= {"spar", "stations", "check", "mass"}
+    assert set(doc["spar"]) >= {"name", "length_mm", "staves", "joint", "units"}
+    assert set(doc["check"]) >= {"passed", "min_ei_ratio", "min_ei_ratio_z_mm", "min_strength_ratio"}
+    assert set(doc["mass"]) >= {"hollow_kg", "plan_kg", "hollow_cg_mm", "plan_cg_mm"}
+    for station in doc["stations"]:
+        assert set(station) >= STATION_KEYS
+    assert doc["check"]["passed"] is (code == 0)
+    least = min(doc["stations"], key=lambda s: s["ei_ratio"])
+    assert doc["check"]["min_ei_ratio"] == least["ei_ratio"]
+    assert doc["check"]["min_ei_ratio_z_mm"] == least["z_mm"]
+    # EI ratio is the quotient of the two EI columns at every station.
+    for s in doc["stations"]:
+        assert s["ei_ratio"] == pytest.approx(s["EI_Nmm2"] / s["plan_EI_Nmm2"], rel=1e-12)
+
+
+def test_check_table_names_the_least_station_and_shows_cautions(run):
+    result = run(["check", SAMPLES / "skiff-boom-too-light.toml"])
+    assert result.exit_code == 1
+    assert "FAIL" in result.stdout and "short by" in result.stdout
+    assert "does not replace a designer" in result.stdout
+    ok = run(["check", SAMPLES / "catboat-mast.toml"])
+    assert ok.exit_code == 0 and "PASS" in ok.stdout and "least" in ok.stdout
+    assert "qualified designer" in ok.stdout
+
+
+def test_stations_include_marks_file_stations_and_plug_ends(run):
+    doc = json.loads(run(["check", SAMPLES / "catboat-mast.toml", "--json"]).stdout)
+    z = [s["z_mm"] for s in doc["stations"]]
+    assert z == sorted(z) and z[0] == 0 and z[-1] == pytest.approx(20 * 304.8)
+    for expected in (0, 2 * 304.8, 8 * 304.8, 14 * 304.8, 3 * 304.8, 18.5 * 304.8):  # plan stations, plug ends
+        assert any(abs(v - expected) < 0.05 for v in z), expected
+    assert all(any(abs(v - k * 304.8) < 0.05 for v in z) for k in range(1, 20))  # every foot
+    # The plug at the heel ends at 3 ft: the station there counts the open bore beside it.
+    at_three = next(s for s in doc["stations"] if abs(s["z_mm"] - 914.4) < 0.05)
+    assert at_three["plug"] is False
+
+
+def test_section_command(run):
+    result = run(["section", SAMPLES / "catboat-mast.toml", "--at", "7 ft 6 in"])
+    assert result.exit_code == 0, result.output
+    assert "stave width" in result.stdout and "45.00°" in result.stdout
+    bad = run(["section", SAMPLES / "catboat-mast.toml", "--at", "30 ft"])
+    assert bad.exit_code == 2 and "--at" in bad.stderr
+
+
+def test_woods_command(run):
+    result = run(["woods"])
+    assert result.exit_code == 0
+    assert "sitka-spruce" in result.stdout and "1,570,000" in result.stdout and "from memory" in result.stdout
+    metric = run(["woods", "--units", "mm"])
+    assert "MPa" in metric.stdout
+
+
+@pytest.mark.parametrize("units", ["in", "mm"])
+def test_init_writes_a_valid_spar_that_checks(run, tmp_path, units):
+    path = tmp_path / "mine.toml"
+    assert run(["init", path, "--units", units]).exit_code == 0
+    spar = load_spar(path)
+    assert spar.units == units
+    assert run(["check", path]).exit_code in (0, 1)
+    again = run(["init", path])
+    assert again.exit_code == 2 and "already exists" in again.stderr
+
+
+def test_build_writes_json(run, tmp_path):
+    out = tmp_path / "out"
+    result = run(["build", SAMPLES / "yawl-mainmast-metric.toml", "-o", out])
+    assert result.exit_code == 0, result.output
+    doc = json.loads((out / "yawl-mainmast.json").read_text())
+    assert doc["spar"]["units"] == "mm"
+    assert not [p for p in os.listdir(out) if p.endswith(".part")]
+
+
+def test_build_without_a_file_builds_the_bundled_example(run, tmp_path):
+    result = run(["build", "-o", tmp_path])
+    assert result.exit_code == 0, result.output
+    assert (tmp_path / "catboat-mast.json").exists()
+
+
+def test_build_into_an_unwritable_place(run, tmp_path):
+    blocker = tmp_path / "file"
+    blocker.write_text("not a folder")
+    result = run(["build", SAMPLES / "catboat-mast.toml", "-o", blocker / "out"])
+    assert result.exit_code == 2
+    assert "-o/--out" in result.stderr and "\n" not in result.stderr.strip()
