@@ -15,16 +15,18 @@ from .units import format_mass
 
 def output_names(slug: str) -> dict[str, str]:
     """The files a build writes, by what they are."""
-    return {"json": f"{slug}.json"}
+    return {"json": f"{slug}.json", "csv": f"{slug}-cutlist.csv"}
 
 
 def write_outputs(result: Design, folder: Path) -> list[Path]:
     """Render every output into ``folder`` under temporary names, then rename them all."""
+    from .render.csv_cutlist import to_csv
     from .render.json_doc import to_json
 
     names = output_names(result.spar.slug)
     with OutputSet(folder) as out:
         out.add_text(names["json"], to_json(result))
+        out.add_text(names["csv"], to_csv(result))
         return out.commit()
 
 
@@ -32,8 +34,8 @@ def run_build(path: Path, folder: Path, console: Console) -> Design:
     """Check, lay out and write; prints progress and a short summary."""
     with console.status("reading the spar file"):
         spar = load_spar(path)
-    with console.status("checking sections against the plan"):
-        result = design(spar)
+    with console.status("checking sections against the plan and laying out the staves"):
+        result = design(spar, layout=True)
     with console.status("writing outputs"):
         written = write_outputs(result, folder)
     r = result.assessment

@@ -36,14 +36,19 @@ def resolve(spar: Spar) -> tuple[Spar, tuple[str, ...]]:
     raise InputError('"auto" is not available in this version; give a number', key, spar.source)
 
 
-def design(spar: Spar) -> Design:
-    """Check the spar (solving what is ``auto``) without laying out the staves."""
+def design(spar: Spar, layout: bool = False) -> Design:
+    """Check the spar (solving what is ``auto``); with ``layout``, also make the shop plan."""
     try:
         spar, solved = resolve(spar)
         result = assess(spar)
+        shop = None
+        if layout:
+            from .layout.plan import lay_out
+
+            shop = lay_out(spar)
     except InputError as exc:
         raise exc.located(spar.source)
-    return Design(spar=spar, assessment=result, warnings=tuple(warnings_for(result)), solved=solved)
+    return Design(spar=spar, assessment=result, warnings=tuple(warnings_for(result)), layout=shop, solved=solved)
 
 
 def design_file(path: str | Path) -> Design:

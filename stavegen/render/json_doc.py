@@ -10,6 +10,8 @@ from .. import __version__
 from ..cautions import CAUTIONS
 from ..checks.ratios import StationCheck
 from ..model.woods import Wood
+from ..layout.plan import Layout
+from ..layout.segments import Segment
 from ..pipeline import Design
 
 SCHEMA_VERSION = 1
@@ -112,7 +114,53 @@ def document(design: Design) -> dict[str, Any]:
         "warnings": list(design.warnings),
         "cautions": list(CAUTIONS),
     }
+    if design.layout is not None:
+        doc.update(_layout(design.layout))
     return doc
+
+
+def _segment(seg: Segment, board: str | None) -> dict[str, Any]:
+    return {
+        "index": seg.index,
+        "label": seg.label,
+        "from_mm": seg.start,
+        "to_mm": seg.end,
+        "length_mm": seg.length,
+        "board": board,
+        "widest_mm": seg.widest,
+        "narrowest_mm": seg.narrowest,
+        "rough_width_mm": seg.rough_width,
+        "scarf_at_start": seg.scarf_at_start,
+        "scarf_at_end": seg.scarf_at_end,
+        "volume_mm3": seg.volume,
+    }
+
+
+def _layout(layout: Layout) -> dict[str, Any]:
+    plan = layout.plan
+    boards = layout.lumber.board_of if layout.lumber is not None else {}
+    return {
+        "stave_plan": {
+            "taper": plan.taper,
+            "cut_length_mm": plan.cut_length,
+            "finished_length_mm": plan.finished_length,
+            "end_allowance_mm": plan.end_allowance,
+            "edge_allowance_mm": plan.edge_allowance,
+            "stations": [{"z_mm": st.z, "s_mm": st.s, "width_mm": st.width, "rough_width_mm": st.rough_width,
+                          "thickness_mm": st.thickness, "notch_depth_mm": st.notch_depth,
+                          "apex_height_mm": st.apex_height, "reasons": list(st.reasons)} for st in plan.stations],
+        },
+        "staves": [{"index": k, "phase": layout.scarfs.phases[k - 1],
+                    "segments": [_segment(seg, boards.get(seg.label)) for seg in segs]}
+                   for k, segs in enumerate(layout.staves, start=1)],
+        "scarfs": [{"stave": k, "z_mm": z, "length_mm": layout.scarfs.length}
+                   for k, centres in enumerate(layout.scarfs.centres, start=1) for z in centres],
+        "plugs": [{"index": p.index, "from_mm": p.plug.start, "to_mm": p.plug.end, "length_mm": p.length,
+                   "wood": p.plug.wood.key, "heel_across_flats_mm": p.heel.across_flats,
+                   "heel_across_corners_mm": p.heel.across_corners, "head_across_flats_mm": p.head.across_flats,
+                   "head_across_corners_mm": p.head.across_corners, "volume_mm3": p.volume, "mass_kg": p.mass}
+                  for p in layout.plugs],
+    }
 
 
 def _clean(value: Any) -> Any:

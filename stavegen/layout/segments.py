@@ -1,0 +1,102 @@
+"""Stave segments and their outlines in plan view: the shapes templates and routers cut.
+
+A segment's outline lies in its own face frame: x along the stave's face
+from the segment's heel end (mm, true length), y across the face (mm) with
+the notch edge straight along y = 0 (or the stave centred on y = 0 for a
+symmetric taper). Between stations the width is straight, which is exact:
+the stave width is linear in the diameter and the wall, and both are linear
+between the stations, which include every change of taper.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+from .staves import StavePlan
+
+Point = tuple[float, float]
+
+
+@dataclass(frozen=True)
+class Tick:
+    """A station mark on a segment: x along it (mm), its z from the heel (mm), and why it is there."""
+
+    x: float
+    z: float
+    width: float
+    reasons: tuple[str, ...]
+
+
+@dataclass(frozen=True)
+class Segment:
+    """One piece of one stave (stave and segment numbered from 1), heel end to head end.
+
+    ``start``/``end`` are z (mm from the heel, end allowances included); ``length``
+    is the true length along the face (mm). ``scarf_at_start``/``scarf_at_end``
+    say whether that end is a scarf (feathered over ``scarf_length``) or a
+    square-cut stave end.
+    """
+
+    stave: int
+    index: int
+    start: float
+    end: float
+    length: float
+    scarf_at_start: bool
+    scarf_at_end: bool
+    scarf_length: float
+    outline: tuple[Point, ...]
+    notch_edge: tuple[Point, ...]
+    square_edge: tuple[Point, ...]
+    ticks: tuple[Tick, ...]
+    widest: float
+    narrowest: float
+    rough_width: float
+    volume: float
+
+    @property
+    def label(self) -> str:
+        return f"S{self.stave}-{self.index}"
+
+    @property
+    def feather_lines(self) -> tuple[float, ...]:
+        """x (mm) where each scarf's slope begins on this segment: the scarf's far line from its tip."""
+        lines = []
+        if self.scarf_at_start:
+            lines.append(self.scarf_length)
+        if self.scarf_at_end:
+            lines.append(self.length - self.scarf_length)
+        return tuple(lines)
+
+
+def make_segment(plan: StavePlan, stave: int, index: int, start: float, end: float,
+                 scarf_at_start: bool, scarf_at_end: bool, scarf_length: float) -> Segment:
+    """The segment of ``plan`` from z = start to end (mm) with its outline and marks."""
+    s0 = plan.s_at(start)
+    inner = plan.between(start, end)
+    points_z = [start] + [st.z for st in inner] + [end]
+    xs = [plan.s_at(z) - s0 for z in points_z]
+    lower, upper = [], []
+    for x, z in zip(xs, points_z):
+        a, b = plan.edges_at(z)
+        lower.append((x, a))
+        upper.append((x, b))
+    if plan.taper == "symmetric":
+        notch_edge, square_edge = tuple(lower), tuple(upper)
+    else:
+        notch_edge, square_edge = (lower[0], lower[-1]), tuple(upper)
+    outline = tuple([lower[0], lower[-1]] if plan.taper != "symmetric" else lower) + tuple(reversed(upper))
+    widths = [b - a for (_, a), (_, b) in zip(lower, upper)]
+    # Finished stave wood in the segment: width × thickness, trapezoid rule (exact for straight runs
+    # of width when the thickness is constant; within 1e-6 for any realistic wall taper).
+    thick = [plan.thickness_at(z) for z in points_z]
+    volume = sum((x1 - x0) * (w0 * t0 + w1 * t1) / 2
+                 for x0, x1, w0, w1, t0, t1 in zip(xs, xs[1:], widths, widths[1:], thick, thick[1:]))
+    ticks = tuple(Tick(x=plan.s_at(st.z) - s0, z=st.z, width=st.width, reasons=st.reasons) for st in inner)
+    return Segment(
+        stave=stave, index=index, start=start, end=end, length=xs[-1],
+        scarf_at_start=scarf_at_start, scarf_at_end=scarf_at_end, scarf_length=scarf_length,
+        outline=outline, notch_edge=notch_edge, square_edge=square_edge, ticks=ticks,
+        widest=max(widths), narrowest=min(widths), rough_width=max(widths) + 2 * plan.edge_allowance,
+        volume=volume,
+    )

@@ -1,0 +1,143 @@
+"""One stave along its length: widths at every station, true length along its face, the taper.
+
+All N staves of a spar have the same shape, so one plan serves them all.
+Positions: z is mm from the heel along the spar's axis (negative in the heel
+end allowance, past the length in the head's); s is mm along the stave's
+outer face from its cut heel end, s = ∫ √(1 + (da_o/dz)²) dz. Widths are
+the stave's width before the notch (from the closure relation) in mm; the
+rough width adds the edge allowance jointed off each edge.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+
+import numpy as np
+
+from ..model.spar import Spar
+from ..stations.evaluate import SectionCache
+from ..stations.grid import StationMark
+
+
+@dataclass(frozen=True)
+class StaveStation:
+    """The stave at one position: widths, thickness and notch (mm)."""
+
+    z: float
+    s: float
+    width: float
+    rough_width: float
+    thickness: float
+    notch_depth: float | None
+    apex_height: float | None
+    reasons: tuple[str, ...]
+
+
+@dataclass(frozen=True)
+class StavePlan:
+    """The shape every stave is cut to, heel end to head end, end allowances included."""
+
+    stations: tuple[StaveStation, ...]
+    taper: str
+    edge_allowance: float
+    end_allowance: float
+    spar_length: float
+
+    @property
+    def start(self) -> float:
+        """z of the stave's heel end (mm): minus the end allowance."""
+        return self.stations[0].z
+
+    @property
+    def end(self) -> float:
+        """z of the stave's head end (mm): the spar's length plus the end allowance."""
+        return self.stations[-1].z
+
+    @property
+    def cut_length(self) -> float:
+        """The stave's true length along its face, end allowances included (mm)."""
+        return self.stations[-1].s - self.stations[0].s
+
+    @property
+    def finished_length(self) -> float:
+        """True length along the face between heel and head of the finished spar (mm)."""
+        return self.s_at(self.spar_length) - self.s_at(0.0)
+
+    def _column(self, name: str) -> np.ndarray:
+        return np.array([getattr(st, name) for st in self.stations])
+
+    def s_at(self, z: float) -> float:
+        """Distance along the face (mm) from the stave's heel end to position z."""
+        return float(np.interp(z, self._column("z"), self._column("s")))
+
+    def z_at(self, s: float) -> float:
+        return float(np.interp(s, self._column("s"), self._column("z")))
+
+    def width_at(self, z: float) -> float:
+        """Finished stave width at z (mm), straight between stations."""
+        return float(np.interp(z, self._column("z"), self._column("width")))
+
+    def thickness_at(self, z: float) -> float:
+        return float(np.interp(z, self._column("z"), self._column("thickness")))
+
+    def widest(self) -> StaveStation:
+        return max(self.stations, key=lambda st: st.width)
+
+    def narrowest(self) -> StaveStation:
+        return min(self.stations, key=lambda st: st.width)
+
+    def max_slope_factor(self) -> float:
+        """Largest ds/dz along the stave (≥ 1): how much longer the face is than the axis."""
+        z, s = self._column("z"), self._column("s")
+        dz = np.diff(z)
+        ok = dz > 0
+        return float(np.max(np.diff(s)[ok] / dz[ok])) if ok.any() else 1.0
+
+    def between(self, z0: float, z1: float) -> list[StaveStation]:
+        """Stations strictly between z0 and z1."""
+        return [st for st in self.stations if z0 < st.z < z1]
+
+    def edges_at(self, z: float) -> tuple[float, float]:
+        """(notch edge, square edge) across the face at z, mm: the straight edge at 0, or centred."""
+        w = self.width_at(z)
+        if self.taper == "symmetric":
+            return -w / 2, w / 2
+        return 0.0, w
+
+
+def stave_plan(spar: Spar, marks: tuple[StationMark, ...], cache: SectionCache) -> StavePlan:
+    """The stave shape at ``marks`` (heel to head), extended by the end allowance at each end.
+
+    In the end allowances the stave keeps the width of the end it runs past.
+    """
+    hollow = spar.hollow
+    allowance = spar.stock.edge_allowance if spar.stock is not None else 0.0
+    e = hollow.end_allowance
+    rows: list[tuple[float, tuple[str, ...], object]] = []
+    for mark in marks:
+        rows.append((mark.z, mark.reasons, cache.at(mark.z)))
+    if e > 0:
+        rows.insert(0, (-e, ("heel end",), rows[0][2]))
+        rows.append((spar.length + e, ("head end",), rows[-1][2]))
+    stations = []
+    s = 0.0
+    previous = None
+    for z, reasons, section in rows:
+        if previous is not None:
+            dz = z - previous[0]
+            da = section.outer_apothem - previous[1].outer_apothem
+            s += math.hypot(dz, da)
+        stations.append(StaveStation(
+            z=z,
+            s=s,
+            width=section.stave_width,
+            rough_width=section.stave_width + 2 * allowance,
+            thickness=section.thickness,
+            notch_depth=section.notch.depth if section.notch else None,
+            apex_height=section.notch.apex_height if section.notch else None,
+            reasons=reasons,
+        ))
+        previous = (z, section)
+    return StavePlan(stations=tuple(stations), taper=hollow.taper, edge_allowance=allowance,
+                     end_allowance=e, spar_length=spar.length)
