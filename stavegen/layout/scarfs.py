@@ -19,6 +19,7 @@ the stave's slope; the bounds here use the steepest slope, so they hold.
 
 from __future__ import annotations
 
+import itertools
 import math
 from dataclasses import dataclass
 from typing import Sequence
@@ -93,9 +94,9 @@ def _allowed_zones(spar_length: float, rules: ScarfRules) -> list[tuple[float, f
     return [(lo, hi) for lo, hi in zones if hi > lo]
 
 
-def _solve(start: float, end: float, spar_length: float, rules: ScarfRules, count: int,
-           phases: int, stagger: bool) -> np.ndarray | None:
-    """Scarf centres [phase, i] with the largest common slack, or None when no placement exists."""
+def _solve(start: float, end: float, spar_length: float, rules: ScarfRules, counts: Sequence[int],
+           stagger: bool) -> list[list[float]] | None:
+    """Scarf centres per phase (``counts[p]`` in phase p) with the largest common slack, or None."""
     zones = _allowed_zones(spar_length, rules)
     if not zones:
         return None
@@ -104,23 +105,24 @@ def _solve(start: float, end: float, spar_length: float, rules: ScarfRules, coun
     least = MIN_SEGMENT_FACTOR * rules.length
     half = rules.length / 2
     big = 4 * (end - start + rules.longest_piece)
-    P, m, Z = phases, count, len(zones)
-    # Variables: centres c[p,i] (P·m), zone picks y[p,i,z] (P·m·Z), order picks o[pair], slack t.
-    n_c = P * m
+    P, Z = len(counts), len(zones)
+    offsets = np.concatenate([[0], np.cumsum(counts)]).astype(int)
+    # Variables: centres c[p,i], zone picks y[p,i,z], order picks o[pair], slack t.
+    n_c = int(offsets[-1])
     n_y = n_c * Z
     pairs = []
-    if stagger:
+    if stagger and P > 1:
         adjacent = [(0, 1)] if P == 2 else [(0, 1), (1, 2), (0, 2)]
-        pairs = [(p, i, q, j) for p, q in adjacent for i in range(m) for j in range(m)]
+        pairs = [(p, i, q, j) for p, q in adjacent for i in range(counts[p]) for j in range(counts[q])]
     n_o = len(pairs)
     n = n_c + n_y + n_o + 1
     t_index = n - 1
 
     def c(p: int, i: int) -> int:
-        return p * m + i
+        return int(offsets[p]) + i
 
     def y(p: int, i: int, z: int) -> int:
-        return n_c + (p * m + i) * Z + z
+        return n_c + c(p, i) * Z + z
 
     rows, lo, hi = [], [], []
 
@@ -133,6 +135,7 @@ def _solve(start: float, end: float, spar_length: float, rules: ScarfRules, coun
         hi.append(high)
 
     for p in range(P):
+        m = counts[p]
         for i in range(m):
             # Segment lengths: first, between, last; each fits a board and is no shorter than `least`.
             if i == 0:
@@ -166,9 +169,9 @@ def _solve(start: float, end: float, spar_length: float, rules: ScarfRules, coun
     lower[t_index], upper[t_index] = 0.0, rules.longest_piece
     result = milp(objective, constraints=LinearConstraint(np.array(rows), lo, hi), integrality=integrality,
                   bounds=Bounds(lower, upper), options={"time_limit": 20})
-    if result.x is None or not result.success and result.status != 1:
+    if result.x is None or (not result.success and result.status != 1):
         return None
-    return np.asarray(result.x[:n_c]).reshape(P, m)
+    return [[float(result.x[c(p, i)]) for i in range(counts[p])] for p in range(P)]
 
 
 def place_scarfs(start: float, end: float, face_length: float, spar_length: float, staves: int,
@@ -182,12 +185,15 @@ def place_scarfs(start: float, end: float, face_length: float, spar_length: floa
     if count == 0:
         return ScarfPlan(centres=tuple(() for _ in range(staves)), phases=phases, length=rules.length)
     n_phases = max(phases) + 1
-    for extra in range(0, 3):
-        found = _solve(start, end, spar_length, rules, count + extra, n_phases, stagger=True)
+    share = [phases.count(p) for p in range(n_phases)]
+    options = sorted(itertools.product(range(count, count + 3), repeat=n_phases),
+                     key=lambda cs: (sum(c * k for c, k in zip(cs, share)), max(cs)))
+    for counts in options:
+        found = _solve(start, end, spar_length, rules, counts, stagger=True)
         if found is not None:
-            centres = tuple(tuple(float(v) for v in found[phases[k]]) for k in range(staves))
+            centres = tuple(tuple(found[phases[k]]) for k in range(staves))
             return ScarfPlan(centres=centres, phases=phases, length=rules.length)
-    if _solve(start, end, spar_length, rules, count, 1, stagger=False) is None:
+    if _solve(start, end, spar_length, rules, [count], stagger=False) is None:
         if not _allowed_zones(spar_length, rules):
             raise DesignError("the no-scarf ranges cover the whole spar: there is nowhere to put a scarf",
                               "stock.no_scarf")
