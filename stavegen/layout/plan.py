@@ -40,6 +40,7 @@ def scarf_rules(spar: Spar, plan: StavePlan) -> ScarfRules:
         no_scarf=stock.no_scarf,
         longest_piece=max(stock.lengths) - stock.kerf,
         slope_factor=plan.max_slope_factor(),
+        units=spar.units,
     )
 
 

@@ -28,6 +28,7 @@ import numpy as np
 from scipy.optimize import Bounds, LinearConstraint, milp
 
 from ..errors import DesignError
+from ..units import format_length
 
 MIN_SEGMENT_FACTOR = 2.0  # a segment is at least twice the scarf length
 
@@ -41,6 +42,11 @@ class ScarfRules:
     no_scarf: tuple[tuple[float, float], ...]
     longest_piece: float
     slope_factor: float = 1.0
+    units: str = "mm"
+
+    def show(self, mm: float) -> str:
+        """A length for messages, in the spar's units."""
+        return format_length(mm, self.units, tape=mm > 600)
 
 
 @dataclass(frozen=True)
@@ -70,8 +76,8 @@ def least_segments(span: float, rules: ScarfRules) -> int:
     if span <= piece:
         return 1
     if piece <= rules.length * MIN_SEGMENT_FACTOR:
-        raise DesignError(f"the longest board ({piece:.0f} mm) is too short to carry a segment with "
-                          f"{rules.length:.0f} mm scarfs", "stock.lengths")
+        raise DesignError(f"the longest board ({rules.show(piece)}) is too short to carry a segment with "
+                          f"{rules.show(rules.length)} scarfs", "stock.lengths")
     return math.ceil((span - rules.length) / (piece - rules.length))
 
 
@@ -198,12 +204,12 @@ def place_scarfs(start: float, end: float, face_length: float, spar_length: floa
             raise DesignError("the no-scarf ranges cover the whole spar: there is nowhere to put a scarf",
                               "stock.no_scarf")
         raise DesignError(
-            f"the staves need {count} scarf(s) each with boards of {rules.longest_piece:.0f} mm, but the "
+            f"the staves need {count} scarf(s) each with boards of {rules.show(rules.longest_piece)}, but the "
             "no-scarf ranges leave no place where every segment fits a board; allow scarfs somewhere or "
             "list longer boards", "stock.no_scarf" if rules.no_scarf else "stock.lengths")
     raise DesignError(
-        f"scarfs in neighbouring staves cannot be kept {rules.stagger:.0f} mm apart with boards of "
-        f"{rules.longest_piece:.0f} mm and these no-scarf ranges; reduce the stagger or list longer boards",
+        f"scarfs in neighbouring staves cannot be kept {rules.show(rules.stagger)} apart with boards of "
+        f"{rules.show(rules.longest_piece)} and these no-scarf ranges; reduce the stagger or list longer boards",
         "stock.scarf_stagger")
 
 
