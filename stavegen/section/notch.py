@@ -44,6 +44,9 @@ def notch_for(joint: Joint, staves: int, thickness: float, units: str = "mm") ->
     if joint.kind == "birdsmouth-flush":
         return Notch(depth=t * math.sin(phi), apex_fraction=1 - math.cos(phi), thickness=t)
     if joint.kind == "birdsmouth-centered":
+        if staves <= 4:
+            raise DesignError("a centred notch needs at least 5 staves: with 4 the V has no depth; "
+                              "use the flush birdsmouth", "hollow.joint")
         return Notch(depth=t / 2 * min(math.tan(phi), 1 / math.tan(phi)), apex_fraction=0.5, thickness=t)
     if joint.kind == "birdsmouth-custom":
         f = joint.apex_fraction if joint.apex_fraction is not None else joint.apex_height / t

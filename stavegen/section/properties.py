@@ -20,7 +20,7 @@ from ..model.spar import Joint
 from ..units import format_length
 from .integrals import Moments, disc_moments, ring_in_disc_moments, ring_moments, segment_length_in_disc
 from .notch import Notch, bevel_angle, closure_width, notch_for, v_face_angles
-from .staves import StaveFrame, check_interference, stave_frame, stave_polygon
+from .staves import StaveFrame, check_interference, enclosed_gap_reach, stave_frame, stave_polygon
 
 VOID_TOLERANCE = 1e-9  # of the disc's area: below this a void is roundoff
 
@@ -167,6 +167,15 @@ def evaluate_section(staves: int, joint: Joint, radius: float, thickness: float,
         raise DesignError(
             f"rounding breaks into the bore{at}: finished radius {show(radius)} but the bore's corners reach "
             f"{show(corner)}; use a thicker wall or more staves", "hollow.wall")
+    if joint.kind not in ("birdsmouth-flush", "bevel"):
+        # The hollow is the bore polygon plus whatever voids the notch leaves; rounding must not open it.
+        reach = enclosed_gap_reach(polygon, staves)
+        if reach is None:
+            raise DesignError(f"the staves do not close into a ring round the bore{at}", key)
+        if reach >= radius:
+            raise DesignError(
+                f"rounding opens the wall{at}: the gaps this notch leaves between staves reach {show(reach)} "
+                f"from the axis, past the finished radius {show(radius)}; use the flush birdsmouth", key)
     ring = list(polygon.exterior.coords)[:-1]
     wall = _ring_of(ring_in_disc_moments(ring, radius), staves)
     bore = ring_moments(bore_ring(staves, inner))

@@ -106,3 +106,19 @@ def check_interference(polygon: Polygon, staves: int, where: str, key: str = "ho
         raise DesignError(f"staves overlap by {overlap:.3g} mm² {where}: the notch does not fit its neighbour",
                           key)
     return overlap
+
+
+def enclosed_gap_reach(polygon: Polygon, staves: int) -> float | None:
+    """How far from the axis (mm) the hollow the staves enclose reaches, bore and voids together.
+
+    None when the ring of staves does not close round the axis. Touching faces
+    are merged on a 1e-6 mm grid.
+    """
+    ring = shapely.union_all([placed(polygon, staves, k) for k in range(staves)], grid_size=1e-6)
+    if ring.geom_type != "Polygon":
+        return None
+    axis = shapely.Point(0.0, 0.0)
+    for hole in ring.interiors:
+        if Polygon(hole).contains(axis):
+            return max(math.hypot(x, y) for x, y in hole.coords)
+    return None
