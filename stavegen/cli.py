@@ -99,11 +99,12 @@ def section(
     at: str = typer.Option(..., "--at", help='Position from the heel: "7 ft 6 in", "2300 mm", or a bare '
                                              "number in the file's unit.", show_default=False),
 ) -> None:
-    """One cross-section in detail: stave width, notch, wall after rounding, voids, I."""
+    """One cross-section in detail: stave width, notch, cutter settings, wall after rounding, voids, I."""
     from .checks.ratios import check_station
+    from .layout.machining import cutter_settings
     from .model.loader import load_spar
     from .pipeline import resolve
-    from .render.console import section_table
+    from .render.console import machining_table, section_table
     from .stations.evaluate import evaluate_stations
     from .stations.grid import StationMark
     from .units import UnitError, parse_length
@@ -116,7 +117,9 @@ def section(
     if not 0 <= z <= model.length:
         raise InputError(f"{at!r} is not on the spar (0 to {model.length:.0f} mm)", "--at")
     station = evaluate_stations(model, (StationMark(z, ("asked",)),))[0]
-    _console().print(section_table(model, check_station(model, station)))
+    console = _console()
+    console.print(section_table(model, check_station(model, station)))
+    console.print(machining_table(model, cutter_settings(station.section)))
 
 
 @app.command()
