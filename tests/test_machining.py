@@ -14,6 +14,8 @@ import math
 from dataclasses import replace
 
 import pytest
+
+from stavegen.errors import DesignError
 from shapely.geometry import Polygon, box
 
 from stavegen.layout.machining import Lean, Side, cutter_settings, stave_from_passes
@@ -47,6 +49,17 @@ def section(n: int, joint: Joint, t: float = 18.0):
     return evaluate_section(n, joint, RADIUS, t, ALLOWANCE)
 
 
+def buildable(n: int, t: float):
+    """(joint, section) for each joint at N, t that can be built; a centred or custom notch whose voids
+    rounding would open is refused by the section model (it names the joint or notch key) and skipped."""
+    for joint in joints(n, t) + [Joint("bevel")]:
+        try:
+            yield joint, section(n, joint, t)
+        except DesignError as exc:
+            assert joint.kind in ("birdsmouth-centered", "birdsmouth-custom")
+            assert exc.key in ("hollow.joint", "hollow.notch")
+
+
 def blank_origin(sec) -> tuple[float, float]:
     return (sec.frame.x_notch_edge, sec.frame.inner)
 
@@ -78,8 +91,8 @@ def test_v_face_angles_from_phi(n, k):
 @pytest.mark.parametrize("t", THICKNESSES)
 def test_blade_tilt_within_45(n, t):
     """Common practice: most table saws tilt 0–45°; every pass must fit."""
-    for joint in joints(n, t) + [Joint("bevel")]:
-        for p in cutter_settings(section(n, joint, t)).saw:
+    for _, sec in buildable(n, t):
+        for p in cutter_settings(sec).saw:
             assert 0.0 <= p.tilt <= 45.0 + 1e-9
             assert p.fence_distance > 0
 
@@ -143,8 +156,7 @@ def test_flush_rides_its_notched_edge_only_before_the_v_comes_free(n):
 @pytest.mark.parametrize("t", THICKNESSES)
 def test_round_trip_passes_rebuild_the_stave(n, t):
     """The passes, cut into the blank w × t, give back the section's stave outline (shapely, here)."""
-    for joint in joints(n, t) + [Joint("bevel")]:
-        sec = section(n, joint, t)
+    for joint, sec in buildable(n, t):
         settings = cutter_settings(sec)
         rebuilt = stave_from_passes(settings.saw, sec.stave_width, t, blank_origin(sec))
         outline = Polygon(sec.stave_outline)
