@@ -9,10 +9,34 @@ from ..errors import InputError
 from ..model.spar import Spar
 from ..stations.evaluate import SectionCache
 from ..stations.grid import station_marks
+from ..section.properties import Section
+from .machining import CutterSettings, cutter_settings
 from .plugs import PlugBlock, plug_blocks
 from .scarfs import ScarfPlan, ScarfRules, place_scarfs, segment_bounds
 from .segments import Segment, make_segment
 from .staves import StavePlan, stave_plan
+
+
+@dataclass(frozen=True)
+class StationSettings:
+    """Cutter settings for the stave section at one position z (mm from the heel)."""
+
+    z: float
+    section: Section
+    settings: CutterSettings
+
+
+@dataclass(frozen=True)
+class Machining:
+    """Cutter settings at the widest and the narrowest stave stations (the same when the notch is)."""
+
+    widest: StationSettings
+    narrowest: StationSettings
+
+    @property
+    def notch_varies(self) -> bool:
+        a, b = self.widest.settings, self.narrowest.settings
+        return (a.notch_depth, a.apex_height) != (b.notch_depth, b.apex_height)
 
 
 @dataclass(frozen=True)
@@ -23,7 +47,7 @@ class Layout:
     scarfs: ScarfPlan
     staves: tuple[tuple[Segment, ...], ...]
     plugs: tuple[PlugBlock, ...]
-    machining: Any = None
+    machining: Machining
     lumber: Any = None
 
     @property
@@ -65,4 +89,15 @@ def lay_out(spar: Spar, cache: SectionCache | None = None) -> Layout:
             make_segment(plan, k, i + 1, a, b, scarf_at_start=i > 0, scarf_at_end=i < last,
                          scarf_length=rules.length)
             for i, (a, b) in enumerate(stave_bounds)))
-    return Layout(plan=plan, scarfs=scarfs, staves=tuple(staves), plugs=plug_blocks(spar, cache))
+    return Layout(plan=plan, scarfs=scarfs, staves=tuple(staves), plugs=plug_blocks(spar, cache),
+                  machining=machining_at_extremes(spar, plan, cache))
+
+
+def machining_at_extremes(spar: Spar, plan: StavePlan, cache: SectionCache) -> Machining:
+    """Cutter settings where the stave is widest and narrowest on the finished spar."""
+    inside = [st for st in plan.stations if 0 <= st.z <= spar.length]
+    found = []
+    for station in (max(inside, key=lambda st: st.width), min(inside, key=lambda st: st.width)):
+        section = cache.at(station.z)
+        found.append(StationSettings(z=station.z, section=section, settings=cutter_settings(section)))
+    return Machining(widest=found[0], narrowest=found[1])

@@ -10,7 +10,7 @@ from .. import __version__
 from ..cautions import CAUTIONS
 from ..checks.ratios import StationCheck
 from ..model.woods import Wood
-from ..layout.plan import Layout
+from ..layout.plan import Layout, Machining, StationSettings
 from ..layout.segments import Segment
 from ..pipeline import Design
 
@@ -160,6 +160,46 @@ def _layout(layout: Layout) -> dict[str, Any]:
                    "heel_across_corners_mm": p.heel.across_corners, "head_across_flats_mm": p.head.across_flats,
                    "head_across_corners_mm": p.head.across_corners, "volume_mm3": p.volume, "mass_kg": p.mass}
                   for p in layout.plugs],
+        "machining": _machining(layout.machining),
+    }
+
+
+def _settings(at: StationSettings) -> dict[str, Any]:
+    c = at.settings
+    router = None
+    if c.router is not None:
+        router = {"one_pass_flat": c.router.one_pass_flat, "wedge_angle_deg": c.router.wedge_angle,
+                  "wedge_high_side": c.router.wedge_high_side, "rides_on": str(c.router.on_table),
+                  "against_fence": str(c.router.on_fence), "bit_height_mm": c.router.bit_height,
+                  "fence_to_tip_mm": c.router.fence_to_tip, "least_bit_diameter_mm": c.router.least_bit_diameter,
+                  "edge_left_mm": c.router.edge_left}
+    return {
+        "z_mm": at.z,
+        "stave_width_mm": at.section.stave_width,
+        "thickness_mm": at.section.thickness,
+        "v_face_angles_deg": list(c.v_face_angles) if c.v_face_angles else None,
+        "notch_depth_mm": c.notch_depth,
+        "apex_height_mm": c.apex_height,
+        "bevel_deg": c.bevel,
+        "table_saw": [{"makes": p.makes, "face_angle_deg": p.face_angle, "on_table": str(p.on_table),
+                       "on_fence": str(p.on_fence), "tilt_deg": p.tilt, "lean": str(p.lean),
+                       "fence_distance_mm": p.fence_distance, "depth_along_blade_mm": p.depth_along_blade,
+                       "height_mm": p.height, "through": p.through} for p in c.saw],
+        "router": router,
+    }
+
+
+def _machining(m: Machining) -> dict[str, Any]:
+    """The promised keys at the widest station, then both stations in full."""
+    widest = m.widest.settings
+    return {
+        "v_face_angles_deg": list(widest.v_face_angles) if widest.v_face_angles else None,
+        "notch_depth_mm": widest.notch_depth,
+        "apex_height_mm": widest.apex_height,
+        "bevel_deg": widest.bevel,
+        "notch_varies": m.notch_varies,
+        "widest": _settings(m.widest),
+        "narrowest": _settings(m.narrowest),
     }
 
 
