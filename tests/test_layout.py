@@ -159,7 +159,8 @@ def test_no_stock_table_for_layout():
 def test_random_layouts_keep_every_rule(length, staves, board, stagger, no_scarf_at, no_scarf_len):
     wall = 30 if staves <= 5 else 20
     spar = layout_of(spar={"length": length}, plan={"stations": [[0, 110], [length, 80]]},
-                     hollow={"staves": staves, "wall": wall},
+                     hollow={"staves": staves, "wall": wall,
+                             "joint": "birdsmouth-flush" if staves > 4 else "bevel"},
                      stock=dict(STOCK, thickness=30, lengths=[board], scarf_stagger=stagger,
                                 no_scarf=[[no_scarf_at * length, no_scarf_at * length + no_scarf_len + 1]]))
     try:

@@ -29,10 +29,10 @@ def sections(draw):
     allowance = draw(st.floats(0, 3))
     lowest = (radius + allowance) - radius * math.cos(math.pi / n)  # thinner breaks into the bore corners
     wall = draw(st.floats(lowest + 0.02 * radius, 0.8 * radius))
-    kind = draw(st.sampled_from(JOINTS))
+    kind = draw(st.sampled_from(JOINTS if n > 4 else ["bevel"]))
     if kind == "birdsmouth-custom":
         f = draw(st.floats(0.1, 0.9))
-        deepest = (1 - f) * wall * math.tan(2 * math.pi / n) if n > 4 else wall
+        deepest = (1 - f) * wall * math.tan(2 * math.pi / n)
         joint = Joint(kind, depth=draw(st.floats(0.05, 1.0)) * deepest, apex_fraction=f)
     else:
         joint = Joint(kind)
@@ -103,7 +103,8 @@ def spar_files(draw):
         "plan": {"wood": draw(st.sampled_from(["sitka-spruce", "douglas-fir-coast", "white-oak"])),
                  "stations": [[0, heel], [length / 3, heel], [length, head]]},
         "hollow": {"wood": draw(st.sampled_from(["sitka-spruce", "western-hemlock", "port-orford-cedar"])),
-                   "staves": n, "joint": draw(st.sampled_from(JOINTS[:3])), "wall": wall,
+                   "staves": n, "joint": draw(st.sampled_from(JOINTS[:3] if n > 4 else ["bevel"])),
+                   "wall": wall,
                    "planing_allowance": 1.5 / scale},
     }
     if draw(st.booleans()):

@@ -41,12 +41,13 @@ def notch_for(joint: Joint, staves: int, thickness: float, units: str = "mm") ->
     t = thickness
     if joint.kind == "bevel":
         return None
+    if staves <= 4:
+        raise DesignError("a birdsmouth needs at least 5 staves: with 4 the V's second face lies flat along the "
+                          "stave and the notch becomes a full-thickness step; build a four-stave box with "
+                          "joint = \"bevel\" (mitred corners)", "hollow.joint")
     if joint.kind == "birdsmouth-flush":
         return Notch(depth=t * math.sin(phi), apex_fraction=1 - math.cos(phi), thickness=t)
     if joint.kind == "birdsmouth-centered":
-        if staves <= 4:
-            raise DesignError("a centred notch needs at least 5 staves: with 4 the V has no depth; "
-                              "use the flush birdsmouth", "hollow.joint")
         return Notch(depth=t / 2 * min(math.tan(phi), 1 / math.tan(phi)), apex_fraction=0.5, thickness=t)
     if joint.kind == "birdsmouth-custom":
         f = joint.apex_fraction if joint.apex_fraction is not None else joint.apex_height / t
@@ -55,7 +56,7 @@ def notch_for(joint: Joint, staves: int, thickness: float, units: str = "mm") ->
                               "hollow.notch.apex_height")
         if joint.depth <= 0:
             raise DesignError("notch depth must be positive", "hollow.notch.depth")
-        deepest = (1 - f) * t * math.tan(phi) if staves > 4 else math.inf
+        deepest = (1 - f) * t * math.tan(phi)
         if joint.depth > deepest * (1 + 1e-9):
             raise DesignError(
                 f"notch depth {show(joint.depth)} runs the V out through the stave's outer face (apex "
