@@ -73,7 +73,7 @@ def _low_reason(spar: Spar, point: Point, by: str, k: float, criteria: tuple[Cri
         wall = format_length(float(spar.hollow.wall.at(point.z)), spar.units)
         return (f"below × {k:.4f} the bore closes at {place(spar, point)} (a {wall} wall is as thick as the "
                 "radius there)")
-    return f"at {place(spar, point)} the round must be no smaller than the plan's"
+    return f"the plan's diameters at {place(spar, point)}"
 
 
 def _high_reason(spar: Spar, point: Point, by: str, k: float) -> str:
@@ -86,6 +86,18 @@ def _high_reason(spar: Spar, point: Point, by: str, k: float) -> str:
             "wall")
 
 
+def _conflict(spar: Spar, point: Point, low: Window, capped: Point, high: Window,
+              criteria: tuple[Criterion, ...]) -> DesignError:
+    """No scale factor is both large enough at ``point`` and small enough at ``capped``."""
+    cap = _high_reason(spar, capped, high.upper_by, high.upper)
+    if low.lower_by == PLAN:
+        return DesignError(f"the wall is too thin even for the plan's diameters: {cap}, and the plan's is "
+                           f"{format_length(capped.plan_diameter, spar.units)}; a larger round only makes it "
+                           "worse: use a thicker wall", KEY)
+    return DesignError(f"no uniform enlargement works: {_low_reason(spar, point, low.lower_by, low.lower, criteria)}"
+                       f", but {cap}; use a thicker wall", KEY)
+
+
 def _windows(spar: Spar, criteria: tuple[Criterion, ...]) -> list[tuple[Point, Window]]:
     out = []
     for point in points_of(spar):
@@ -93,12 +105,11 @@ def _windows(spar: Spar, criteria: tuple[Criterion, ...]) -> list[tuple[Point, W
         if isinstance(found, Miss):
             c = found.criterion
             raise DesignError(f"no diameter reaches {c.name} {c.target:.3f} at {place(spar, point)}: the largest "
-                              f"round the wall allows (× {found.best_size:.4f}) gives only {ratio_text(found.best, c.target)} before "
-                              "it breaks into the bore; use a thicker wall", KEY)
-        if found.empty:
-            raise DesignError(f"no diameter works: {_low_reason(spar, point, found.lower_by, found.lower, criteria)}"
-                              f", but {_high_reason(spar, point, found.upper_by, found.upper)}; use a thicker wall",
+                              f"round the wall allows (× {found.best_size:.4f}) gives only "
+                              f"{ratio_text(found.best, c.target)} before it breaks into the bore; use a thicker wall",
                               KEY)
+        if found.empty:
+            raise _conflict(spar, point, found, point, found, criteria)
         out.append((point, found))
     return out
 
@@ -110,9 +121,7 @@ def solve_diameter_scale(spar: Spar) -> DiameterSolution:
     point, low = max(windows, key=lambda pw: pw[1].lower)
     capped, high = min(windows, key=lambda pw: pw[1].upper)
     if low.lower > high.upper:
-        raise DesignError(f"no uniform enlargement works: "
-                          f"{_low_reason(spar, point, low.lower_by, low.lower, criteria)}, but "
-                          f"{_high_reason(spar, capped, high.upper_by, high.upper)}; use a thicker wall", KEY)
+        raise _conflict(spar, point, low, capped, high, criteria)
     k = low.lower
     plan = spar.plan.diameter
     return DiameterSolution(Profile(plan.z, tuple(k * d for d in plan.value)), k, point, low.lower_by)

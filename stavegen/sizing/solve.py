@@ -1,4 +1,6 @@
-"""Fill what the spar file leaves to stavegen: ``hollow.wall = "auto"`` or ``"auto-tapered"``, ``hollow.stations = "auto"``.
+"""Fill what the spar file leaves to stavegen: ``hollow.wall`` or ``hollow.stations`` set to ``"auto"``.
+
+(``hollow.wall`` may also be ``"auto-tapered"``.)
 
 :func:`size_spar` returns the resolved spar (the frozen model, replaced)
 and one line per solved value for people; every point is checked again at
@@ -12,7 +14,7 @@ from dataclasses import replace
 from ..errors import InputError
 from ..model.spar import AUTO, AUTO_TAPERED, Profile, Spar
 from ..units import format_exact, format_length_up
-from .diameter import PLAN, describe_scale, solve_diameter_scale
+from .diameter import BORE_CLOSES, PLAN, describe_scale, solve_diameter_scale
 from .roots import NOTCH
 from .targets import EI_RATIO, STRENGTH_RATIO, check_at, criteria_of, place, points_of
 from .wall import BORE_CORNERS, CORNER_MINIMUM, WallSolution, solve_constant_wall, solve_tapered_wall
@@ -88,6 +90,10 @@ def size_spar(spar: Spar) -> tuple[Spar, tuple[str, ...]]:
                     "no enlargement needed")
         else:
             head = f"diameters solved: {describe_scale(spar, solution)}"
+            if solution.binding_by == BORE_CLOSES:
+                head += f", set by leaving a bore at {place(spar, solution.binding)}"
+            elif solution.binding_by in (BORE_CORNERS, CORNER_MINIMUM, NOTCH):
+                head += f", set by the {solution.binding_by} at {place(spar, solution.binding)}"
         lines.append(f"{head}; {_least(spar)}")
     elif h.wall in (AUTO, AUTO_TAPERED):
         solution = solve_constant_wall(spar) if h.wall == AUTO else solve_tapered_wall(spar)

@@ -188,8 +188,27 @@ def _raise_to_meet(values: list[float], zs: list[float], k: int, need: float) ->
     return max(values[k] - a, values[k + 1] - b)
 
 
+def _settled(zs: list[float], values: list[float], windows: list[tuple[Point, Window]]) -> Profile:
+    """The schedule, with a station's value moved up by units in the last place wherever the profile's own
+    interpolation (which may reach a station from the stretch before it) gives a point less than it needs."""
+    for _ in range(64):
+        wall = Profile(tuple(zs), tuple(values))
+        short = [(p, w) for p, w in windows if float(wall.at(p.z)) < w.lower]
+        if not short:
+            return wall
+        for point, _ in short:
+            k = int(np.clip(np.searchsorted(zs, point.z), 0, len(zs) - 1))
+            if not point.at_station and values[k - 1] < values[k]:
+                k -= 1
+            values[k] = float(np.nextafter(values[k], math.inf))
+    return Profile(tuple(zs), tuple(values))
+
+
 def solve_tapered_wall(spar: Spar) -> WallSolution:
-    """The least wall (mm) at each station for an open bore, linear between, thickened where a stretch's middle falls short."""
+    """The least wall (mm) at each station for an open bore, linear between.
+
+    Thickened where a stretch's middle would fall short.
+    """
     criteria = criteria_of(spar)
     windows = _windows(spar, criteria, plugs=False)
     stations = [(p, w) for p, w in windows if p.at_station]
@@ -207,7 +226,7 @@ def solve_tapered_wall(spar: Spar) -> WallSolution:
                     thickened.add(k)
         if not changed:
             break
-    wall = Profile(tuple(zs), tuple(values))
+    wall = _settled(zs, values, windows)
     for point, w in windows:
         t = float(wall.at(point.z))
         if t > w.upper * (1 + 1e-12):
