@@ -39,6 +39,8 @@ def run_build(path: Path, folder: Path, console: Console) -> Design:
     with console.status("writing outputs"):
         written = write_outputs(result, folder)
     r = result.assessment
+    for line in result.solved:
+        console.print(f"[cyan]solved:[/] {line}")
     console.print(verdict(result))
     console.print(f"weight: {format_mass(r.hollow.mass.mass, spar.units)} hollow against "
                   f"{format_mass(r.plan.mass.mass, spar.units)} solid")

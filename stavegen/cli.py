@@ -109,7 +109,7 @@ def section(
     from .stations.grid import StationMark
     from .units import UnitError, parse_length
 
-    model, _ = resolve(load_spar(spar))
+    model, solved = resolve(load_spar(spar))
     try:
         z = parse_length(at, model.units)
     except UnitError as exc:
@@ -118,6 +118,8 @@ def section(
         raise InputError(f"{at!r} is not on the spar (0 to {model.length:.0f} mm)", "--at")
     station = evaluate_stations(model, (StationMark(z, ("asked",)),))[0]
     console = _console()
+    for line in solved:
+        console.print(f"[cyan]solved:[/] {line}")
     console.print(section_table(model, check_station(model, station)))
     console.print(machining_table(model, cutter_settings(station.section)))
 

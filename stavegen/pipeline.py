@@ -29,11 +29,18 @@ class Design:
 
 
 def resolve(spar: Spar) -> tuple[Spar, tuple[str, ...]]:
-    """Fill ``"auto"`` staves and wall; return the spar and one line per solved value."""
+    """Solve what the file leaves ``"auto"`` (wall or diameters); return the spar and one line per solved value.
+
+    The stave count cannot be solved yet: ``hollow.staves = "auto"`` is an InputError.
+    """
     if spar.resolved:
         return spar, ()
-    key = "hollow.staves" if spar.hollow.staves == "auto" else "hollow.wall"
-    raise InputError('"auto" is not available in this version; give a number', key, spar.source)
+    from .sizing import size_spar
+
+    try:
+        return size_spar(spar)
+    except InputError as exc:
+        raise exc.located(spar.source)
 
 
 def design(spar: Spar, layout: bool = False) -> Design:

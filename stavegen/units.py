@@ -166,6 +166,25 @@ def format_length(mm: float, units: str, tape: bool = False) -> str:
     return format_mm(mm)
 
 
+def format_exact(mm: float, units: str) -> str:
+    """A solved length unrounded for the shop: inches to 4 decimals (``0.8134"``) or mm to 3 (``20.662 mm``)."""
+    if units == "in":
+        return f'{mm / MM_PER_INCH:.4f}"'
+    return f"{mm:.3f} mm"
+
+
+def format_length_up(mm: float, units: str) -> str:
+    """``mm`` rounded up, never down, to what :func:`format_length` prints: the next 1/32 in or 0.1 mm.
+
+    For a least wall or a least diameter, where rounding to the nearest could
+    fall short. A length already on the grid (within 1e-9 of a step) stays.
+    """
+    if units == "in":
+        steps = math.ceil(mm / MM_PER_INCH * 32 - 1e-9)
+        return format_inches(steps * MM_PER_INCH / 32)
+    return format_mm(math.ceil(mm * 10 - 1e-9) / 10)
+
+
 def format_plain(mm: float, units: str) -> str:
     """A length in the file's unit without a unit mark, for spreadsheets: ``3 7/16`` or ``87.3``."""
     if units == "in":

@@ -21,6 +21,7 @@ from .spar import (
     MIN_STAVES,
     PAPERS,
     TAPERS,
+    WALL_SOLVES,
     Hollow,
     Joint,
     OutputOptions,
@@ -267,8 +268,12 @@ def _plugs(value: Any, units: str, length: float, default_wood: Wood) -> tuple[P
 
 
 def _wall(value: Any, units: str, length: float) -> Profile | str:
-    if value == AUTO:
-        return AUTO
+    """A wall thickness, a [position, thickness] schedule, or one of :data:`WALL_SOLVES` to be solved."""
+    if value in WALL_SOLVES:
+        return value
+    if isinstance(value, str) and value.strip().lower().startswith("auto"):
+        raise InputError(f"{value!r} is not a wall; give a thickness, [[position, thickness], ...], "
+                         f"or one of {', '.join(repr(v) for v in WALL_SOLVES)}", "hollow.wall")
     if isinstance(value, list):
         return _profile(value, units, "hollow.wall", length, "thickness", whole_length=False)
     return Profile.constant(_length(value, units, "hollow.wall"), length)
@@ -285,7 +290,11 @@ def _hollow(t: _Table, units: str, length: float, plan: Plan) -> Hollow:
             raise t.fail("staves", f"must be from {MIN_STAVES} to {MAX_STAVES}, got {staves}")
     joint = _joint(t, units)
     wall = _wall(t.raw("wall"), units, length)
-    if t.has("stations"):
+    if t.has("stations") and t.raw("stations") == AUTO:
+        diameter, given = AUTO, False
+    elif t.has("stations") and isinstance(t.raw("stations"), str):
+        raise t.fail("stations", f"expected [[position, diameter], ...] or \"auto\", got {t.raw('stations')!r}")
+    elif t.has("stations"):
         diameter = _profile(t.raw("stations"), units, t.key("stations"), length, "diameter", whole_length=True)
         given = True
     else:
@@ -309,13 +318,13 @@ def _hollow(t: _Table, units: str, length: float, plan: Plan) -> Hollow:
         plugs=plugs,
     )
     t.finish()
-    if wall != AUTO:
+    if isinstance(wall, Profile) and isinstance(diameter, Profile):
         for z, thick in zip(wall.z, wall.value):
             radius = float(diameter.at(z)) / 2
             if thick >= radius:
                 raise InputError(f"wall {thick:.1f} mm is as thick as the spar's radius ({radius:.1f} mm) at "
                                  f"{z:.0f} mm from the heel: there is no bore", "hollow.wall")
-    if joint.kind == "birdsmouth-custom" and joint.apex_height is not None and wall != AUTO:
+    if joint.kind == "birdsmouth-custom" and joint.apex_height is not None and isinstance(wall, Profile):
         if joint.apex_height >= wall.smallest:
             raise InputError("apex_height must be less than the wall thickness", "hollow.notch.apex_height")
     return hollow
@@ -383,7 +392,7 @@ def _stock(t: _Table, units: str, length: float, hollow: Hollow) -> Stock:
         edge_allowance=t.length("edge_allowance", 1.5875 if imperial else 1.5, strict=False),
     )
     t.finish()
-    if hollow.wall != AUTO and hollow.wall.largest > thickness + 1e-9:
+    if isinstance(hollow.wall, Profile) and hollow.wall.largest > thickness + 1e-9:
         raise InputError(f"boards {thickness:.1f} mm thick are thinner than the wall "
                          f"({hollow.wall.largest:.1f} mm)", "stock.thickness")
     return stock

@@ -14,6 +14,8 @@ import numpy as np
 from .woods import Wood
 
 AUTO = "auto"
+AUTO_TAPERED = "auto-tapered"
+WALL_SOLVES = (AUTO, AUTO_TAPERED)  # hollow.wall strings the sizing step solves for
 JOINTS = ("birdsmouth-flush", "birdsmouth-centered", "birdsmouth-custom", "bevel")
 TAPERS = ("square-edge", "symmetric")
 PAPERS = ("letter", "a4")
@@ -91,16 +93,17 @@ class Plan:
 class Hollow:
     """The stave-built spar to be made.
 
-    ``staves`` and ``wall`` may be :data:`AUTO` until the sizing step fills them.
-    ``wall`` is the stave thickness (mm) along the spar; ``diameter`` the
-    finished outside diameter (mm). Allowances are in mm.
+    ``staves`` may be :data:`AUTO`, ``wall`` one of :data:`WALL_SOLVES` and
+    ``diameter`` :data:`AUTO` until the sizing step (:mod:`stavegen.sizing`)
+    fills them. ``wall`` is the stave thickness (mm) along the spar;
+    ``diameter`` the finished outside diameter (mm). Allowances are in mm.
     """
 
     wood: Wood
     staves: Union[int, Literal["auto"]]
     joint: Joint
-    wall: Union[Profile, Literal["auto"]]
-    diameter: Profile
+    wall: Union[Profile, Literal["auto", "auto-tapered"]]
+    diameter: Union[Profile, Literal["auto"]]
     lamination_factor: float = 1.0
     margin: float = 0.0
     min_strength_ratio: float | None = None
@@ -167,5 +170,6 @@ class Spar:
 
     @property
     def resolved(self) -> bool:
-        """True once staves and wall are numbers, not :data:`AUTO`."""
-        return self.hollow.staves != AUTO and self.hollow.wall != AUTO
+        """True once staves, wall and diameters are numbers, nothing left to solve."""
+        h = self.hollow
+        return h.staves != AUTO and isinstance(h.wall, Profile) and isinstance(h.diameter, Profile)

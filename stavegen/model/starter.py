@@ -19,8 +19,11 @@ stations = [[0, 3.5], ["5 ft", 3.5], ["12 ft", 3.0], ["16 ft", 2.0]]   # [from h
 wood = "douglas-fir-coast"
 staves = 8                        # 4 to 24
 joint = "birdsmouth-flush"        # birdsmouth-flush | birdsmouth-centered | birdsmouth-custom | bevel
-wall = "11/16"                    # stave thickness, or [[from heel, thickness], ...]
-# stations = [[0, 3.6], ...]      # finished diameters if not the plan's
+wall = "11/16"                    # stave thickness, or [[from heel, thickness], ...], or "auto":
+                                  # the least constant wall that meets the target ("auto-tapered":
+                                  # the least at each station, linear between)
+# stations = [[0, 3.6], ...]      # finished diameters if not the plan's, or "auto": the plan's
+                                  # enlarged just enough for the wall given (not with an "auto" wall)
 lamination_factor = 1.0           # credit on E for laminated construction; 1.0 = none
 margin = 0.0                      # EI ratio must reach 1 + margin
 planing_allowance = "1/16"        # on the radius, taken off when rounding
@@ -36,7 +39,7 @@ from = "15 ft"
 to = "16 ft"
 
 [stock]                           # boards the staves are ripped from
-thickness = 0.75                  # dressed thickness (must cover the wall)
+thickness = 0.75                  # dressed thickness (must cover the wall, solved or given)
 nominal_thickness = "4/4"         # for the board-foot tally
 widths = [5.5, 7.25]              # dressed widths you can buy
 nominal_widths = [6, 8]           # their nominal widths, for the tally
@@ -69,7 +72,11 @@ stations = [[0, 90], [1500, 90], [3700, 76], [4900, 50]]   # [from heel, diamete
 wood = "douglas-fir-coast"
 staves = 8                        # 4 to 24
 joint = "birdsmouth-flush"        # birdsmouth-flush | birdsmouth-centered | birdsmouth-custom | bevel
-wall = 18                         # stave thickness, or [[from heel, thickness], ...]
+wall = 18                         # stave thickness, or [[from heel, thickness], ...], or "auto":
+                                  # the least constant wall that meets the target ("auto-tapered":
+                                  # the least at each station, linear between)
+# stations = [[0, 92], ...]       # finished diameters if not the plan's, or "auto": the plan's
+                                  # enlarged just enough for the wall given (not with an "auto" wall)
 lamination_factor = 1.0           # credit on E for laminated construction; 1.0 = none
 margin = 0.0                      # EI ratio must reach 1 + margin
 planing_allowance = 1.5           # on the radius, taken off when rounding
@@ -85,7 +92,7 @@ from = 4600
 to = 4900
 
 [stock]                           # boards the staves are ripped from
-thickness = 20                    # dressed thickness (must cover the wall)
+thickness = 20                    # dressed thickness (must cover the wall, solved or given)
 nominal_thickness = 25            # for the tally
 widths = [95, 145]
 lengths = [2400, 3000, 3600]

@@ -4,7 +4,7 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
-from ..model.spar import AUTO, Spar
+from ..model.spar import Profile, Spar
 
 MERGE_TOLERANCE = 0.05  # mm: positions closer than this are one station
 
@@ -26,7 +26,7 @@ def station_marks(spar: Spar, extra: dict[str, list[float]] | None = None) -> tu
     found += [(z, "plan") for z in spar.plan.diameter.z]
     if spar.hollow.diameter_given:
         found += [(z, "hollow") for z in spar.hollow.diameter.z]
-    if spar.hollow.wall != AUTO and not spar.hollow.wall.is_constant:
+    if isinstance(spar.hollow.wall, Profile) and not spar.hollow.wall.is_constant:
         found += [(z, "wall") for z in spar.hollow.wall.z]
     for plug in spar.hollow.plugs:
         found += [(plug.start, "plug"), (plug.end, "plug")]

@@ -1,0 +1,134 @@
+"""The least enlargement of the plan's diameters, with the wall fixed (``hollow.stations = "auto"``).
+
+The hollow spar's finished diameters are the plan's times one scale factor
+k ≥ 1, the least that meets every criterion at every station and at the
+middle of every stretch. A factor rather than an amount added all along:
+the EI of a round goes as D⁴, so making up for a less stiff wood (or for the
+bore) calls for the same proportional increase at heel and head alike; a
+factor keeps the plan's taper in proportion, and with it the shape of the
+spar's bend, where an added amount would fatten the slender head (weight
+and windage aloft) proportionally more than the heel. k is never below 1:
+the plan's diameters are kept when they already meet the target.
+
+Bounds on k at each point, for the wall t there and plan radius r_p:
+k·r_p > t (a round no thicker than the wall has no bore: the bore closes),
+and k·r_p·(1 − cos(π/N)) ≤ t − p − c_min·cos(π/N) (a larger round breaks
+into the bore's corners). Lengths mm.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+
+from ..errors import DesignError
+from ..model.spar import Profile, Spar
+from ..units import format_exact, format_length
+from .roots import Miss, Window, window
+from .targets import Criterion, Point, check_at, criteria_of, place, points_of, ratio_text
+from .wall import BORE_CLEARANCE, BORE_CORNERS, CORNER_MINIMUM
+
+KEY = "hollow.stations"
+PLAN = "the plan's diameters"
+BORE_CLOSES = "bore closes"
+
+
+@dataclass(frozen=True)
+class DiameterSolution:
+    """The solved finished diameters (mm), their scale factor on the plan's, and what sets it where."""
+
+    diameter: Profile
+    scale: float
+    binding: Point
+    binding_by: str
+
+
+def scale_range(spar: Spar, point: Point) -> tuple[float, str, float, str]:
+    """Least and greatest scale factor at ``point`` and what sets each (see the module's bounds)."""
+    h = spar.hollow
+    t = float(h.wall.at(point.z))
+    plan_radius = point.plan_diameter / 2
+    cos = math.cos(math.pi / h.staves)
+    corner = h.min_corner_wall or 0.0
+    bore = t / plan_radius * (1 + 1e-9)
+    low, low_by = (1.0, PLAN) if bore <= 1.0 else (bore, BORE_CLOSES)
+    high = (t - h.planing_allowance - corner * cos - BORE_CLEARANCE) / (1 - cos) / plan_radius
+    return low, low_by, high, (CORNER_MINIMUM if corner else BORE_CORNERS)
+
+
+def scale_window(spar: Spar, point: Point, criteria: tuple[Criterion, ...]) -> Window | Miss:
+    """The scale factors that meet every criterion at ``point``, or what none can reach there."""
+    lo, lo_by, hi, hi_by = scale_range(spar, point)
+    if lo >= hi:
+        return Window(lo, hi, lo_by, hi_by)
+    t = float(spar.hollow.wall.at(point.z))
+    return window(lambda k: check_at(spar, point, k * point.plan_diameter / 2, t), criteria, lo, hi, lo_by, hi_by)
+
+
+def _low_reason(spar: Spar, point: Point, by: str, k: float, criteria: tuple[Criterion, ...]) -> str:
+    for c in criteria:
+        if c.name == by:
+            return f"{c.name} {c.target:.3f} at {place(spar, point)} needs the plan's diameters × {k:.4f}"
+    if by == BORE_CLOSES:
+        wall = format_length(float(spar.hollow.wall.at(point.z)), spar.units)
+        return (f"below × {k:.4f} the bore closes at {place(spar, point)} (a {wall} wall is as thick as the "
+                "radius there)")
+    return f"the plan's diameters at {place(spar, point)}"
+
+
+def _high_reason(spar: Spar, point: Point, by: str, k: float) -> str:
+    wall = format_length(float(spar.hollow.wall.at(point.z)), spar.units)
+    largest = format_length(k * point.plan_diameter, spar.units)
+    if by == CORNER_MINIMUM:
+        return (f"at {place(spar, point)} a round over {largest} across leaves less than hollow.min_corner_wall "
+                f"of the {wall} wall after rounding")
+    return (f"at {place(spar, point)} a round over {largest} across (× {k:.4f}) breaks into the bore of the {wall} "
+            "wall")
+
+
+def _conflict(spar: Spar, point: Point, low: Window, capped: Point, high: Window,
+              criteria: tuple[Criterion, ...]) -> DesignError:
+    """No scale factor is both large enough at ``point`` and small enough at ``capped``."""
+    cap = _high_reason(spar, capped, high.upper_by, high.upper)
+    if low.lower_by == PLAN:
+        return DesignError(f"the wall is too thin even for the plan's diameters: {cap}, and the plan's is "
+                           f"{format_length(capped.plan_diameter, spar.units)}; a larger round only makes it "
+                           "worse: use a thicker wall", KEY)
+    return DesignError(f"no uniform enlargement works: {_low_reason(spar, point, low.lower_by, low.lower, criteria)}"
+                       f", but {cap}; use a thicker wall", KEY)
+
+
+def _windows(spar: Spar, criteria: tuple[Criterion, ...]) -> list[tuple[Point, Window]]:
+    out = []
+    for point in points_of(spar):
+        found = scale_window(spar, point, criteria)
+        if isinstance(found, Miss):
+            c = found.criterion
+            raise DesignError(f"no diameter reaches {c.name} {c.target:.3f} at {place(spar, point)}: the largest "
+                              f"round the wall allows (× {found.best_size:.4f}) gives only "
+                              f"{ratio_text(found.best, c.target)} before it breaks into the bore; use a thicker wall",
+                              KEY)
+        if found.empty:
+            raise _conflict(spar, point, found, point, found, criteria)
+        out.append((point, found))
+    return out
+
+
+def solve_diameter_scale(spar: Spar) -> DiameterSolution:
+    """The least scale factor k ≥ 1 on the plan's diameters that meets the target, with the wall as given."""
+    criteria = criteria_of(spar)
+    windows = _windows(spar, criteria)
+    point, low = max(windows, key=lambda pw: pw[1].lower)
+    capped, high = min(windows, key=lambda pw: pw[1].upper)
+    if low.lower > high.upper:
+        raise _conflict(spar, point, low, capped, high, criteria)
+    k = low.lower
+    plan = spar.plan.diameter
+    return DiameterSolution(Profile(plan.z, tuple(k * d for d in plan.value)), k, point, low.lower_by)
+
+
+def describe_scale(spar: Spar, solution: DiameterSolution) -> str:
+    """The solved factor and the largest diameter, exact: ``the plan's × 1.0573 (5" becomes 5.2865")``."""
+    plan = spar.plan.diameter.largest
+    return (f"the plan's × {solution.scale:.6f} (its largest, {format_length(plan, spar.units)}, becomes "
+            f"{format_exact(solution.scale * plan, spar.units)})")

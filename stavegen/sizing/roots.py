@@ -1,0 +1,142 @@
+"""The range of one size (a wall in mm, or a scale factor) over which one point meets every criterion.
+
+Each ratio is taken to be unimodal in the size: monotone, or rising to one
+peak and falling. With the flush or bevel joint I_wall = π R⁴/4 − I_bore
+exactly, and a plug only adds E_plug · I_bore, so a ratio rises with the
+wall unless a plug stiffer than the staves fills the bore (then it falls).
+Joints that leave voids (centred with N ≠ 8, the builder's own notch) open
+larger voids as the wall thickens, and past some wall I falls again: there
+the ratio peaks inside the range. So: where both ends fall short, the peak
+is found (bounded Brent, scipy.optimize.minimize_scalar); the bounds are
+the roots of ratio − target (Brent's method, scipy.optimize.brentq) on
+either side, each moved the last few units in the last place to the side
+that meets the target, so the size returned never falls short by roundoff.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+from typing import Callable
+
+from scipy.optimize import brentq, minimize_scalar
+
+from ..checks.ratios import StationCheck
+from ..errors import DesignError
+from .targets import Criterion
+
+XTOL = 1e-12  # absolute tolerance of the root (mm, or a scale factor near 1)
+NOTCH = "the notch"  # a bound set by where the joint's geometry stops being buildable
+
+
+@dataclass(frozen=True)
+class Window:
+    """Sizes from ``lower`` to ``upper`` meet every criterion; ``*_by`` says what sets each bound.
+
+    ``lower_by``/``upper_by`` is a criterion's name or the caller's label of
+    a limit. ``lower > upper`` means the limits leave no size.
+    """
+
+    lower: float
+    upper: float
+    lower_by: str
+    upper_by: str
+
+    @property
+    def empty(self) -> bool:
+        return self.lower > self.upper
+
+
+UPPER, LOWER, INSIDE = "upper", "lower", "inside"
+
+
+@dataclass(frozen=True)
+class Miss:
+    """No size within the limits reaches ``criterion``: the best ratio found, at ``best_size``.
+
+    ``best_at`` says where that is: at the ``"upper"`` or ``"lower"`` limit, or ``"inside"`` (a peak).
+    """
+
+    criterion: Criterion
+    best: float
+    best_size: float
+    best_at: str
+
+
+def _meeting_side(excess: Callable[[float], float], root: float, toward: float, limit: float) -> float:
+    """The size nearest ``root`` on the side ``toward`` (+1 or −1) where excess ≥ 0; ``limit`` is known to meet."""
+    step = 4 * math.ulp(max(abs(root), 1.0))
+    x = root
+    for _ in range(64):
+        if (x - limit) * toward >= 0:
+            return limit
+        if excess(x) >= 0:
+            return x
+        x = root + toward * step
+        step *= 2
+    return limit
+
+
+def _first_buildable(check: Callable[[float], StationCheck], lo: float, hi: float) -> float:
+    """The least size in [lo, hi] whose section can be built (bisection); raises the geometry's error if none."""
+    try:
+        check(lo)
+        return lo
+    except DesignError:
+        pass
+    check(hi)  # raises the geometry's own error when even the largest size cannot be built
+    bad, good = lo, hi
+    while good - bad > XTOL * max(1.0, abs(good)):
+        mid = (bad + good) / 2
+        try:
+            check(mid)
+            good = mid
+        except DesignError:
+            bad = mid
+    return good
+
+
+def window(check: Callable[[float], StationCheck], criteria: tuple[Criterion, ...], lo: float, hi: float,
+           lo_by: str, hi_by: str) -> Window | Miss:
+    """Where in [lo, hi] the point meets every criterion, or the first criterion no size there reaches.
+
+    ``check(size)`` gives the point's check at a trial size; it may raise
+    DesignError where the joint cannot be built (only at small sizes).
+    """
+    cache: dict[float, StationCheck] = {}
+
+    def at(x: float) -> StationCheck:
+        if x not in cache:
+            cache[x] = check(x)
+        return cache[x]
+
+    start = _first_buildable(at, lo, hi)
+    if start > lo:
+        lo, lo_by = start, NOTCH
+    lower, lower_by, upper, upper_by = lo, lo_by, hi, hi_by
+    for criterion in criteria:
+        def excess(x: float, c: Criterion = criterion) -> float:
+            return c.ratio(at(x)) - c.target
+
+        low_end, high_end = excess(lo), excess(hi)
+        if low_end >= 0 and high_end >= 0:
+            continue
+        rise_to, fall_from = hi, lo  # where the rising root's bracket ends, where the falling one's starts
+        if low_end < 0 and high_end < 0:
+            peak = minimize_scalar(lambda x: -excess(x), bounds=(lo, hi), method="bounded",
+                                   options={"xatol": XTOL * max(1.0, abs(hi))})
+            best = max((excess(lo), lo, LOWER), (excess(hi), hi, UPPER), (excess(peak.x), peak.x, INSIDE))
+            if best[0] < 0:
+                return Miss(criterion, criterion.target + best[0], best[1], best[2])
+            rise_to = fall_from = best[1]
+        if low_end < 0:
+            root = brentq(excess, lo, rise_to, xtol=XTOL, maxiter=200)
+            x = _meeting_side(excess, root, +1.0, rise_to)
+            if x > lower:
+                lower, lower_by = x, criterion.name
+        if high_end < 0:
+            root = brentq(excess, fall_from, hi, xtol=XTOL, maxiter=200)
+            x = _meeting_side(excess, root, -1.0, fall_from)
+            if x < upper:
+                upper, upper_by = x, criterion.name
+    return Window(lower, upper, lower_by, upper_by)

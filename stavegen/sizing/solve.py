@@ -1,0 +1,103 @@
+"""Fill what the spar file leaves to stavegen: ``hollow.wall`` or ``hollow.stations`` set to ``"auto"``.
+
+(``hollow.wall`` may also be ``"auto-tapered"``.)
+
+:func:`size_spar` returns the resolved spar (the frozen model, replaced)
+and one line per solved value for people; every point is checked again at
+the solved sizes, and a shortfall there is a bug, not an input problem.
+"""
+
+from __future__ import annotations
+
+from dataclasses import replace
+
+from ..errors import InputError
+from ..model.spar import AUTO, AUTO_TAPERED, Profile, Spar
+from ..units import format_exact, format_length_up
+from .diameter import BORE_CLOSES, PLAN, describe_scale, solve_diameter_scale
+from .roots import NOTCH
+from .targets import EI_RATIO, STRENGTH_RATIO, check_at, criteria_of, place, points_of
+from .wall import BORE_CORNERS, CORNER_MINIMUM, WallSolution, solve_constant_wall, solve_tapered_wall
+
+VERIFY_TOLERANCE = 1e-12  # relative: roundoff allowed below a target when checking again
+
+
+def _least(spar: Spar) -> str:
+    """``least EI ratio 1.000 at 7' 0" from the heel`` over the stations, after checking every point again."""
+    criteria = criteria_of(spar)
+    least: dict[str, tuple[float, str]] = {}
+    for point in points_of(spar):
+        check = check_at(spar, point, float(spar.hollow.diameter.at(point.z)) / 2, float(spar.hollow.wall.at(point.z)))
+        for c in criteria:
+            ratio = c.ratio(check)
+            if ratio < c.target * (1 - VERIFY_TOLERANCE):
+                raise RuntimeError(f"sizing left {c.name} {ratio!r} below {c.target!r} at {place(spar, point)}")
+        if point.at_station:
+            for name, ratio in ((EI_RATIO, check.ei_ratio), (STRENGTH_RATIO, check.strength_ratio)):
+                if name not in least or ratio < least[name][0]:
+                    least[name] = (ratio, place(spar, point))
+    parts = [f"least {EI_RATIO} {least[EI_RATIO][0]:.3f} at {least[EI_RATIO][1]}"]
+    if spar.hollow.min_strength_ratio is not None:
+        parts.append(f"least {STRENGTH_RATIO} {least[STRENGTH_RATIO][0]:.3f} at {least[STRENGTH_RATIO][1]}")
+    return ", ".join(parts)
+
+
+def _set_by(spar: Spar, solution: WallSolution) -> str:
+    """Why the wall is what it is where it is thickest, when that is not a ratio."""
+    at = place(spar, solution.binding)
+    return {
+        BORE_CORNERS: f", set by keeping the round out of the bore's corners at {at}",
+        CORNER_MINIMUM: f", set by hollow.min_corner_wall at {at}",
+        NOTCH: f", set by the notch geometry at {at}",
+        "thickened": f", set between stations near {at}",
+    }.get(solution.binding_by, "")
+
+
+def _wall_line(spar: Spar, solution: WallSolution, resolved: Spar) -> str:
+    wall = solution.wall
+    units = spar.units
+    if wall.is_constant:
+        t = wall.largest
+        text = f"wall solved: {format_exact(t, units)} constant ({format_length_up(t, units)} rounded up)"
+    else:
+        step = "1/32 in" if units == "in" else "0.1 mm"
+        text = (f"wall solved: tapered by station, {format_exact(wall.smallest, units)} to "
+                f"{format_exact(wall.largest, units)} (round each station's wall up to the {step} when dressing)")
+        if spar.hollow.plugs:
+            text += ", sized as if the bore were open where it is plugged"
+        if solution.thickened:
+            text += (f", {solution.thickened} stretch{'es' if solution.thickened > 1 else ''} thickened to meet "
+                     "the target between stations")
+    return text + _set_by(spar, solution) + "; " + _least(resolved)
+
+
+def size_spar(spar: Spar) -> tuple[Spar, tuple[str, ...]]:
+    """The spar with its ``auto`` wall or diameters solved, and one line per solved value."""
+    h = spar.hollow
+    if h.staves == AUTO:
+        raise InputError('choosing the number of staves ("auto") is not available yet; give a whole number '
+                         "from 4 to 24", "hollow.staves")
+    if not isinstance(h.wall, Profile) and not isinstance(h.diameter, Profile):
+        raise InputError(f'wall = "{h.wall}" and stations = "auto" leave two unknowns; give the wall to solve '
+                         "the diameters, or the diameters (or none: the plan's) to solve the wall",
+                         "hollow.stations")
+    lines: list[str] = []
+    if h.diameter == AUTO:
+        solution = solve_diameter_scale(spar)
+        spar = replace(spar, hollow=replace(h, diameter=solution.diameter, diameter_given=True))
+        if solution.binding_by == PLAN:
+            head = ("diameters solved: the plan's as drawn (× 1), which this wall already makes stiff enough; "
+                    "no enlargement needed")
+        else:
+            head = f"diameters solved: {describe_scale(spar, solution)}"
+            if solution.binding_by == BORE_CLOSES:
+                head += f", set by leaving a bore at {place(spar, solution.binding)}"
+            elif solution.binding_by in (BORE_CORNERS, CORNER_MINIMUM, NOTCH):
+                head += f", set by the {solution.binding_by} at {place(spar, solution.binding)}"
+        lines.append(f"{head}; {_least(spar)}")
+    elif h.wall in (AUTO, AUTO_TAPERED):
+        solution = solve_constant_wall(spar) if h.wall == AUTO else solve_tapered_wall(spar)
+        resolved = replace(spar, hollow=replace(h, wall=solution.wall))
+        lines.append(_wall_line(spar, solution, resolved))
+        spar = resolved
+    return spar, tuple(lines)

@@ -1,0 +1,240 @@
+"""The least stave thickness, with the finished diameters fixed.
+
+Two forms, both exact (nothing rounded; the printed figures are rounded
+only where they are printed):
+
+- :func:`solve_constant_wall` (``wall = "auto"``): one thickness for the whole
+  spar, the least at which no station and no stretch's middle falls short.
+- :func:`solve_tapered_wall` (``wall = "auto-tapered"``): the least thickness
+  at each station, linear between them, thickened where a stretch's middle
+  would otherwise fall short. Here the plugs get no credit: where blocking
+  fills the bore the check's EI hardly depends on the wall, and the least
+  wall there would drop to what the round alone needs (a stave planed from
+  1" to 1/4" within a foot of the partners). Sized as if the bore were open,
+  the taper runs smoothly through the blocking, which then adds margin.
+
+The wall is bounded below by the round: R > a_i / cos(π/N) with
+a_i = R + planing allowance − t (and the wall after rounding at the bore's
+corners ≥ ``hollow.min_corner_wall`` when set); above by the radius (a wall
+as thick as the radius leaves no bore, as the loader rules) and by the
+stock's thickness. Lengths mm.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+
+import numpy as np
+
+from ..errors import DesignError
+from ..model.spar import AUTO_TAPERED, Profile, Spar
+from ..units import format_exact, format_length, format_length_up
+from .roots import INSIDE, NOTCH, UPPER, Miss, Window, window
+from .targets import Criterion, Point, check_at, criteria_of, place, points_of, ratio_text
+
+KEY = "hollow.wall"
+BORE_CLEARANCE = 1e-9  # mm: the least wall stands this far clear of the round reaching the bore's corners
+NO_BORE = "no bore"
+BORE_CORNERS = "bore corners"
+CORNER_MINIMUM = "corner minimum"
+MAX_THICKENING_PASSES = 16
+THICKENING_REPORTED = 1e-9  # relative: a stretch thickened by less than this (roundoff) is not reported
+
+
+@dataclass(frozen=True)
+class WallSolution:
+    """A solved wall: the schedule (mm), the point that sets it, what sets it there, stretches thickened."""
+
+    wall: Profile
+    binding: Point
+    binding_by: str
+    thickened: int = 0
+
+
+def wall_range(spar: Spar, radius: float) -> tuple[float, str, float]:
+    """Thinnest wall (mm) a finished ``radius`` allows, what sets it, and the thickest (just under the radius).
+
+    Thinnest: t ≥ R + p − (R − c_min)·cos(π/N) + clearance, from the bore's
+    corner radius a_i / cos(π/N) ≤ R − c_min (c_min = hollow.min_corner_wall or 0).
+    """
+    h = spar.hollow
+    cos = math.cos(math.pi / h.staves)
+    corner = h.min_corner_wall or 0.0
+    thinnest = radius + h.planing_allowance - (radius - corner) * cos + BORE_CLEARANCE
+    return thinnest, (CORNER_MINIMUM if corner else BORE_CORNERS), radius * (1 - 1e-9)
+
+
+def _radius(spar: Spar, z: float) -> float:
+    return float(spar.hollow.diameter.at(z)) / 2
+
+
+def wall_window(spar: Spar, point: Point, criteria: tuple[Criterion, ...]) -> Window | Miss:
+    """The walls (mm) that meet every criterion at ``point``, or what no wall can reach there."""
+    radius = _radius(spar, point.z)
+    lo, lo_by, hi = wall_range(spar, radius)
+    if lo >= hi:
+        return Window(lo, hi, lo_by, NO_BORE)
+    return window(lambda t: check_at(spar, point, radius, t), criteria, lo, hi, lo_by, NO_BORE)
+
+
+def _show(spar: Spar, mm: float) -> str:
+    return f"{format_exact(mm, spar.units)} ({format_length_up(mm, spar.units)} rounded up)"
+
+
+def _need(spar: Spar, point: Point, by: str, criteria: tuple[Criterion, ...]) -> str:
+    """What asks for the wall at ``point``, as the subject of a sentence."""
+    for c in criteria:
+        if c.name == by:
+            return f"{c.name} {c.target:.3f} at {place(spar, point)}"
+    if by == CORNER_MINIMUM:
+        return (f"the least wall after rounding (hollow.min_corner_wall "
+                f"{format_length(spar.hollow.min_corner_wall, spar.units)}) at {place(spar, point)}")
+    if by == NOTCH:
+        return f"the notch ({spar.hollow.joint.kind}) at {place(spar, point)}"
+    return f"keeping the round out of the bore's corners at {place(spar, point)}"
+
+
+def _cap(spar: Spar, point: Point, by: str, limit: float, criteria: tuple[Criterion, ...]) -> str:
+    """Why the wall may be no thicker than ``limit`` at ``point``."""
+    if by == NO_BORE:
+        return (f"at {place(spar, point)} a wall that thick leaves no bore: the staves would meet at the axis "
+                f"(finished radius {format_length(_radius(spar, point.z), spar.units)})")
+    name = next(c for c in criteria if c.name == by)
+    why = ("the plug there is stiffer than the staves" if point.plug is not None
+           else "thicker walls open larger voids in the notches")
+    return (f"at {place(spar, point)} the {name.name} falls below {name.target:.3f} with any wall over "
+            f"{format_exact(limit, spar.units)} ({why})")
+
+
+def _unreachable(spar: Spar, point: Point, miss: Miss) -> DesignError:
+    c = miss.criterion
+    if miss.best_at == UPPER:
+        how = "even staves meeting at the axis (no bore left)"
+    elif miss.best_at == INSIDE:
+        how = (f"even the stiffest wall for this joint ({format_exact(miss.best_size, spar.units)}; thicker walls "
+               "open larger voids in the notches)")
+    else:
+        how = "even the thinnest wall the round allows (any thinner and the round breaks into the bore)"
+    plugged = ", where the bore is plugged," if point.plug is not None else ""
+    return DesignError(f"no wall can reach {c.name} {c.target:.3f} at {place(spar, point)}{plugged}: {how} give only "
+                       f"{ratio_text(miss.best, c.target)}; use a stiffer wood for the staves or larger diameters "
+                       f"(hollow.stations = \"auto\" finds them)", KEY)
+
+
+def _windows(spar: Spar, criteria: tuple[Criterion, ...], plugs: bool = True) -> list[tuple[Point, Window]]:
+    out = []
+    for point in points_of(spar, plugs):
+        found = wall_window(spar, point, criteria)
+        if isinstance(found, Miss):
+            raise _unreachable(spar, point, found)
+        if found.empty:
+            raise DesignError(f"no wall fits at {place(spar, point)}: {_need(spar, point, found.lower_by, criteria)}"
+                              f" needs at least {_show(spar, found.lower)}, but "
+                              f"{_cap(spar, point, found.upper_by, found.upper, criteria)}", KEY)
+        out.append((point, found))
+    return out
+
+
+def _check_stock(spar: Spar, needs: list[tuple[Point, float, str]], criteria: tuple[Criterion, ...]) -> None:
+    """Raise when the thickest wall asked for is more than the stock's thickness."""
+    if spar.stock is None or not needs:
+        return
+    point, wall, by = max(needs, key=lambda n: n[1])
+    stock = spar.stock.thickness
+    if wall > stock:
+        raise DesignError(f"the stock is too thin: boards {format_length(stock, spar.units)} thick give a wall "
+                          f"of at most that, but {_need(spar, point, by, criteria)} needs a wall of at least "
+                          f"{_show(spar, wall)}; use boards at least that thick (stock.thickness)", KEY)
+
+
+def solve_constant_wall(spar: Spar) -> WallSolution:
+    """The least constant wall (mm) that meets every criterion at every point."""
+    criteria = criteria_of(spar)
+    windows = _windows(spar, criteria)
+    point, low = max(windows, key=lambda pw: pw[1].lower)
+    capped, high = min(windows, key=lambda pw: pw[1].upper)
+    if low.lower > high.upper:
+        raise DesignError(f"no constant wall works: {_need(spar, point, low.lower_by, criteria)} needs at least "
+                          f"{_show(spar, low.lower)}, but {_cap(spar, capped, high.upper_by, high.upper, criteria)};"
+                          f" try wall = \"{AUTO_TAPERED}\"", KEY)
+    _check_stock(spar, [(point, low.lower, low.lower_by)], criteria)
+    return WallSolution(Profile.constant(low.lower, spar.length), point, low.lower_by)
+
+
+def _raise_to_meet(values: list[float], zs: list[float], k: int, need: float) -> float:
+    """Thicken stretch k (stations k, k+1) so its middle gets at least ``need``; the most an end was raised (mm).
+
+    The thinner end is raised until the middle meets; if the middle needs more
+    than the thicker end, both ends are raised to ``need``. So no station is
+    ever made thicker than the most any point needs.
+    """
+    a, b = values[k], values[k + 1]
+    middle = (zs[k] + zs[k + 1]) / 2
+
+    def at_middle() -> float:
+        return float(np.interp(middle, zs[k:k + 2], values[k:k + 2]))
+
+    if at_middle() >= need:
+        return 0.0
+    if need <= max(a, b):
+        low = k if a < b else k + 1
+        values[low] = 2 * need - max(a, b)
+    else:
+        values[k], values[k + 1] = max(a, need), max(b, need)
+    low = k if values[k] <= values[k + 1] else k + 1
+    while at_middle() < need:  # the last unit in the last place of the interpolation
+        values[low] = float(np.nextafter(values[low], math.inf))
+    return max(values[k] - a, values[k + 1] - b)
+
+
+def _settled(zs: list[float], values: list[float], windows: list[tuple[Point, Window]]) -> Profile:
+    """The schedule, with a station's value moved up by units in the last place wherever the profile's own
+    interpolation (which may reach a station from the stretch before it) gives a point less than it needs."""
+    for _ in range(64):
+        wall = Profile(tuple(zs), tuple(values))
+        short = [(p, w) for p, w in windows if float(wall.at(p.z)) < w.lower]
+        if not short:
+            return wall
+        for point, _ in short:
+            k = int(np.clip(np.searchsorted(zs, point.z), 0, len(zs) - 1))
+            if not point.at_station and values[k - 1] < values[k]:
+                k -= 1
+            values[k] = float(np.nextafter(values[k], math.inf))
+    return Profile(tuple(zs), tuple(values))
+
+
+def solve_tapered_wall(spar: Spar) -> WallSolution:
+    """The least wall (mm) at each station for an open bore, linear between.
+
+    Thickened where a stretch's middle would fall short.
+    """
+    criteria = criteria_of(spar)
+    windows = _windows(spar, criteria, plugs=False)
+    stations = [(p, w) for p, w in windows if p.at_station]
+    middles = [(p, w) for p, w in windows if not p.at_station]
+    zs = [p.z for p, _ in stations]
+    values = [w.lower for _, w in stations]
+    thickened: set[int] = set()
+    for _ in range(MAX_THICKENING_PASSES):
+        changed = False
+        for k, (_, w) in enumerate(middles):
+            raised = _raise_to_meet(values, zs, k, w.lower)
+            if raised > 0:
+                changed = True
+                if raised > THICKENING_REPORTED * w.lower:
+                    thickened.add(k)
+        if not changed:
+            break
+    wall = _settled(zs, values, windows)
+    for point, w in windows:
+        t = float(wall.at(point.z))
+        if t > w.upper * (1 + 1e-12):
+            raise DesignError(f"no wall schedule works: thickened to {_show(spar, t)} to meet the target between "
+                              f"stations, {_cap(spar, point, w.upper_by, w.upper, criteria)}", KEY)
+    # Thickening never takes a station past the most any point needs, so the needs bound the stock.
+    _check_stock(spar, [(p, w.lower, w.lower_by) for p, w in windows], criteria)
+    k = int(np.argmax(values))
+    point, w = stations[k]
+    grown = values[k] > w.lower * (1 + THICKENING_REPORTED)
+    return WallSolution(wall, point, "thickened" if grown else w.lower_by, len(thickened))
