@@ -343,7 +343,7 @@ def _draw_template(p: _Painter, design: Design, place: Placement) -> None:
         p.text(place.x0 + 3, place.y0 - y_text, name, size=size, font=BOLD)
 
 
-def _crosses(sheet_: Sheet) -> list[tuple[float, float]]:
+def crosses(sheet_: Sheet) -> list[tuple[float, float]]:
     """Canvas points of the registration crosses: in every overlap, near the top and bottom of each row."""
     pts = []
     for t in sheet_.tiles:
@@ -421,7 +421,7 @@ def _tile_page(c, design: Design, sheet_: Sheet, tile: Tile, total: int) -> None
                f"< lay this page over {left.name}, crosses on crosses", size=5.5, gray=0.4)
     for place in sheet_.placements:
         _draw_template(p, design, place)
-    for x, y in _crosses(sheet_):
+    for x, y in crosses(sheet_):
         _draw_cross(p, x, y)
     c.restoreState()
 
