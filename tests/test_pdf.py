@@ -34,7 +34,7 @@ from stavegen.render.pdf_fullsize import crosses, pages_of, sheet, write_fullsiz
 from stavegen.render.pdf_report import write_report
 from stavegen.units import format_length, format_mass
 
-from conftest import SAMPLES
+from conftest import SAMPLES, make_spar
 
 PT_PER_MM = 72 / 25.4
 SCALE_BAR_PT = {"in": 288.0, "mm": 283.46}  # 4 in; 100 mm
@@ -180,8 +180,8 @@ def test_every_fullsize_page_is_the_paper_asked_with_a_true_scale_bar(built):
         assert "ACTUAL SIZE" in text and f"exactly {words}" in text
 
 
-def test_fullsize_tiles_lie_in_the_printable_area_and_cover_every_outline(built):
-    d = built["design"]
+def _check_tiling(d) -> None:
+    """Every tile is the page's window inside the printable area; together the tiles cover every outline."""
     s = sheet(d)
     pw, ph = s.page_size
     wx, wy, ww, wh = s.window
@@ -205,8 +205,10 @@ def test_fullsize_tiles_lie_in_the_printable_area_and_cover_every_outline(built)
         outline = Polygon([(place.x0 + x, place.y0 - y) for x, y in seg.outline])
         assert outline.area > 0
         assert outline.difference(tiles).area <= 1e-6 * outline.area, seg.label
-        # Each piece of the outline lies inside one page's printable window.
-        assert any(box(*t.bounds).intersects(outline) for t in s.tiles)
+
+
+def test_fullsize_tiles_lie_in_the_printable_area_and_cover_every_outline(built):
+    _check_tiling(built["design"])
 
 
 def test_fullsize_outlines_are_drawn_at_one_to_one(built):
@@ -252,3 +254,30 @@ def test_build_writes_both_pdfs(run, tmp_path):
         data = (tmp_path / name).read_bytes()
         assert data.startswith(b"%PDF-") and len(PdfReader(tmp_path / name).pages) >= 2
     assert not [p for p in os.listdir(tmp_path) if p.endswith(".part")]
+
+
+# Invented for the tests (not designs): a bevel-jointed spar with a symmetric taper, and one whose staves are
+# wider than a page is tall, so that the pages must join across rows as well.
+STOCK = {"thickness": 25, "widths": [150], "lengths": [2400], "kerf": 3, "scarf_ratio": 8, "scarf_stagger": 300}
+OTHER_SPARS = {
+    "bevel-symmetric": dict(hollow={"joint": "bevel", "taper": "symmetric"}, stock=STOCK,
+                            plan={"wood": "sitka-spruce", "stations": [[0, 100], [3000, 70]]}),
+    "wider-than-a-page": dict(plan={"wood": "sitka-spruce", "stations": [[0, 400], [3000, 380]]},
+                              hollow={"staves": 6, "wall": 60}, stock=dict(STOCK, thickness=62),
+                              output={"paper": "a4"}),
+}
+
+
+@pytest.mark.parametrize("case", sorted(OTHER_SPARS))
+def test_other_joints_tapers_and_sizes(case, tmp_path):
+    d = design(make_spar(**OTHER_SPARS[case]), layout=True)
+    _check_tiling(d)
+    if case == "wider-than-a-page":
+        assert sheet(d).row_overlap > 0 and sheet(d).rows > 1
+    write_report(d, tmp_path / "r.pdf")
+    write_fullsize(d, tmp_path / "f.pdf")
+    report = _flat(" ".join(p.extract_text() for p in PdfReader(tmp_path / "r.pdf").pages))
+    assert all(_flat(c) in report for c in CAUTIONS)
+    with pdfplumber.open(tmp_path / "f.pdf") as pdf:
+        for page in pdf.pages:
+            assert any(abs(r["width"] - SCALE_BAR_PT["mm"]) <= 0.1 for r in page.rects)

@@ -240,7 +240,7 @@ def _tick_marks(design: Design, t: Template) -> list[tuple[Tick, list[str]]]:
             elif "head" in reasons:
                 where = f"head {where}"
             note = " plug end" if "plug" in reasons and not reasons & {"heel", "head"} else ""
-            lines = [where, f"w {format_length(tick.width, units)}{note}"]
+            lines = [where, f"width {format_length(tick.width, units)}{note}"]
         if tick.x - last_labelled < TICK_LABEL_GAP:
             lines = []
         else:
@@ -268,7 +268,7 @@ class _Painter:
         c.setLineWidth(width)
         c.setStrokeGray(gray)
         if dash:
-            c.setDash(*dash)
+            c.setDash(list(dash))
         path = c.beginPath()
         for i, (x, y) in enumerate(points):
             px, py = self.pt(x, y)
@@ -419,6 +419,11 @@ def _tile_page(c, design: Design, sheet_: Sheet, tile: Tile, total: int) -> None
     if left is not None:
         p.text(tile.x + sheet_.overlap + 1.5, tile.y + LANE / 2 + 0.8,
                f"< lay this page over {left.name}, crosses on crosses", size=5.5, gray=0.4)
+    if up is not None:
+        p.polyline([(tile.x, tile.y + sheet_.row_overlap), (tile.x + tile.width, tile.y + sheet_.row_overlap)],
+                   **gray_dash)
+    if down is not None:
+        p.polyline([(tile.x, down.y), (tile.x + tile.width, down.y)], **gray_dash)
     for place in sheet_.placements:
         _draw_template(p, design, place)
     for x, y in crosses(sheet_):
@@ -443,9 +448,13 @@ def _map_page(c, design: Design, sheet_: Sheet, total: int) -> None:
         "never 'fit to page'.",
         f"Check the bar at the top of each page with a good rule: it must measure exactly {bar}. "
         "Check one station spacing on a template too. Reprint any page that is off.",
-        f"Each row of the map below is a strip of pages joined end to end. Trim each page, except the "
-        f"first of a row, along the left edge of its grey frame, lay it over the page to its left "
-        f"(the pages overlap by {overlap}) so the registration crosses meet, and tape it.",
+        (f"Each row of the map below is a strip of pages joined end to end. Trim each page, except the "
+         f"first of a row, along the left edge of its grey frame, lay it over the page to its left "
+         f"(the pages overlap by {overlap}) so the registration crosses meet, and tape it."
+         if sheet_.row_overlap == 0 else
+         f"The pieces are wider than one page, so pages join both ways. Trim each page along the left and top "
+         f"edges of its grey frame (not the first column's left or the first row's top), lay it over its "
+         f"neighbours (the pages overlap by {overlap}) so the registration crosses meet, and tape it."),
         f"{n_t} template{'s' if n_t > 1 else ''}: segments of the same shape share one; each says which "
         "segments it serves and how many pieces to mark out. Heel end to the left on every page.",
         "Station lines: position from the heel of the finished spar and the finished stave width there "

@@ -424,7 +424,8 @@ def _stave_detail(r: Report, sec: Section) -> list:
     top = P(0, f.outer)[1] + 14
     _ext(d, *P(xl, f.outer), P(xl, 0)[0], top + 3)
     _ext(d, *P(xr, f.outer), P(xr, 0)[0], top + 3)
-    _dim(d, (P(xl, 0)[0], top), (P(xr, 0)[0], top), f"stave width {r.length(w)} (before the notch)",
+    words = "before the notch" if sec.notch is not None else "outer face"
+    _dim(d, (P(xl, 0)[0], top), (P(xr, 0)[0], top), f"stave width {r.length(w)} ({words})",
          ((P(xl, 0)[0] + P(xr, 0)[0]) / 2, top + 4))
     right = P(xr, 0)[0] + 14
     _ext(d, *P(xr, f.outer), right + 3, P(0, f.outer)[1])
@@ -453,7 +454,8 @@ def _stave_detail(r: Report, sec: Section) -> list:
     d.add(String(ox + (xl + xr) / 2 * k, P(0, f.outer)[1] - 10, "outer face", fontName=ITALIC, fontSize=7,
                  textAnchor="middle"))
     _check_bar(d, 0, 3, r, k)
-    return [KeepTogether([r.p(r.t(f"One stave at this station, outer face up, notch on the left; "
+    where = ", notch on the left" if sec.notch is not None else ""
+    return [KeepTogether([r.p(r.t(f"One stave at this station, outer face up{where}; "
                                   f"scale {_scale_words(sa, sb)}."), "small"), d,
                           Spacer(1, 3), r.p(r.t(" ".join(notes)), "small")])]
 
