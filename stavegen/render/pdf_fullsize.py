@@ -460,6 +460,9 @@ def _map_page(c, design: Design, sheet_: Sheet, total: int) -> None:
         "Station lines: position from the heel of the finished spar and the finished stave width there "
         "(before the notch). Check every piece against the cut list in the report before cutting.",
         edge + " Dashed lines across a piece are where a scarf's slope begins.",
+        "Before cutting, read the safety notes on page 1 of the shop report (" + design.spar.slug +
+        "-report.pdf): among them, table-saw and router cuts on narrow staves call for push sticks, "
+        "featherboards and guards.",
     ]
     c.setFont(FONT, 8)
     y = y1 - HEADER * MM - 4

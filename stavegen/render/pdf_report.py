@@ -463,10 +463,11 @@ def _stave_detail(r: Report, sec: Section) -> list:
 # E·I along the spar -------------------------------------------------------------------------------------------
 
 
-def _nice_step(span: float, target: int = 8) -> float:
+def _nice_step(span: float, target: int = 8, feet: bool = False) -> float:
+    """A round step near span/target: 1, 2, 2.5 or 5 times a power of ten (no 2.5 when counting feet)."""
     raw = span / target
     mag = 10 ** math.floor(math.log10(raw))
-    for m in (1, 2, 2.5, 5, 10):
+    for m in ((1, 2, 5, 10) if feet else (1, 2, 2.5, 5, 10)):
         if raw <= m * mag:
             return m * mag
     return 10 * mag
@@ -506,7 +507,7 @@ def _plot(r: Report, series: list[tuple[list[tuple[float, float]], colors.Color,
     hi = max(ys) if y_max is None else y_max
     step_y = _nice_step(hi - lo or 1, 5)
     lo, hi = math.floor(lo / step_y) * step_y, math.ceil(hi / step_y) * step_y
-    step_x = _nice_step(x1 - x0 or 1, 10)
+    step_x = _nice_step(x1 - x0 or 1, 10, feet=r.spar.units == "in")
     lp.xValueAxis.valueMin, lp.xValueAxis.valueMax = x0, x1
     lp.xValueAxis.valueSteps = [k * step_x for k in range(math.ceil(x0 / step_x), math.floor(x1 / step_x) + 1)]
     lp.yValueAxis.valueMin, lp.yValueAxis.valueMax = lo, hi
@@ -590,7 +591,8 @@ def cut_list(r: Report) -> list:
     table = _table([[plain(c) for c in row] for row in table_rows], widths=[w * MM * scale for w in widths])
     lay = r.layout
     first_rows = [i for i, row in enumerate(body, start=1) if row[1] == "1"]
-    table.setStyle(TableStyle([("LINEABOVE", (0, i), (-1, i), 0.4, RULE) for i in first_rows[1:]]))
+    table.setStyle(TableStyle([("LINEABOVE", (0, i), (-1, i), 0.4, RULE) for i in first_rows[1:]] +
+                              [("ALIGN", (9, 0), (-1, -1), "LEFT"), ("LEFTPADDING", (9, 0), (9, -1), 8)]))
     return [CondPageBreak(200), r.h2("Cut list: every stave segment"),
             r.p(r.t(f"Heel end first, stave by stave. Positions from the heel of the finished spar (negative in "
                     f"the heel's end allowance); lengths along the stave's face. Widths are finished, before the "
@@ -647,7 +649,7 @@ def scarf_map(r: Report) -> list:
     for item in over:
         d.add(item)
     unit, x_words = _position_axis(r)
-    step = _nice_step((z1 - z0) / unit, 10)
+    step = _nice_step((z1 - z0) / unit, 12, feet=r.spar.units == "in")
     v = math.ceil(z0 / unit / step) * step
     d.add(Line(X(z0), bottom - 4, X(z1), bottom - 4, strokeWidth=0.5))
     while v <= z1 / unit + 1e-9:
