@@ -1,0 +1,53 @@
+"""Regenerate the README's pictures of the two PDFs from samples/catboat-mast.toml.
+
+    python docs/make_images.py
+
+Needs stavegen installed (``pip install -e .``) and pdftoppm (poppler-utils).
+Writes docs/images/report-page1.png and docs/images/fullsize-page.png.
+"""
+
+from __future__ import annotations
+
+import shutil
+import subprocess
+import sys
+import tempfile
+from pathlib import Path
+
+from stavegen.model.loader import load_spar
+from stavegen.pipeline import design
+from stavegen.render.pdf_fullsize import write_fullsize
+from stavegen.render.pdf_report import write_report
+
+ROOT = Path(__file__).resolve().parent.parent
+SPAR = ROOT / "samples" / "catboat-mast.toml"
+IMAGES = ROOT / "docs" / "images"
+DPI = "100"
+FULLSIZE_PAGE = 2  # the first template page: the heel end, station labels, a scarf's centre
+
+
+def render(pdf: Path, page: int, target: Path) -> None:
+    """One page of ``pdf`` as a PNG at ``target`` (pdftoppm adds the .png)."""
+    subprocess.run(["pdftoppm", "-png", "-r", DPI, "-f", str(page), "-l", str(page), "-singlefile",
+                    str(pdf), str(target.with_suffix(""))], check=True)
+
+
+def main() -> int:
+    if shutil.which("pdftoppm") is None:
+        sys.stderr.write("pdftoppm (poppler-utils) is needed to render the pages\n")
+        return 1
+    IMAGES.mkdir(parents=True, exist_ok=True)
+    d = design(load_spar(SPAR), layout=True)
+    with tempfile.TemporaryDirectory() as tmp:
+        report, full = Path(tmp) / "report.pdf", Path(tmp) / "fullsize.pdf"
+        write_report(d, report)
+        write_fullsize(d, full)
+        render(report, 1, IMAGES / "report-page1.png")
+        render(full, FULLSIZE_PAGE, IMAGES / "fullsize-page.png")
+    for name in ("report-page1.png", "fullsize-page.png"):
+        print(IMAGES / name)
+    return 0
+
+
+if __name__ == "__main__":
+    raise SystemExit(main())

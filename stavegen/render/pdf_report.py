@@ -1,0 +1,753 @@
+"""``NAME-report.pdf``: the shop document, in the spar's units, drawn from the computed design only.
+
+The report is a list of section functions (:data:`SECTIONS`), each taking a
+:class:`Report` and returning flowables, [] when it has nothing to say; a new
+part of the report (the board order once ``design.layout.lumber`` exists, the
+cutter settings once ``design.layout.machining`` does) is one more function
+in that list. Every page carries the spar's name, the spar file's name, the
+build date and "page n of m".
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+from pathlib import Path
+from typing import Callable
+from xml.sax.saxutils import escape
+
+from reportlab.graphics.charts.lineplots import LinePlot
+from reportlab.graphics.shapes import Circle, Drawing, Line, Polygon, Rect, String
+from reportlab.lib import colors
+from reportlab.lib.enums import TA_LEFT
+from reportlab.lib.styles import ParagraphStyle
+from reportlab.pdfgen.canvas import Canvas
+from reportlab.platypus import (CondPageBreak, KeepTogether, PageBreak, Paragraph, SimpleDocTemplate, Spacer,
+                                Table, TableStyle)
+
+from ..cautions import CAUTIONS, HEADLINE
+from ..checks.ratios import StationCheck
+from ..pipeline import Design
+from ..section.properties import Section, bore_ring
+from ..section.staves import placed
+from ..stations.grid import MERGE_TOLERANCE
+from ..units import MM_PER_FOOT, MM_PER_INCH, N_PER_LBF, format_force, format_length, format_mass, format_plain
+from .csv_cutlist import cutlist_rows
+from .pdf_common import BOLD, FONT, ITALIC, MM, build_date, paper_size, plain, source_name
+
+MARGIN = 15 * MM
+WOOD = colors.Color(0.93, 0.87, 0.74)
+PALE_WOOD = colors.Color(0.98, 0.96, 0.92)
+PASS_GREEN = colors.Color(0.05, 0.45, 0.15)
+FAIL_RED = colors.Color(0.75, 0.08, 0.08)
+RULE = colors.Color(0.6, 0.6, 0.6)
+STRIPE = colors.Color(0.95, 0.95, 0.95)
+
+# The words the verdict uses; tests read them back from the PDF.
+PASS_WORD = "PASS"
+FAIL_WORD = "FAIL"
+
+
+def _styles() -> dict[str, ParagraphStyle]:
+    base = ParagraphStyle("body", fontName=FONT, fontSize=9, leading=11.5, alignment=TA_LEFT)
+    return {
+        "body": base,
+        "small": ParagraphStyle("small", parent=base, fontSize=7.5, leading=9.5),
+        "cell": ParagraphStyle("cell", parent=base, fontSize=7.5, leading=9),
+        "head": ParagraphStyle("head", parent=base, fontName=BOLD, fontSize=7.5, leading=9),
+        "title": ParagraphStyle("title", parent=base, fontName=BOLD, fontSize=17, leading=21, spaceAfter=2),
+        "h2": ParagraphStyle("h2", parent=base, fontName=BOLD, fontSize=12, leading=15, spaceBefore=8,
+                             spaceAfter=4),
+        "verdict": ParagraphStyle("verdict", parent=base, fontSize=10, leading=13, textColor=colors.white),
+        "caution_head": ParagraphStyle("caution_head", parent=base, fontName=BOLD, fontSize=11, leading=14,
+                                       textColor=FAIL_RED),
+        "caution": ParagraphStyle("caution", parent=base, fontSize=9, leading=11.5, leftIndent=10,
+                                  bulletIndent=0),
+    }
+
+
+@dataclass
+class Report:
+    """What every section function gets: the design, its units, the paragraph styles, the frame width."""
+
+    design: Design
+    styles: dict[str, ParagraphStyle]
+    width: float  # points available across the page
+
+    @property
+    def spar(self):
+        return self.design.spar
+
+    @property
+    def layout(self):
+        return self.design.layout
+
+    def length(self, mm: float | None, tape: bool = False) -> str:
+        return "-" if mm is None else format_length(mm, self.spar.units, tape)
+
+    def where(self, mm: float) -> str:
+        return format_length(mm, self.spar.units, tape=True)
+
+    def cell(self, mm: float | None, tape: bool = False) -> str:
+        """A length for a table column whose header carries the unit: bare mm figures, or inches as read."""
+        if mm is None:
+            return "-"
+        return format_plain(mm, "mm") if self.spar.units == "mm" else format_length(mm, "in", tape)
+
+    @property
+    def unit_note(self) -> str:
+        """What a table header adds for its unit: " (mm)" in metric, nothing for inches (the marks say it)."""
+        return "\n(mm)" if self.spar.units == "mm" else ""
+
+    def p(self, text: str, style: str = "body") -> Paragraph:
+        """A paragraph of plain text (escaped), or of markup when the text is already ``<b>``-tagged."""
+        return Paragraph(plain(text), self.styles[style])
+
+    def t(self, text: str) -> str:
+        return escape(plain(text))
+
+    def h2(self, text: str) -> Paragraph:
+        return Paragraph(self.t(text), self.styles["h2"])
+
+
+Section_ = Callable[[Report], list]
+
+
+def _table(rows: list[list], widths: list[float] | None = None, header_rows: int = 1, align_right_from: int = 1,
+           font_size: float = 7.5, stripes: bool = True) -> Table:
+    """A plain table: bold header repeated on every page, thin rules, right-aligned figures."""
+    table = Table(rows, colWidths=widths, repeatRows=header_rows, hAlign="LEFT")
+    style = [
+        ("FONT", (0, 0), (-1, -1), FONT, font_size),
+        ("FONT", (0, 0), (-1, header_rows - 1), BOLD, font_size),
+        ("LINEBELOW", (0, header_rows - 1), (-1, header_rows - 1), 0.6, colors.black),
+        ("LINEBELOW", (0, -1), (-1, -1), 0.4, RULE),
+        ("VALIGN", (0, 0), (-1, -1), "BOTTOM"),
+        ("ALIGN", (align_right_from, 0), (-1, -1), "RIGHT"),
+        ("TOPPADDING", (0, 0), (-1, -1), 1.5),
+        ("BOTTOMPADDING", (0, 0), (-1, -1), 1.5),
+        ("LEFTPADDING", (0, 0), (-1, -1), 3),
+        ("RIGHTPADDING", (0, 0), (-1, -1), 3),
+    ]
+    if stripes:
+        for i in range(header_rows, len(rows)):
+            if (i - header_rows) % 2 == 1:
+                style.append(("BACKGROUND", (0, i), (-1, i), STRIPE))
+    table.setStyle(TableStyle(style))
+    return table
+
+
+# Page 1 -------------------------------------------------------------------------------------------------------
+
+
+def title_and_verdict(r: Report) -> list:
+    spar = r.spar
+    h = spar.hollow
+    a = r.design.assessment
+    wall = h.wall
+    wall_text = r.length(wall.largest) if wall.is_constant else f"{r.length(wall.smallest)} to {r.length(wall.largest)}"
+    sub = (f"{r.where(spar.length)} long, heel to head.  Plan: solid {spar.plan.wood.name}.  "
+           f"Hollow: {h.staves} staves of {h.wood.name}, {h.joint.kind} joint, wall {wall_text}.")
+    w, s = a.weakest_stiffness, a.weakest_strength
+    least = (f"Least E·I ratio {w.ei_ratio:.3f} at {r.where(w.station.z)} from the heel (target {a.ei_target:.3f}); "
+             f"least strength ratio {s.strength_ratio:.3f} at {r.where(s.station.z)}.")
+    if r.design.passed:
+        head = (f"<b>{PASS_WORD}</b>: the hollow spar is at least as stiff as the plan at every station, "
+                f"with the margin asked. ")
+        colour = PASS_GREEN
+        body = r.t(least)
+    else:
+        head = f"<b>{FAIL_WORD}</b>: the hollow spar misses its target. Do not build it as drawn. "
+        colour = FAIL_RED
+        body = r.t(" ".join(x[0].upper() + x[1:] + "." for x in a.shortfalls()) + " " + least)
+    verdict = Table([[Paragraph(head + body, r.styles["verdict"])]], colWidths=[r.width])
+    verdict.setStyle(TableStyle([("BACKGROUND", (0, 0), (-1, -1), colour),
+                                 ("LEFTPADDING", (0, 0), (-1, -1), 7), ("RIGHTPADDING", (0, 0), (-1, -1), 7),
+                                 ("TOPPADDING", (0, 0), (-1, -1), 5), ("BOTTOMPADDING", (0, 0), (-1, -1), 6)]))
+    return [Paragraph(r.t(f"{spar.name}: hollow spar shop report"), r.styles["title"]),
+            r.p(r.t(sub)), Spacer(1, 6), verdict, Spacer(1, 8)]
+
+
+def cautions(r: Report) -> list:
+    cells = [[Paragraph(r.t(HEADLINE), r.styles["caution_head"])]]
+    for line in CAUTIONS:
+        cells.append([Paragraph(r.t(line), r.styles["caution"], bulletText="\u2022")])
+    cells.append([Paragraph(r.t("These figures compare one spar with another; they are no substitute for a "
+                                "designer's judgement. Where in doubt, ask a qualified designer before cutting."),
+                            r.styles["small"])])
+    box = Table(cells, colWidths=[r.width])
+    box.setStyle(TableStyle([("BOX", (0, 0), (-1, -1), 2, FAIL_RED),
+                             ("BACKGROUND", (0, 0), (-1, -1), colors.Color(1, 0.96, 0.95)),
+                             ("LEFTPADDING", (0, 0), (-1, -1), 8), ("RIGHTPADDING", (0, 0), (-1, -1), 8),
+                             ("TOPPADDING", (0, 0), (-1, -1), 2), ("BOTTOMPADDING", (0, 0), (-1, -1), 2),
+                             ("TOPPADDING", (0, 0), (-1, 0), 6), ("BOTTOMPADDING", (0, -1), (-1, -1), 6)]))
+    return [box, Spacer(1, 8)]
+
+
+def summary(r: Report) -> list:
+    spar, a, lay = r.spar, r.design.assessment, r.layout
+    h = spar.hollow
+    units = spar.units
+    rows = [
+        ["spar file", source_name(spar)],
+        ["length, heel to head", r.where(spar.length)],
+        ["plan (the stiffness target)", f"solid {spar.plan.wood.name}, diameter {r.length(spar.plan.diameter.smallest)}"
+                                        f" to {r.length(spar.plan.diameter.largest)}"],
+        ["hollow spar", f"{h.staves} staves of {h.wood.name}, {h.joint.kind} joint, finished diameter "
+                        f"{r.length(h.diameter.smallest)} to {r.length(h.diameter.largest)}"],
+        ["allowances", f"planing {r.length(h.planing_allowance)} on the radius, {r.length(h.end_allowance)} at "
+                       f"each stave end; lamination factor {h.lamination_factor:g}, EI margin {100 * h.margin:g} %"],
+    ]
+    if lay is not None:
+        per = sorted({len(c) for c in lay.scarfs.centres})
+        per_text = " or ".join(str(n) for n in per)
+        scarf_text = (f"{lay.scarfs.count} in all ({per_text} per stave), each {r.length(lay.scarfs.length)} long"
+                      if lay.scarfs.count else "none: every stave is one piece")
+        rows += [
+            ["scarfs", f"{scarf_text}; {len(lay.segments)} segments to cut"],
+            ["stave length", f"{r.where(lay.plan.cut_length)} along the face with end allowances "
+                             f"({r.where(lay.plan.finished_length)} finished)"],
+        ]
+    if h.plugs:
+        rows.append(["plugs", "; ".join(f"{r.where(p.start)} to {r.where(p.end)}, {p.wood.name}" for p in h.plugs)])
+    facts = Table([[r.p(r.t(k), "head"), r.p(r.t(v), "cell")] for k, v in rows],
+                  colWidths=[38 * MM, r.width - 38 * MM], hAlign="LEFT")
+    facts.setStyle(TableStyle([("VALIGN", (0, 0), (-1, -1), "TOP"), ("TOPPADDING", (0, 0), (-1, -1), 1),
+                               ("BOTTOMPADDING", (0, 0), (-1, -1), 1), ("LEFTPADDING", (0, 0), (-1, -1), 0)]))
+    saved = a.plan.mass.mass - a.hollow.mass.mass
+    whole = [
+        ["the whole spar", "plan (solid)", "hollow", "hollow / plan"],
+        ["weight", format_mass(a.plan.mass.mass, units), format_mass(a.hollow.mass.mass, units),
+         f"{a.hollow.mass.mass / a.plan.mass.mass:.3f}"],
+        ["centre of gravity from the heel", r.where(a.plan.mass.centre), r.where(a.hollow.mass.centre),
+         f"{a.hollow.mass.centre / a.plan.mass.centre:.3f}"],
+        [f"head deflection, {format_force(a.head_load, units)} sideways, heel held",
+         r.length(a.plan.tip_deflection), r.length(a.hollow.tip_deflection),
+         f"{a.hollow.tip_deflection / a.plan.tip_deflection:.3f}"],
+        ["Euler load, heel fixed, head free", format_force(a.plan.euler_load, units),
+         format_force(a.hollow.euler_load, units), f"{a.hollow.euler_load / a.plan.euler_load:.3f}"],
+    ]
+    saving = (f"Weight saved: {format_mass(saved, units)} ({100 * saved / a.plan.mass.mass:.0f} % of the plan's)."
+              if saved >= 0 else f"The hollow spar is {format_mass(-saved, units)} heavier than the plan.")
+    out = [r.h2("Summary"), facts, Spacer(1, 6),
+           _table([[plain(c) for c in row] for row in whole], widths=[70 * MM, 32 * MM, 32 * MM, 26 * MM]),
+           Spacer(1, 3), r.p(r.t(saving))]
+    notes = [f"solved: {line}" for line in r.design.solved] + [f"warning: {line}" for line in r.design.warnings]
+    for note in notes:
+        out.append(r.p(r.t(note), "small"))
+    return out
+
+
+# Station table -------------------------------------------------------------------------------------------------
+
+
+def _rough_width(r: Report, z: float) -> float | None:
+    """The rough (rip) width the layout computed at station z, if the layout has that station."""
+    if r.layout is None:
+        return None
+    for st in r.layout.plan.stations:
+        if abs(st.z - z) <= MERGE_TOLERANCE:
+            return st.rough_width
+    return None
+
+
+def station_table(r: Report) -> list:
+    a = r.design.assessment
+    target = a.ei_target
+    least_ei, least_strength = a.weakest_stiffness, a.weakest_strength
+    u = r.unit_note
+    head = [f"from heel{u}", "plan\nOD", "finished\nOD", "wall", "stave width\nfinished", "stave width\nrough",
+            "notch\ndepth", "apex\nheight", "EI\nratio", "strength\nratio", "plug", "note"]
+    if u:
+        head = [head[0]] + [h + (" (mm)" if 0 < i < 8 else "") for i, h in enumerate(head) if i > 0]
+    rows: list[list[str]] = [head]
+    marks = []
+    for i, c in enumerate(a.stations, start=1):
+        s = c.station
+        sec = s.section
+        note = []
+        if c.ei_ratio < target - 1e-12:
+            note.append("SHORT")
+        if c is least_ei:
+            note.append("least EI")
+        if c is least_strength:
+            note.append("least strength")
+        rows.append([r.cell(s.z, tape=True), r.cell(s.plan_diameter), r.cell(s.diameter), r.cell(s.wall),
+                     r.cell(sec.stave_width), r.cell(_rough_width(r, s.z)),
+                     r.cell(sec.notch.depth if sec.notch else None),
+                     r.cell(sec.notch.apex_height if sec.notch else None),
+                     f"{c.ei_ratio:.3f}", f"{c.strength_ratio:.3f}", "yes" if s.plug else "",
+                     "\n".join(note)])
+        if note:
+            marks.append((i, "SHORT" in note))
+    widths = [18, 14, 15, 13, 17, 17, 14, 14, 12, 14, 9, 22]
+    scale = r.width / (sum(widths) * MM)
+    table = _table([[plain(x) for x in row] for row in rows], widths=[w * MM * scale for w in widths])
+    table.setStyle(TableStyle([("ALIGN", (10, 0), (-1, -1), "LEFT"), ("LEFTPADDING", (11, 0), (11, -1), 6)]))
+    for i, short in marks:
+        table.setStyle(TableStyle([("FONT", (0, i), (-1, i), BOLD, 7.5)] +
+                                  ([("TEXTCOLOR", (0, i), (-1, i), FAIL_RED)] if short else [])))
+    rough = ("Rough width adds the edge allowance jointed off each edge. " if r.layout is not None else "")
+    return [PageBreak(), r.h2("Station by station against the plan"),
+            r.p(r.t(f"Positions from the heel of the finished spar. Stave widths are across the broad face before "
+                    f"the notch is cut. {rough}Notch depth is along the width from the notched edge to the V's "
+                    f"apex; apex height is above the stave's inner face. EI ratio target "
+                    f"{target:.3f}."), "small"), Spacer(1, 4), table]
+
+
+# Section drawing ------------------------------------------------------------------------------------------------
+
+
+_SCALES = ((2, 1), (1, 1), (1, 2), (1, 4), (1, 5), (1, 10), (1, 20))
+
+
+def _scale_for(size_mm: float, room_mm: float, largest: tuple[int, int] = (1, 1)) -> tuple[int, int]:
+    """The largest drawing scale (a, b) = a:b, no larger than ``largest``, at which ``size_mm`` fits ``room_mm``."""
+    for a, b in _SCALES:
+        if a / b > largest[0] / largest[1]:
+            continue
+        if size_mm * a / b <= room_mm:
+            return a, b
+    return _SCALES[-1]
+
+
+def _arrow(d: Drawing, x: float, y: float, ux: float, uy: float, size: float = 4.0) -> None:
+    """A filled arrowhead with its tip at (x, y) pointing along the unit vector (ux, uy)."""
+    px, py = -uy, ux
+    d.add(Polygon([x, y, x - size * ux + 0.35 * size * px, y - size * uy + 0.35 * size * py,
+                   x - size * ux - 0.35 * size * px, y - size * uy - 0.35 * size * py],
+                  fillColor=colors.black, strokeColor=None))
+
+
+def _dim(d: Drawing, p1: tuple[float, float], p2: tuple[float, float], text: str, text_at: tuple[float, float],
+         anchor: str = "middle", size: float = 7.5) -> None:
+    """A dimension line with arrowheads at both ends (points) and its figure at ``text_at``."""
+    (x1, y1), (x2, y2) = p1, p2
+    length = math.hypot(x2 - x1, y2 - y1)
+    if length <= 0:
+        return
+    ux, uy = (x2 - x1) / length, (y2 - y1) / length
+    d.add(Line(x1, y1, x2, y2, strokeWidth=0.5))
+    _arrow(d, x2, y2, ux, uy)
+    _arrow(d, x1, y1, -ux, -uy)
+    d.add(String(text_at[0], text_at[1], plain(text), fontName=FONT, fontSize=size, textAnchor=anchor))
+
+
+def _ext(d: Drawing, x1: float, y1: float, x2: float, y2: float) -> None:
+    d.add(Line(x1, y1, x2, y2, strokeWidth=0.3, strokeColor=colors.Color(0.35, 0.35, 0.35)))
+
+
+def _scale_words(a: int, b: int) -> str:
+    return f"{a}:{b}"
+
+
+def _check_bar(d: Drawing, x: float, y: float, r: Report, k: float) -> None:
+    """A short rule at the drawing's scale (k points per mm): 2 in or 50 mm, labelled."""
+    real = 2 * MM_PER_INCH if r.spar.units == "in" else 50.0
+    words = '2 in' if r.spar.units == "in" else "50 mm"
+    d.add(Rect(x, y, real * k, 3, fillColor=colors.black, strokeColor=colors.black, strokeWidth=0.4))
+    d.add(String(x + real * k + 4, y, f"{words} at this scale", fontName=FONT, fontSize=6.5))
+
+
+def section_drawing(r: Report) -> list:
+    a = r.design.assessment
+    check: StationCheck = max(a.stations, key=lambda c: c.station.section.stave_width)
+    sec: Section = check.station.section
+    n = sec.staves
+    R = sec.radius
+    # The whole section, as large as the page allows up to 1:1; notes under it.
+    reach_mm = sec.outer_apothem / math.cos(math.pi / n)  # the staves' outer corners before rounding
+    sa, sb = _scale_for(2 * reach_mm, min(r.width / MM - 30, 150.0))
+    k = MM * sa / sb
+    half = reach_mm * k
+    notes = [
+        f"{n} staves, {sec.joint}; finished OD {r.length(2 * R)}: the heavy circle (pale: wood taken off in "
+        f"rounding)",
+        f"across flats before rounding {r.length(sec.across_flats)}",
+        f"stave thickness (wall) {r.length(sec.thickness)}",
+        f"wall after rounding: {r.length(sec.flat_wall)} mid-stave, {r.length(sec.corner_wall)} at the bore's corners",
+        f"bore across flats {r.length(2 * sec.inner_apothem)}" + ("; plugged here (grey)" if check.station.plug else ""),
+        f"scale {_scale_words(sa, sb)} when printed at 100 %",
+    ]
+    height = 2 * half + 24
+    d = Drawing(r.width, height)
+    cx, cy = r.width / 2, height - half - 4
+    polygon = sec.stave_polygon()
+    rings = [[v for x, y in placed(polygon, n, i).exterior.coords for v in (cx + x * k, cy + y * k)]
+             for i in range(n)]
+    for ring in rings:  # the glued-up staves, pale where rounding takes the wood off
+        d.add(Polygon(ring, fillColor=PALE_WOOD, strokeColor=None))
+    d.add(Circle(cx, cy, R * k, fillColor=WOOD, strokeColor=None))
+    for ring in rings:
+        d.add(Polygon(ring, fillColor=None, strokeColor=colors.Color(0.45, 0.35, 0.2), strokeWidth=0.4))
+    bore = bore_ring(n, sec.inner_apothem)
+    d.add(Polygon([v for x, y in bore for v in (cx + x * k, cy + y * k)],
+                  fillColor=colors.Color(0.82, 0.82, 0.82) if check.station.plug else colors.white,
+                  strokeColor=colors.Color(0.45, 0.35, 0.2), strokeWidth=0.4))
+    d.add(Circle(cx, cy, R * k, fillColor=None, strokeColor=colors.black, strokeWidth=1.1))
+    d.add(Line(cx - 4, cy, cx + 4, cy, strokeWidth=0.3))
+    d.add(Line(cx, cy - 4, cx, cy + 4, strokeWidth=0.3))
+    # OD across the centre, the wall through the top stave.
+    _dim(d, (cx - R * k, cy), (cx + R * k, cy), f"OD {r.length(2 * R)}", (cx - R * k / 2, cy + 4))
+    _dim(d, (cx, cy + sec.inner_apothem * k), (cx, cy + sec.outer_apothem * k),
+         f"wall {r.length(sec.thickness)}", (cx + 4, cy + (sec.inner_apothem + sec.outer_apothem) / 2 * k - 2.5),
+         anchor="start")
+    _check_bar(d, 0, 4, r, k)
+    half_rows = math.ceil(len(notes) / 2)
+    cells = [[r.p(r.t(notes[i]), "small"), r.p(r.t(notes[i + half_rows]), "small") if i + half_rows < len(notes)
+              else ""] for i in range(half_rows)]
+    table = Table(cells, colWidths=[r.width / 2] * 2, hAlign="LEFT")
+    table.setStyle(TableStyle([("LEFTPADDING", (0, 0), (-1, -1), 0), ("TOPPADDING", (0, 0), (-1, -1), 0.5),
+                               ("BOTTOMPADDING", (0, 0), (-1, -1), 0.5), ("VALIGN", (0, 0), (-1, -1), "TOP")]))
+    out = [CondPageBreak(height + 80),
+           r.h2(f"Section at the widest stave, {r.where(check.station.z)} from the heel"), d, Spacer(1, 4), table,
+           Spacer(1, 8)]
+    out += _stave_detail(r, sec)
+    return out
+
+
+def _stave_detail(r: Report, sec: Section) -> list:
+    f = sec.frame
+    w, t = f.width, f.outer - f.inner
+    sa, sb = _scale_for(max(w, t * (r.width / MM - 75) / 60), r.width / MM - 75, largest=(2, 1))
+    k = MM * sa / sb
+    height = t * k + 84
+    d = Drawing(r.width, height)
+    ox, oy = 60 - f.x_notch_edge * k, 44 - f.inner * k
+
+    def P(x: float, y: float) -> tuple[float, float]:
+        return ox + x * k, oy + y * k
+
+    pts = [v for x, y in sec.stave_outline for v in P(x, y)]
+    d.add(Polygon(pts, fillColor=WOOD, strokeColor=colors.black, strokeWidth=0.7))
+    xl, xr = f.x_notch_edge, f.x_square_edge
+    top = P(0, f.outer)[1] + 14
+    _ext(d, *P(xl, f.outer), P(xl, 0)[0], top + 3)
+    _ext(d, *P(xr, f.outer), P(xr, 0)[0], top + 3)
+    words = "before the notch" if sec.notch is not None else "outer face"
+    _dim(d, (P(xl, 0)[0], top), (P(xr, 0)[0], top), f"stave width {r.length(w)} ({words})",
+         ((P(xl, 0)[0] + P(xr, 0)[0]) / 2, top + 4))
+    right = P(xr, 0)[0] + 14
+    _ext(d, *P(xr, f.outer), right + 3, P(0, f.outer)[1])
+    _ext(d, *P(xr, f.inner), right + 3, P(0, f.inner)[1])
+    _dim(d, (right, P(0, f.inner)[1]), (right, P(0, f.outer)[1]), f"thickness {r.length(t)}",
+         (right + 5, (P(0, f.inner)[1] + P(0, f.outer)[1]) / 2 - 2.5), anchor="start")
+    notes = []
+    if sec.notch is not None and f.apex is not None:
+        ax, ay = f.apex
+        bottom = P(0, f.inner)[1] - 14
+        _ext(d, P(xl, 0)[0], P(0, f.outer)[1], P(xl, 0)[0], bottom - 3)
+        _ext(d, *P(ax, ay), P(ax, 0)[0], bottom - 3)
+        _dim(d, (P(xl, 0)[0], bottom), (P(ax, 0)[0], bottom), f"notch depth {r.length(sec.notch.depth)}",
+             (P(ax, 0)[0] + 6, bottom - 2.5), anchor="start")
+        left = P(xl, 0)[0] - 14
+        _ext(d, *P(ax, ay), left - 3, P(0, ay)[1])
+        _ext(d, *P(xl, f.inner), left - 3, P(0, f.inner)[1])
+        _dim(d, (left, P(0, f.inner)[1]), (left, P(0, ay)[1]), f"apex {r.length(sec.notch.apex_height)}",
+             (left - 5, (P(0, f.inner)[1] + P(0, ay)[1]) / 2 - 2.5), anchor="end")
+        phi, other = sec.v_face_angles
+        notes.append(f"The V is 90°: its faces lie at {phi:.2f}° and {other:.2f}° to the broad face. "
+                     f"Apex height is above the inner face; notch depth along the width from the notched edge.")
+    else:
+        notes.append(f"Plain bevel staves: each edge bevelled {sec.bevel_angle:.2f}° off square; "
+                     f"inner face narrower than the outer.")
+    d.add(String(ox + (xl + xr) / 2 * k, P(0, f.outer)[1] - 10, "outer face", fontName=ITALIC, fontSize=7,
+                 textAnchor="middle"))
+    _check_bar(d, 0, 3, r, k)
+    where = ", notch on the left" if sec.notch is not None else ""
+    return [KeepTogether([r.p(r.t(f"One stave at this station, outer face up{where}; "
+                                  f"scale {_scale_words(sa, sb)}."), "small"), d,
+                          Spacer(1, 3), r.p(r.t(" ".join(notes)), "small")])]
+
+
+# E·I along the spar -------------------------------------------------------------------------------------------
+
+
+def _nice_step(span: float, target: int = 8, feet: bool = False) -> float:
+    """A round step near span/target: 1, 2, 2.5 or 5 times a power of ten (no 2.5 when counting feet)."""
+    raw = span / target
+    mag = 10 ** math.floor(math.log10(raw))
+    for m in ((1, 2, 5, 10) if feet else (1, 2, 2.5, 5, 10)):
+        if raw <= m * mag:
+            return m * mag
+    return 10 * mag
+
+
+def _position_axis(r: Report) -> tuple[float, str]:
+    """(mm per axis unit, axis words): feet for inch spars, metres for metric."""
+    return (MM_PER_FOOT, "feet from the heel") if r.spar.units == "in" else (1000.0, "metres from the heel")
+
+
+def _ei_axis(r: Report) -> tuple[float, str]:
+    """(N·mm² per axis unit, words): millions of lbf·in², or kN·m²."""
+    if r.spar.units == "in":
+        return N_PER_LBF * MM_PER_INCH**2 * 1e6, "E·I, million lbf·in²"
+    return 1e9, "E·I, kN·m²"
+
+
+def _plot(r: Report, series: list[tuple[list[tuple[float, float]], colors.Color, float, tuple | None]],
+          y_words: str, height: float, y_min: float | None = None, y_max: float | None = None,
+          bands: list[tuple[float, float, str]] = (), legend: list[tuple[str, colors.Color, tuple | None]] = ()
+          ) -> Drawing:
+    unit, x_words = _position_axis(r)
+    d = Drawing(r.width, height)
+    lp = LinePlot()
+    lp.x, lp.y = 46, 30
+    lp.width, lp.height = r.width - 60, height - 48
+    lp.data = [pts for pts, *_ in series]
+    for i, (_, colour, width, dash) in enumerate(series):
+        lp.lines[i].strokeColor = colour
+        lp.lines[i].strokeWidth = width
+        if dash:
+            lp.lines[i].strokeDashArray = dash
+    xs = [x for pts, *_ in series for x, _ in pts]
+    ys = [y for pts, *_ in series for _, y in pts]
+    x0, x1 = min(xs), max(xs)
+    lo = min(ys) if y_min is None else y_min
+    hi = max(ys) if y_max is None else y_max
+    step_y = _nice_step(hi - lo or 1, 5)
+    lo, hi = math.floor(lo / step_y) * step_y, math.ceil(hi / step_y) * step_y
+    step_x = _nice_step(x1 - x0 or 1, 10, feet=r.spar.units == "in")
+    lp.xValueAxis.valueMin, lp.xValueAxis.valueMax = x0, x1
+    lp.xValueAxis.valueSteps = [k * step_x for k in range(math.ceil(x0 / step_x), math.floor(x1 / step_x) + 1)]
+    lp.yValueAxis.valueMin, lp.yValueAxis.valueMax = lo, hi
+    lp.yValueAxis.valueStep = step_y
+    lp.xValueAxis.labels.fontName = lp.yValueAxis.labels.fontName = FONT
+    lp.xValueAxis.labels.fontSize = lp.yValueAxis.labels.fontSize = 7
+    lp.xValueAxis.labelTextFormat = lambda v: f"{v:g}"
+    lp.yValueAxis.labelTextFormat = lambda v: f"{v:g}"
+    lp.yValueAxis.visibleGrid = True
+    lp.yValueAxis.gridStrokeColor = colors.Color(0.85, 0.85, 0.85)
+    lp.yValueAxis.gridStrokeWidth = 0.3
+    for a, b, words in bands:
+        px0 = lp.x + (a - x0) / (x1 - x0) * lp.width
+        px1 = lp.x + (b - x0) / (x1 - x0) * lp.width
+        d.add(Rect(px0, lp.y, px1 - px0, lp.height, fillColor=colors.Color(0.9, 0.9, 0.9), strokeColor=None))
+        d.add(String((px0 + px1) / 2, lp.y + 4, words, fontName=FONT, fontSize=6.5,
+                     textAnchor="middle", fillColor=colors.Color(0.4, 0.4, 0.4)))
+    d.add(lp)
+    d.add(String(lp.x + lp.width / 2, 6, x_words, fontName=FONT, fontSize=7.5, textAnchor="middle"))
+    d.add(String(lp.x - 4, lp.y + lp.height + 6, plain(y_words), fontName=BOLD, fontSize=7.5, textAnchor="start"))
+    lx = lp.x + lp.width
+    for words, colour, dash in reversed(list(legend)):
+        wtext = d.add(String(lx, lp.y + lp.height + 6, plain(words), fontName=FONT, fontSize=7.5,
+                             textAnchor="end"))
+        from reportlab.pdfbase.pdfmetrics import stringWidth
+
+        lx -= stringWidth(plain(words), FONT, 7.5) + 4
+        line = Line(lx - 18, lp.y + lp.height + 8.5, lx, lp.y + lp.height + 8.5, strokeColor=colour, strokeWidth=1.4)
+        if dash:
+            line.strokeDashArray = dash
+        d.add(line)
+        lx -= 30
+    return d
+
+
+def ei_plot(r: Report) -> list:
+    a = r.design.assessment
+    unit, _ = _position_axis(r)
+    ei_unit, ei_words = _ei_axis(r)
+    z = [c.station.z / unit for c in a.stations]
+    plan = list(zip(z, [c.plan.ei / ei_unit for c in a.stations]))
+    hollow = list(zip(z, [c.hollow.ei / ei_unit for c in a.stations]))
+    ratio = list(zip(z, [c.ei_ratio for c in a.stations]))
+    target = [(z[0], a.ei_target), (z[-1], a.ei_target)]
+    bands = [(p.start / unit, p.end / unit, "plug") for p in r.spar.hollow.plugs]
+    blue, orange = colors.Color(0.1, 0.3, 0.7), colors.Color(0.85, 0.4, 0.0)
+    top = _plot(r, [(plan, colors.black, 1.2, (4, 2)), (hollow, blue, 1.4, None)], ei_words, 190, y_min=0,
+                bands=bands, legend=[("plan (solid)", colors.black, (4, 2)), ("hollow", blue, None)])
+    ratios = [v for _, v in ratio]
+    lo = min(min(ratios), a.ei_target, 1.0)
+    hi = max(max(ratios), a.ei_target)
+    pad = 0.05 * (hi - lo or 1)
+    series = [(ratio, blue, 1.4, None), (target, FAIL_RED, 1.0, (3, 2))]
+    bottom = _plot(r, series, "E·I ratio, hollow / plan", 170, y_min=lo - pad, y_max=hi + pad, bands=bands,
+                   legend=[("ratio", blue, None), (f"target {a.ei_target:.3f}", FAIL_RED, (3, 2))])
+    return [CondPageBreak(420), r.h2("Stiffness along the spar"),
+            r.p(r.t("E·I of the plan's solid spar and of the hollow spar at every station; below, their ratio "
+                    "against the target. Plugged stretches are shaded; a plug stiffens the spar where it fills "
+                    "the bore."), "small"), top, Spacer(1, 6), bottom]
+
+
+# Cut list, scarf map, plugs --------------------------------------------------------------------------------------
+
+# Columns of ``cutlist_rows`` the report shows, by their index in the CSV header (label to head end).
+_CUT_COLUMNS = (2, 3, 4, 5, 6, 7, 8, 9, 10, 11, 12)
+_BOARD_COLUMN = 13
+
+
+def cut_list(r: Report) -> list:
+    if r.layout is None:
+        return []
+    rows = cutlist_rows(r.design)
+    header, body = rows[0], rows[1:]
+    columns = list(_CUT_COLUMNS) + ([_BOARD_COLUMN] if r.layout.lumber is not None else [])
+    head = [header[i].replace(" (", "\n(").replace("length along face", "length along\nface")
+            .replace("width at heel end", "width at\nheel end").replace("width at head end", "width at\nhead end")
+            for i in columns]
+    table_rows = [head] + [[row[i] for i in columns] for row in body]
+    widths = [14, 20, 20, 20, 15, 15, 14, 14, 15, 15, 15] + ([14] if r.layout.lumber is not None else [])
+    scale = r.width / (sum(widths) * MM)
+    table = _table([[plain(c) for c in row] for row in table_rows], widths=[w * MM * scale for w in widths])
+    lay = r.layout
+    first_rows = [i for i, row in enumerate(body, start=1) if row[1] == "1"]
+    table.setStyle(TableStyle([("LINEABOVE", (0, i), (-1, i), 0.4, RULE) for i in first_rows[1:]] +
+                              [("ALIGN", (9, 0), (-1, -1), "LEFT"), ("LEFTPADDING", (9, 0), (9, -1), 8)]))
+    return [CondPageBreak(200), r.h2("Cut list: every stave segment"),
+            r.p(r.t(f"Heel end first, stave by stave. Positions from the heel of the finished spar (negative in "
+                    f"the heel's end allowance); lengths along the stave's face. Widths are finished, before the "
+                    f"notch; rip width adds {r.length(lay.plan.edge_allowance)} on each edge for jointing. Scarfed "
+                    f"ends are feathered over {r.length(lay.scarfs.length)}."), "small"),
+            Spacer(1, 4), table]
+
+
+def scarf_map(r: Report) -> list:
+    lay = r.layout
+    if lay is None:
+        return []
+    spar = r.spar
+    n = len(lay.staves)
+    row_h, bar_h = 12.0, 8.0
+    left, right_pad, top_pad, bottom_pad = 30.0, 8.0, 22.0, 28.0
+    height = top_pad + n * row_h + bottom_pad
+    d = Drawing(r.width, height)
+    z0, z1 = lay.plan.start, lay.plan.end
+    span = r.width - left - right_pad
+
+    def X(z: float) -> float:
+        return left + (z - z0) / (z1 - z0) * span
+
+    top = height - top_pad
+    bottom = top - n * row_h
+    shade = colors.Color(0.98, 0.82, 0.78)
+    for a, b in (spar.stock.no_scarf if spar.stock else ()):
+        d.add(Rect(X(a), bottom, X(b) - X(a), n * row_h, fillColor=shade, strokeColor=None))
+        d.add(String((X(a) + X(b)) / 2, top + 3, "no scarf", fontName=FONT, fontSize=6.5, textAnchor="middle",
+                     fillColor=FAIL_RED))
+    for z, words in ((0.0, "heel"), (spar.length, "head")):
+        d.add(Line(X(z), bottom - 2, X(z), top + 2, strokeWidth=0.6, strokeDashArray=(2, 2)))
+        d.add(String(X(z), top + 12, words, fontName=BOLD, fontSize=7, textAnchor="middle"))
+    fills = (colors.Color(0.84, 0.89, 0.95), colors.Color(0.70, 0.80, 0.91))
+    over = []
+    for k, segs in enumerate(lay.staves):
+        y = top - (k + 1) * row_h + (row_h - bar_h) / 2
+        d.add(String(left - 4, y + 2, f"S{k + 1}", fontName=BOLD, fontSize=7, textAnchor="end"))
+        for i, seg in enumerate(segs):
+            d.add(Rect(X(seg.start), y, X(seg.end) - X(seg.start), bar_h, fillColor=fills[i % 2],
+                       strokeColor=colors.Color(0.3, 0.3, 0.3), strokeWidth=0.3))
+            # Just past the scarf that starts it (or the stave's heel end), clear of the black block.
+            at = X(segs[i - 1].end) if i > 0 else X(seg.start)
+            d.add(String(at + 3, y + 2, seg.label, fontName=FONT, fontSize=6, textAnchor="start"))
+        for prev, nxt in zip(segs, segs[1:]):
+            d.add(Rect(X(nxt.start), y - 1, X(prev.end) - X(nxt.start), bar_h + 2, fillColor=colors.black,
+                       strokeColor=None))
+        for c in lay.scarfs.centres[k]:
+            over.append(Line(X(c), y - 2.5, X(c), y + bar_h + 2.5, strokeColor=FAIL_RED, strokeWidth=0.8))
+    for a, b in (spar.stock.no_scarf if spar.stock else ()):
+        d.add(Rect(X(a), bottom, X(b) - X(a), n * row_h, fillColor=colors.Color(0.9, 0.2, 0.1), fillOpacity=0.28,
+                   strokeColor=FAIL_RED, strokeWidth=0.4))
+    for item in over:
+        d.add(item)
+    unit, x_words = _position_axis(r)
+    step = _nice_step((z1 - z0) / unit, 12, feet=r.spar.units == "in")
+    v = math.ceil(z0 / unit / step) * step
+    d.add(Line(X(z0), bottom - 4, X(z1), bottom - 4, strokeWidth=0.5))
+    while v <= z1 / unit + 1e-9:
+        d.add(Line(X(v * unit), bottom - 4, X(v * unit), bottom - 7, strokeWidth=0.5))
+        d.add(String(X(v * unit), bottom - 15, f"{v:g}", fontName=FONT, fontSize=6.5, textAnchor="middle"))
+        v += step
+    d.add(String(left + span / 2, bottom - 25, x_words, fontName=FONT, fontSize=7, textAnchor="middle"))
+    rows = [["stave", "scarfs: centre from the heel (the scarf runs from ... to ...)"]]
+    for k, (centres, segs) in enumerate(zip(lay.scarfs.centres, lay.staves), start=1):
+        spans = [(nxt.start, prev.end) for prev, nxt in zip(segs, segs[1:])]
+        rows.append([f"S{k}", ";  ".join(f"{r.where(c)} ({r.where(a)} to {r.where(b)})"
+                                         for c, (a, b) in zip(centres, spans)) or "none: one piece"])
+    table = _table([[plain(c) for c in row] for row in rows], widths=[16 * MM, r.width - 16 * MM],
+                   align_right_from=9)
+    return [CondPageBreak(height + 80), r.h2("Scarf map"),
+            r.p(r.t(f"Each bar is one stave, heel to head with its end allowances; the black blocks are the scarfs "
+                    f"({lay.scarfs.count} in all, each {r.length(lay.scarfs.length)} long), the red lines their "
+                    f"centres. Shaded: ranges where no scarf may fall. Neighbouring staves' scarfs are staggered."),
+                "small"), Spacer(1, 4), d, Spacer(1, 4), table]
+
+
+def plugs(r: Report) -> list:
+    lay = r.layout
+    if lay is None or not lay.plugs:
+        return []
+    units = r.spar.units
+    n = r.spar.hollow.staves
+    u = " (mm)" if units == "mm" else ""
+    rows = [["plug", f"from heel{u}", f"to{u}", f"length{u}", "wood", f"heel end\nacross\nflats{u}",
+             f"heel end\nacross\ncorners{u}", f"head end\nacross\nflats{u}", f"head end\nacross\ncorners{u}",
+             "weight"]]
+    for p in lay.plugs:
+        rows.append([str(p.index), r.cell(p.plug.start, True), r.cell(p.plug.end, True), r.cell(p.length, True),
+                     p.plug.wood.name, r.cell(p.heel.across_flats), r.cell(p.heel.across_corners),
+                     r.cell(p.head.across_flats), r.cell(p.head.across_corners), format_mass(p.mass, units)])
+    widths = [9, 18, 16, 18, 26, 20, 20, 20, 20, 13]
+    scale = r.width / (sum(widths) * MM)
+    table = _table([[plain(c) for c in row] for row in rows], widths=[w * MM * scale for w in widths])
+    table.setStyle(TableStyle([("ALIGN", (4, 0), (4, -1), "LEFT")]))
+    return [CondPageBreak(90), r.h2("Plugs (solid blocking)"),
+            r.p(r.t(f"Each plug is a tapered {n}-sided block filling the bore; the sizes are the bore's at each end, "
+                    f"across its flats and across its corners."), "small"), Spacer(1, 4), table]
+
+
+# The report's parts, in order. The board order (``design.layout.lumber``) and the cutter settings
+# (``design.layout.machining``) will each be one more function here.
+SECTIONS: tuple[Section_, ...] = (title_and_verdict, cautions, summary, station_table, section_drawing, ei_plot,
+                                  cut_list, scarf_map, plugs)
+
+
+# Pages ---------------------------------------------------------------------------------------------------------
+
+
+def _numbered_canvas(footer: Callable[[Canvas, int, int], None]):
+    """A canvas class that holds its pages back until the end, so each can say 'page n of m'."""
+
+    class NumberedCanvas(Canvas):
+        def __init__(self, *args, **kwargs):
+            super().__init__(*args, **kwargs)
+            self._held: list[dict] = []
+
+        def showPage(self):
+            self._held.append(dict(self.__dict__))
+            self._startPage()
+
+        def save(self):
+            total = len(self._held)
+            for number, state in enumerate(self._held, start=1):
+                self.__dict__.update(state)
+                footer(self, number, total)
+                Canvas.showPage(self)
+            Canvas.save(self)
+
+    return NumberedCanvas
+
+
+def write_report(design: Design, path: str | Path) -> None:
+    """Write the shop report of ``design`` to ``path`` as a PDF on the spar's paper (portrait)."""
+    spar = design.spar
+    size = paper_size(spar)
+    doc = SimpleDocTemplate(str(path), pagesize=size, leftMargin=MARGIN, rightMargin=MARGIN, topMargin=MARGIN,
+                            bottomMargin=MARGIN + 8, title=f"{spar.name} - hollow spar shop report",
+                            author="stavegen", subject=f"from {source_name(spar)}")
+    report = Report(design=design, styles=_styles(), width=size[0] - 2 * MARGIN)
+    story: list = []
+    for part in SECTIONS:
+        story += part(report)
+    date = build_date()
+    left_words = plain(f"{spar.name}  |  {source_name(spar)}  |  built {date}")
+
+    def footer(c: Canvas, number: int, total: int) -> None:
+        c.saveState()
+        c.setFont(FONT, 7)
+        c.setStrokeColor(RULE)
+        c.setLineWidth(0.4)
+        c.line(MARGIN, MARGIN + 2, size[0] - MARGIN, MARGIN + 2)
+        c.drawString(MARGIN, MARGIN - 7, left_words)
+        c.drawRightString(size[0] - MARGIN, MARGIN - 7, f"page {number} of {total}")
+        c.restoreState()
+
+    doc.build(story, canvasmaker=_numbered_canvas(footer))

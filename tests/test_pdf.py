@@ -1,0 +1,283 @@
+"""The two PDFs, read back with independent tools: pypdf and pdfplumber for text, sizes and drawn objects,
+pdftoppm (poppler) for rendering, shapely for the tiling. Expected figures come from the CSV and JSON
+outputs and from exact facts of the paper and the inch:
+
+- 1 in = 72 pt and 1 in = 25.4 mm exactly (PDF and international inch), so 4 in = 288 pt and
+  100 mm = 283.46 pt;
+- letter is 8 1/2 × 11 in = 612 × 792 pt; A4 is 210 × 297 mm = 595.28 × 841.89 pt (ISO 216);
+- ordinary desktop printers leave at most about 1/4 in unprinted at each edge (common practice).
+"""
+
+from __future__ import annotations
+
+import csv
+import io
+import json
+import os
+import re
+import shutil
+import subprocess
+from pathlib import Path
+
+import pdfplumber
+import pytest
+from pypdf import PdfReader
+from shapely.geometry import Polygon, box
+from shapely.ops import unary_union
+
+from stavegen.cautions import CAUTIONS, HEADLINE
+from stavegen.model.loader import load_spar
+from stavegen.pipeline import design
+from stavegen.render.csv_cutlist import to_csv
+from stavegen.render.json_doc import to_json
+from stavegen.render.pdf_fullsize import crosses, pages_of, sheet, write_fullsize
+from stavegen.render.pdf_report import write_report
+from stavegen.units import format_length, format_mass
+
+from conftest import SAMPLES, make_spar
+
+PT_PER_MM = 72 / 25.4
+SCALE_BAR_PT = {"in": 288.0, "mm": 283.46}  # 4 in; 100 mm
+PAPER_PT = {"letter": (612.0, 792.0), "a4": (595.28, 841.89)}
+PRINTER_MARGIN_PT = 18.0  # 1/4 in
+BUILD_DAY = "2023-11-14"  # SOURCE_DATE_EPOCH 1700000000 is 2023-11-14 22:13:20 UTC
+
+SPARS = {"catboat": ("catboat-mast.toml", "in", "letter"), "yawl": ("yawl-mainmast-metric.toml", "mm", "a4")}
+
+
+def _flat(text: str) -> str:
+    return " ".join(text.split())
+
+
+@pytest.fixture(scope="module", params=sorted(SPARS))
+def built(request, tmp_path_factory):
+    """Both PDFs of one sample spar, with what an independent reader makes of them."""
+    name, units, paper = SPARS[request.param]
+    folder = tmp_path_factory.mktemp(request.param)
+    with pytest.MonkeyPatch.context() as mp:
+        mp.setenv("SOURCE_DATE_EPOCH", "1700000000")
+        d = design(load_spar(SAMPLES / name), layout=True)
+        report, full = folder / "report.pdf", folder / "fullsize.pdf"
+        write_report(d, report)
+        write_fullsize(d, full)
+    with pdfplumber.open(report) as pdf:
+        report_lines = [page.extract_text().splitlines() for page in pdf.pages]
+    with pdfplumber.open(full) as pdf:
+        full_pages = [{"text": page.extract_text(), "rects": page.rects, "lines": page.lines, "curves": page.curves,
+                       "size": (float(page.width), float(page.height))} for page in pdf.pages]
+    return {"design": d, "units": units, "paper": paper, "report": report, "fullsize": full, "name": name,
+            "report_pages": [p.extract_text() for p in PdfReader(report).pages], "report_lines": report_lines,
+            "full_pages": full_pages}
+
+
+# The report -----------------------------------------------------------------------------------------------
+
+
+def test_report_page_one_carries_the_verdict_and_the_cautions(built):
+    d = built["design"]
+    page1 = _flat(built["report_pages"][0])
+    assert d.spar.name in page1
+    assert HEADLINE in page1
+    for caution in CAUTIONS:
+        assert _flat(caution) in page1, caution
+    everything = _flat(" ".join(built["report_pages"]))
+    word, other = ("PASS", "FAIL") if d.passed else ("FAIL", "PASS")
+    assert word in page1 and other not in everything
+    doc = json.loads(to_json(d))
+    assert f"{doc['check']['min_ei_ratio']:.3f}" in page1
+    assert format_mass(doc["mass"]["hollow_kg"], built["units"]) in page1
+    assert format_mass(doc["mass"]["plan_kg"], built["units"]) in page1
+    assert format_mass(doc["mass"]["saved_kg"], built["units"]) in page1
+
+
+def test_every_report_page_names_the_spar_file_date_and_page(built):
+    pages = built["report_pages"]
+    assert len(pages) >= 3
+    for number, text in enumerate(pages, start=1):
+        flat = _flat(text)
+        assert f"page {number} of {len(pages)}" in flat
+        assert built["name"] in flat and BUILD_DAY in flat and built["design"].spar.name in flat
+
+
+def test_report_cut_list_matches_the_csv_and_json(built):
+    d = built["design"]
+    rows = list(csv.DictReader(io.StringIO(to_csv(d))))
+    header = list(rows[0])
+    shown = header[2:13]  # label through head end, as the CSV spells them
+    lines = [line for page in built["report_lines"] for line in page]
+    doc = json.loads(to_json(d))
+    lengths = {seg["label"]: seg["length_mm"] for stave in doc["staves"] for seg in stave["segments"]}
+    assert len(rows) == len(lengths) == len(d.layout.segments)
+    for row in rows:
+        expected = " ".join(row[k] for k in shown)
+        found = [line for line in lines if line.startswith(row["label"] + " ")]
+        assert expected in found, (expected, found)
+        length_col = next(k for k in header if k.startswith("length along face"))
+        assert row[length_col] == format_length(lengths[row["label"]], built["units"], tape=True)
+
+
+def test_report_station_table_matches_the_json(built):
+    doc = json.loads(to_json(built["design"]))
+    lines = [line for page in built["report_lines"] for line in page]
+    for st in doc["stations"]:
+        pos = (format_length(st["z_mm"], "in", tape=True) if built["units"] == "in" else f"{st['z_mm']:.1f}")
+        ratios = f"{st['ei_ratio']:.3f} {st['strength_ratio']:.3f}"
+        assert any(line.startswith(pos + " ") and ratios in line for line in lines), (pos, ratios)
+
+
+def test_report_paper_and_rendering(built, tmp_path):
+    w, h = PAPER_PT[built["paper"]]
+    reader = PdfReader(built["report"])
+    for page in reader.pages:
+        assert float(page.mediabox.width) == pytest.approx(w, abs=0.01)
+        assert float(page.mediabox.height) == pytest.approx(h, abs=0.01)
+    if shutil.which("pdftoppm") is None:
+        pytest.skip("pdftoppm (poppler) is not installed")
+    done = subprocess.run(["pdftoppm", "-r", "20", "-png", str(built["report"]), str(tmp_path / "p")],
+                          capture_output=True, text=True, timeout=60)
+    assert done.returncode == 0 and not done.stderr.strip(), done.stderr
+    assert len(list(tmp_path.glob("p-*.png"))) == len(reader.pages)
+
+
+def test_a_failing_spar_says_fail(tmp_path):
+    d = design(load_spar(SAMPLES / "skiff-boom-too-light.toml"), layout=True)
+    assert not d.passed
+    write_report(d, tmp_path / "r.pdf")
+    text = _flat(" ".join(p.extract_text() for p in PdfReader(tmp_path / "r.pdf").pages))
+    assert "FAIL" in text and "PASS" not in text and "short by" in text
+
+
+def test_report_without_a_layout_has_no_cut_list(tmp_path):
+    d = design(load_spar(SAMPLES / "catboat-mast.toml"))
+    write_report(d, tmp_path / "r.pdf")
+    text = _flat(" ".join(p.extract_text() for p in PdfReader(tmp_path / "r.pdf").pages))
+    assert "Station by station" in text and "Cut list" not in text and "Scarf map" not in text
+
+
+def test_no_word_about_boards_while_there_is_no_lumber_order(built):
+    assert built["design"].layout.lumber is None
+    lines = [line for page in built["report_lines"] for line in page]
+    assert not any("board feet" in line or "boards to buy" in line for line in lines)
+    header = next(line for line in lines if line.startswith("label "))
+    assert "board" not in header
+
+
+# The full-size templates ---------------------------------------------------------------------------------
+
+
+def test_every_fullsize_page_is_the_paper_asked_with_a_true_scale_bar(built):
+    w, h = PAPER_PT[built["paper"]]
+    bar = SCALE_BAR_PT[built["units"]]
+    words = "4 in" if built["units"] == "in" else "100 mm"
+    pages = built["full_pages"]
+    assert len(pages) == 1 + len(sheet(built["design"]).tiles)
+    for page in pages:
+        assert sorted(page["size"]) == pytest.approx(sorted((w, h)), abs=0.01)
+        bars = [r for r in page["rects"] if abs(r["width"] - bar) <= 0.1 and r["height"] < 20]
+        bars += [ln for ln in page["lines"] if abs(abs(ln["x1"] - ln["x0"]) - bar) <= 0.1 and ln["top"] == ln["bottom"]]
+        assert bars, "no scale bar on a page"
+        text = _flat(page["text"])
+        assert "ACTUAL SIZE" in text and f"exactly {words}" in text
+
+
+def _check_tiling(d) -> None:
+    """Every tile is the page's window inside the printable area; together the tiles cover every outline."""
+    s = sheet(d)
+    pw, ph = s.page_size
+    wx, wy, ww, wh = s.window
+    px0, py0, px1, py1 = s.printable
+    assert px0 >= PRINTER_MARGIN_PT and py0 >= PRINTER_MARGIN_PT
+    assert pw - px1 >= PRINTER_MARGIN_PT and ph - py1 >= PRINTER_MARGIN_PT
+    assert px0 <= wx and py0 <= wy and wx + ww <= px1 + 1e-9 and wy + wh <= py1 + 1e-9
+    for t in s.tiles:  # a tile is the page's window, in mm
+        assert t.width * PT_PER_MM == pytest.approx(ww) and t.height * PT_PER_MM == pytest.approx(wh)
+    tiles = unary_union([box(*t.bounds) for t in s.tiles])
+    served = {}
+    for place in s.placements:
+        for seg in place.template.segments:
+            served[seg.label] = place
+    assert sorted(served) == sorted(seg.label for seg in d.layout.segments)
+    for seg in d.layout.segments:
+        place = served[seg.label]
+        drawn = place.template.segment
+        assert len(seg.outline) == len(drawn.outline)
+        assert all(a == pytest.approx(b, abs=1e-6) for a, b in zip(seg.outline, drawn.outline))
+        outline = Polygon([(place.x0 + x, place.y0 - y) for x, y in seg.outline])
+        assert outline.area > 0
+        assert outline.difference(tiles).area <= 1e-6 * outline.area, seg.label
+
+
+def test_fullsize_tiles_lie_in_the_printable_area_and_cover_every_outline(built):
+    _check_tiling(built["design"])
+
+
+def test_fullsize_outlines_are_drawn_at_one_to_one(built):
+    """On a page that shows a template, a drawn path spans its true length and width in points."""
+    s = sheet(built["design"])
+    pages = built["full_pages"]
+    for place in s.placements:
+        seg = place.template.segment
+        ys = [y for _, y in seg.outline]
+        want_w, want_h = seg.length * PT_PER_MM, (max(ys) - min(ys)) * PT_PER_MM
+        page = pages[pages_of(s, place)[0].page - 1]
+        assert any(abs((c["x1"] - c["x0"]) - want_w) < 0.05 and abs((c["bottom"] - c["top"]) - want_h) < 0.05
+                   for c in page["curves"]), seg.label
+
+
+def test_fullsize_pages_are_labelled_and_joined_by_crosses(built):
+    d = built["design"]
+    s = sheet(d)
+    pages = built["full_pages"]
+    text_all = " ".join(p["text"] for p in pages)
+    for seg in d.layout.segments:
+        assert re.search(rf"\b{re.escape(seg.label)}\b", text_all), seg.label
+    points = crosses(s)
+    for t in s.tiles:
+        text = _flat(pages[t.page - 1]["text"])
+        assert t.name in text and f"row {t.row} of {s.rows}, column {t.col}" in text
+        assert BUILD_DAY in text and built["name"] in text
+        right = s.tile_at(t.row, t.col + 1)
+        if right is not None:  # crosses the two pages both show
+            x0, y0, x1, y1 = t.bounds
+            rx0, ry0, rx1, ry1 = right.bounds
+            both = [(x, y) for x, y in points if max(x0, rx0) < x < min(x1, rx1) and max(y0, ry0) < y < min(y1, ry1)]
+            assert len(both) >= 2
+    assert "MAP" in pages[0]["text"]
+    for t in s.tiles:
+        assert t.name in pages[0]["text"]
+
+
+def test_build_writes_both_pdfs(run, tmp_path):
+    result = run(["build", SAMPLES / "catboat-mast.toml", "-o", tmp_path])
+    assert result.exit_code == 0, result.output
+    for name in ("catboat-mast-report.pdf", "catboat-mast-fullsize.pdf"):
+        data = (tmp_path / name).read_bytes()
+        assert data.startswith(b"%PDF-") and len(PdfReader(tmp_path / name).pages) >= 2
+    assert not [p for p in os.listdir(tmp_path) if p.endswith(".part")]
+
+
+# Invented for the tests (not designs): a bevel-jointed spar with a symmetric taper, and one whose staves are
+# wider than a page is tall, so that the pages must join across rows as well.
+STOCK = {"thickness": 25, "widths": [150], "lengths": [2400], "kerf": 3, "scarf_ratio": 8, "scarf_stagger": 300}
+OTHER_SPARS = {
+    "bevel-symmetric": dict(hollow={"joint": "bevel", "taper": "symmetric"}, stock=STOCK,
+                            plan={"wood": "sitka-spruce", "stations": [[0, 100], [3000, 70]]}),
+    "wider-than-a-page": dict(plan={"wood": "sitka-spruce", "stations": [[0, 400], [3000, 380]]},
+                              hollow={"staves": 6, "wall": 60}, stock=dict(STOCK, thickness=62),
+                              output={"paper": "a4"}),
+}
+
+
+@pytest.mark.parametrize("case", sorted(OTHER_SPARS))
+def test_other_joints_tapers_and_sizes(case, tmp_path):
+    d = design(make_spar(**OTHER_SPARS[case]), layout=True)
+    _check_tiling(d)
+    if case == "wider-than-a-page":
+        assert sheet(d).row_overlap > 0 and sheet(d).rows > 1
+    write_report(d, tmp_path / "r.pdf")
+    write_fullsize(d, tmp_path / "f.pdf")
+    report = _flat(" ".join(p.extract_text() for p in PdfReader(tmp_path / "r.pdf").pages))
+    assert all(_flat(c) in report for c in CAUTIONS)
+    with pdfplumber.open(tmp_path / "f.pdf") as pdf:
+        for page in pdf.pages:
+            assert any(abs(r["width"] - SCALE_BAR_PT["mm"]) <= 0.1 for r in page.rects)
