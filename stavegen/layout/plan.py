@@ -7,6 +7,7 @@ from typing import Any
 
 from ..errors import InputError
 from ..model.spar import Spar
+from ..section.properties import Section
 from ..stations.evaluate import SectionCache
 from ..stations.grid import station_marks
 from .plugs import PlugBlock, plug_blocks
@@ -25,6 +26,8 @@ class Layout:
     plugs: tuple[PlugBlock, ...]
     machining: Any = None
     lumber: Any = None
+    widest_section: Section | None = None
+    narrowest_section: Section | None = None
 
     @property
     def segments(self) -> list[Segment]:
@@ -64,4 +67,10 @@ def lay_out(spar: Spar, cache: SectionCache | None = None) -> Layout:
             make_segment(plan, k, i + 1, a, b, scarf_at_start=i > 0, scarf_at_end=i < last,
                          scarf_length=rules.length)
             for i, (a, b) in enumerate(stave_bounds)))
-    return Layout(plan=plan, scarfs=scarfs, staves=tuple(staves), plugs=plug_blocks(spar, cache))
+    # The finished sections at the widest and narrowest stave stations, for end views; a station in an
+    # end allowance has the section of the end it runs past.
+    def section_at(z: float) -> Section:
+        return cache.at(min(max(z, 0.0), spar.length))
+
+    return Layout(plan=plan, scarfs=scarfs, staves=tuple(staves), plugs=plug_blocks(spar, cache),
+                  widest_section=section_at(plan.widest().z), narrowest_section=section_at(plan.narrowest().z))
