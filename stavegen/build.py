@@ -15,11 +15,12 @@ from .units import format_mass
 
 def output_names(slug: str) -> dict[str, str]:
     """The files a build writes, by what they are."""
-    return {"json": f"{slug}.json", "csv": f"{slug}-cutlist.csv"}
+    return {"json": f"{slug}.json", "csv": f"{slug}-cutlist.csv", "templates": f"{slug}-templates.dxf"}
 
 
 def write_outputs(result: Design, folder: Path) -> list[Path]:
     """Render every output into ``folder`` under temporary names, then rename them all."""
+    from .render import dxf_templates
     from .render.csv_cutlist import to_csv
     from .render.json_doc import to_json
 
@@ -27,6 +28,7 @@ def write_outputs(result: Design, folder: Path) -> list[Path]:
     with OutputSet(folder) as out:
         out.add_text(names["json"], to_json(result))
         out.add_text(names["csv"], to_csv(result))
+        out.add(names["templates"], lambda path: dxf_templates.write_templates(result, path))
         return out.commit()
 
 
