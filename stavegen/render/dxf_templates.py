@@ -263,7 +263,7 @@ class TemplateSheet:
                      align=TextEntityAlignment.MIDDLE_CENTER)
 
         # Below the notch edge: its name and what the segment is.
-        x0 = seg.scarf_length + s.text if seg.scarf_at_start else s.text
+        x0 = seg.scarf_length + 6 * s.text if seg.scarf_at_start else s.text  # clear of the "feather line" word
         if self.straight_notch_edge:
             pen.text(notch_name, at(x0, bottom - 1.0 * s.text), s.text, "TEXT-LABELS",
                      align=TextEntityAlignment.TOP_LEFT)
@@ -378,6 +378,8 @@ class TemplateSheet:
         lines = [
             f"{spar.name}: stave templates at 1:1, in {unit}. {len(self.layout.staves)} staves, {joint}.",
             f"Cut only the layer {CUT}; every other layer is marks, text and end views.",
+            "Outlines are the finished stave widths before the notch, with no edge allowance; "
+            "stave ends include the end allowance.",
             "Check the scale before cutting: the line below must measure "
             f"{self.size(check)}. Check every figure against the cut list.",
         ]
