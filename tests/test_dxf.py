@@ -269,14 +269,14 @@ def test_units_follow_the_spar_file(sample, insunits, measurement, word, tmp_pat
 
 
 def random_spar(units: str, length: float, diameter: float, taper: float, staves: int, joint: str, wall: float,
-                board: float):
+                board: float, edge: str = "square-edge"):
     mm = lambda v: f"{v:.3f} mm"  # noqa: E731
     head = diameter * taper
     data = spar_dict(
         spar={"name": "Random spar", "units": units, "length": mm(length)},
         plan={"wood": "sitka-spruce", "stations": [[0, mm(diameter)], [mm(length), mm(head)]]},
         hollow={"wood": "sitka-spruce", "staves": staves, "joint": joint, "wall": mm(wall * head),
-                "planing_allowance": mm(1.5), "end_allowance": mm(50)},
+                "planing_allowance": mm(1.5), "end_allowance": mm(50), "taper": edge},
         stock={"thickness": mm(wall * diameter + 2), "widths": [mm(150)], "lengths": [mm(board)],
                "kerf": mm(3), "scarf_ratio": 8, "scarf_stagger": mm(150)},
         output={"mark_spacing": mm(300)},
@@ -288,9 +288,9 @@ def random_spar(units: str, length: float, diameter: float, taper: float, staves
 @given(units=st.sampled_from(["in", "mm"]), length=st.floats(1500, 5000), diameter=st.floats(60, 140),
        taper=st.floats(0.6, 1.0), staves=st.sampled_from([6, 8, 10, 12]),
        joint=st.sampled_from(["birdsmouth-flush", "birdsmouth-centered", "bevel"]),
-       wall=st.floats(0.18, 0.24), board=st.floats(1800, 3000))
-def test_random_spars_read_back_whole(tmp_path, units, length, diameter, taper, staves, joint, wall, board):
-    spar = random_spar(units, length, diameter, taper, staves, joint, wall, board)
+       wall=st.floats(0.18, 0.24), board=st.floats(1800, 3000), edge=st.sampled_from(["square-edge", "symmetric"]))
+def test_random_spars_read_back_whole(tmp_path, units, length, diameter, taper, staves, joint, wall, board, edge):
+    spar = random_spar(units, length, diameter, taper, staves, joint, wall, board, edge)
     result = design(spar, layout=True)
     path, dxf = templates_of(result, tmp_path)
     check_templates(result, path, dxf)

@@ -19,7 +19,7 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 from pathlib import Path
-from typing import Callable, Iterable, Sequence
+from typing import Callable, Iterable
 
 import ezdxf
 import ezdxf.bbox
@@ -180,12 +180,10 @@ class TemplateSheet:
                 f"face; heel end at left")
 
     def edge_names(self) -> tuple[str, str]:
+        straight = "(straight)" if self.straight_notch_edge else "(tapered)"
         if not self.notched:
-            return ("BEVEL EDGE (straight)" if self.straight_notch_edge else "BEVEL EDGE",
-                    "BEVEL EDGE (tapered)")
-        notch = "NOTCH EDGE (straight): cut the V along this edge" if self.straight_notch_edge \
-            else "NOTCH EDGE: cut the V along this edge"
-        return notch, "SQUARE EDGE (tapered)"
+            return f"BEVEL EDGE {straight}", "BEVEL EDGE (tapered)"
+        return f"NOTCH EDGE {straight}: cut the V along this edge", "SQUARE EDGE (tapered)"
 
     def clearance(self, seg: Segment) -> tuple[float, float]:
         """Room (below, above) the segment's marks take outside its outline, mm."""
@@ -436,7 +434,3 @@ def set_extents(doc) -> None:
 def write_templates(design: Design, path: str | Path, place: Placer = parts_in_rows) -> None:
     """Write the DXF cutting templates of ``design`` to ``path``."""
     template_document(design, place).saveas(Path(path))
-
-
-def layer_names() -> Sequence[str]:
-    return tuple(LAYERS)
