@@ -15,12 +15,13 @@ from .units import format_mass
 
 def output_names(slug: str) -> dict[str, str]:
     """The files a build writes, by what they are."""
-    return {"json": f"{slug}.json", "csv": f"{slug}-cutlist.csv", "report": f"{slug}-report.pdf",
-            "fullsize": f"{slug}-fullsize.pdf"}
+    return {"json": f"{slug}.json", "csv": f"{slug}-cutlist.csv", "templates": f"{slug}-templates.dxf",
+            "report": f"{slug}-report.pdf", "fullsize": f"{slug}-fullsize.pdf"}
 
 
 def write_outputs(result: Design, folder: Path) -> list[Path]:
     """Render every output into ``folder`` under temporary names, then rename them all."""
+    from .render import dxf_templates
     from .render.csv_cutlist import to_csv
     from .render.json_doc import to_json
     from .render.pdf_fullsize import write_fullsize
@@ -32,6 +33,7 @@ def write_outputs(result: Design, folder: Path) -> list[Path]:
         out.add_text(names["csv"], to_csv(result))
         out.add(names["report"], lambda p: write_report(result, p))
         out.add(names["fullsize"], lambda p: write_fullsize(result, p))
+        out.add(names["templates"], lambda p: dxf_templates.write_templates(result, p))
         return out.commit()
 
 

@@ -7,9 +7,9 @@ from typing import Any
 
 from ..errors import InputError
 from ..model.spar import Spar
+from ..section.properties import Section
 from ..stations.evaluate import SectionCache
 from ..stations.grid import station_marks
-from ..section.properties import Section
 from .machining import CutterSettings, cutter_settings
 from .plugs import PlugBlock, plug_blocks
 from .scarfs import ScarfPlan, ScarfRules, place_scarfs, segment_bounds
@@ -49,6 +49,15 @@ class Layout:
     plugs: tuple[PlugBlock, ...]
     machining: Machining
     lumber: Any = None
+
+    @property
+    def widest_section(self) -> Section:
+        """The finished section where the stave is widest (for end views)."""
+        return self.machining.widest.section
+
+    @property
+    def narrowest_section(self) -> Section:
+        return self.machining.narrowest.section
 
     @property
     def segments(self) -> list[Segment]:

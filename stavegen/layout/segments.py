@@ -12,6 +12,8 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
+import numpy as np
+
 from .staves import StavePlan
 
 Point = tuple[float, float]
@@ -67,6 +69,16 @@ class Segment:
         if self.scarf_at_end:
             lines.append(self.length - self.scarf_length)
         return tuple(lines)
+
+    def edges_at(self, x: float) -> tuple[float, float]:
+        """(notch edge, square edge) across the face at ``x`` mm along the segment.
+
+        Read off the segment's own edges, which are straight between the stations.
+        """
+        def across(edge: tuple[Point, ...]) -> float:
+            return float(np.interp(x, [p[0] for p in edge], [p[1] for p in edge]))
+
+        return across(self.notch_edge), across(self.square_edge)
 
 
 def make_segment(plan: StavePlan, stave: int, index: int, start: float, end: float,

@@ -1,0 +1,430 @@
+"""Cutting templates as DXF: every stave segment at true size, marks and text on their own layers.
+
+The sheet is drawn in the spar's units (inches or millimetres) at 1:1. Only
+the stave segments' outlines go on the cutting layer, one closed LWPOLYLINE
+each, straight from :attr:`Segment.outline`; everything else (edge marks,
+station ticks, scarf feather lines, grain arrows, text, end views) lies on
+layers of its own that a router's CAM can switch off. The file holds only
+LWPOLYLINE, LINE, CIRCLE and TEXT entities in the standard text style.
+
+Nothing here computes a width, an outline or a section: the figures come
+from the layout (:mod:`stavegen.layout`) and the sections it holds. The
+renderer only decides where on the sheet each part goes
+(:func:`parts_in_rows`, swappable through ``write_templates(place=...)``)
+and where its text stands.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+from pathlib import Path
+from typing import Callable, Iterable
+
+import ezdxf
+import ezdxf.bbox
+import ezdxf.zoom
+from ezdxf.enums import TextEntityAlignment
+
+from ..layout.plan import Layout
+from ..layout.segments import Segment
+from ..pipeline import Design
+from ..section.properties import Section, bore_ring
+from ..section.staves import placed
+from ..units import format_length, to_unit
+
+Point = tuple[float, float]
+
+DXF_VERSION = "R2013"
+INSUNITS = {"in": 1, "mm": 4}  # DXF $INSUNITS: 1 inches, 4 millimetres
+MEASUREMENT = {"in": 0, "mm": 1}  # DXF $MEASUREMENT: 0 imperial, 1 metric
+
+# Layer name: (ACI colour, lineweight in 1/100 mm, what it holds). Colours and lineweights by layer.
+CUT = "STAVE-CUT"
+LAYERS: dict[str, tuple[int, int, str]] = {
+    CUT: (7, 35, "stave segment outlines: the only lines to cut"),
+    "MARK-NOTCH-EDGE": (1, 50, "the edge that takes the birdsmouth V (drawn over the cut line)"),
+    "MARK-SQUARE-EDGE": (5, 25, "the square edge (drawn over the cut line)"),
+    "MARK-STATIONS": (94, 18, "station ticks across the stave, and their leaders"),
+    "MARK-SCARFS": (6, 35, "scarf feather lines: where each scarf's slope begins"),
+    "MARK-GRAIN": (30, 25, "grain direction arrows, heel to head"),
+    "TEXT-LABELS": (7, 18, "segment labels, edge names, scarf notes"),
+    "TEXT-STATIONS": (94, 18, "station positions from the heel and stave widths"),
+    "END-STAVE": (5, 25, "end views: stave cross-sections, and the staves of the assembled section"),
+    "END-BORE": (8, 18, "end views: the bore"),
+    "END-ROUND": (1, 25, "end views: the finished round"),
+    "END-PLUG": (34, 25, "end views: plug sections at each plug end"),
+    "SHEET-NOTES": (250, 18, "title, notes, captions and the check line"),
+}
+
+# Why a station is there, in the builder's words; the other reasons (plan, wall, mark, scarf...) go unsaid.
+STATION_WORDS = {"heel": "heel", "head": "head", "plug": "plug end"}
+CHAR_WIDTH = 0.9  # a generous estimate of a character's advance, in text heights (standard style, txt font)
+
+
+@dataclass(frozen=True)
+class Style:
+    """Sizes on the sheet (mm): text heights and clearances."""
+
+    text: float
+    label: float
+    gap: float
+
+    @classmethod
+    def for_units(cls, units: str) -> "Style":
+        if units == "in":
+            return cls(text=25.4 * 5 / 32, label=25.4 / 4, gap=25.4)
+        return cls(text=4.0, label=6.0, gap=25.0)
+
+    def width_of(self, text: str, height: float | None = None) -> float:
+        return CHAR_WIDTH * (height or self.text) * len(text)
+
+
+@dataclass(frozen=True)
+class Part:
+    """A segment placed on the sheet: its face frame's origin (heel end, notch edge) at ``origin`` (mm)."""
+
+    segment: Segment
+    origin: Point
+
+
+Placer = Callable[[Layout, Callable[[Segment], tuple[float, float]], float], list[Part]]
+
+
+def parts_in_rows(layout: Layout, clearance: Callable[[Segment], tuple[float, float]], gap: float) -> list[Part]:
+    """One row per stave, heel to head, segments in order with ``gap`` (mm) between them.
+
+    ``clearance(segment)`` is the room (below, above) the segment's marks need
+    outside its outline. Rows go downwards from y = 0 (the top of stave 1's row).
+    """
+    parts = []
+    top = 0.0
+    for stave in layout.staves:
+        above = max(clearance(seg)[1] + max(y for _, y in seg.outline) for seg in stave)
+        below = max(clearance(seg)[0] - min(y for _, y in seg.outline) for seg in stave)
+        y0 = top - above
+        x = 0.0
+        for seg in stave:
+            parts.append(Part(seg, (x, y0)))
+            x += seg.length + gap
+        top = y0 - below - gap
+    return parts
+
+
+class Pen:
+    """Draws into a modelspace in sheet millimetres, writing coordinates in the spar's units."""
+
+    def __init__(self, msp, units: str) -> None:
+        self.msp = msp
+        self.k = to_unit(1.0, units)
+
+    def _p(self, p: Point) -> tuple[float, float]:
+        return (p[0] * self.k, p[1] * self.k)
+
+    def poly(self, points: Iterable[Point], layer: str, closed: bool = False) -> None:
+        self.msp.add_lwpolyline([self._p(p) for p in points], close=closed, dxfattribs={"layer": layer})
+
+    def line(self, a: Point, b: Point, layer: str) -> None:
+        self.msp.add_line(self._p(a), self._p(b), dxfattribs={"layer": layer})
+
+    def circle(self, centre: Point, radius: float, layer: str) -> None:
+        self.msp.add_circle(self._p(centre), radius * self.k, dxfattribs={"layer": layer})
+
+    def text(self, text: str, at: Point, height: float, layer: str,
+             align: TextEntityAlignment = TextEntityAlignment.LEFT, rotation: float = 0.0) -> None:
+        entity = self.msp.add_text(text, height=height * self.k, rotation=rotation,
+                                   dxfattribs={"layer": layer, "style": "Standard"})
+        entity.set_placement(self._p(at), align=align)
+
+
+def _shift(points: Iterable[Point], dx: float, dy: float) -> list[Point]:
+    return [(x + dx, y + dy) for x, y in points]
+
+
+class TemplateSheet:
+    """The template sheet of one design: parts, their marks, end views and notes."""
+
+    def __init__(self, design: Design, pen: Pen) -> None:
+        self.spar = design.spar
+        self.layout: Layout = design.layout
+        self.units = self.spar.units
+        self.style = Style.for_units(self.units)
+        self.pen = pen
+        self.notched = self.layout.plan.stations[0].notch_depth is not None
+        self.straight_notch_edge = self.layout.plan.taper != "symmetric"
+
+    # Text ------------------------------------------------------------------
+    def pos(self, z: float) -> str:
+        return format_length(z, self.units, tape=True)
+
+    def size(self, mm: float) -> str:
+        return format_length(mm, self.units)
+
+    def where(self, z: float) -> str:
+        """A stave end's position: from the heel, or into an end allowance past the heel or the head."""
+        if z < 0:
+            return f"{self.pos(-z)} past the heel"
+        if z > self.spar.length:
+            return f"{self.pos(z - self.spar.length)} past the head"
+        return f"{self.pos(z)} from the heel"
+
+    def station_text(self, tick) -> str:
+        why = [STATION_WORDS[r] for r in tick.reasons if r in STATION_WORDS]
+        text = f"{self.pos(tick.z)}  {self.size(tick.width)} wide"
+        return text + (f"  ({', '.join(why)})" if why else "")
+
+    def description(self, seg: Segment) -> str:
+        count = len(self.layout.staves[seg.stave - 1])
+        return (f"{seg.label}: stave {seg.stave} of {len(self.layout.staves)}, segment {seg.index} of {count}, "
+                f"from {self.where(seg.start)} to {self.where(seg.end)}, {self.size(seg.length)} along the "
+                f"face; heel end at left")
+
+    def edge_names(self) -> tuple[str, str]:
+        straight = "(straight)" if self.straight_notch_edge else "(tapered)"
+        if not self.notched:
+            return f"BEVEL EDGE {straight}", "BEVEL EDGE (tapered)"
+        return f"NOTCH EDGE {straight}: cut the V along this edge", "SQUARE EDGE (tapered)"
+
+    def clearance(self, seg: Segment) -> tuple[float, float]:
+        """Room (below, above) the segment's marks take outside its outline, mm."""
+        s = self.style
+        longest = max((s.width_of(self.station_text(t)) for t in seg.ticks), default=0.0)
+        return 3 * 1.8 * s.text, s.text + longest + s.text
+
+    # Parts -----------------------------------------------------------------
+    def draw_part(self, part: Part) -> None:
+        seg, (ox, oy) = part.segment, part.origin
+        pen, s = self.pen, self.style
+
+        def at(x: float, y: float) -> Point:
+            return (ox + x, oy + y)
+
+        pen.poly(_shift(seg.outline, ox, oy), CUT, closed=True)
+        pen.poly(_shift(seg.notch_edge, ox, oy), "MARK-NOTCH-EDGE")
+        pen.poly(_shift(seg.square_edge, ox, oy), "MARK-SQUARE-EDGE")
+        top = max(y for _, y in seg.outline)
+        bottom = min(y for _, y in seg.outline)
+
+        # Station ticks across the face, their figures above the part reading upwards.
+        last = -math.inf
+        for tick in seg.ticks:
+            a, b = seg.edges_at(tick.x)
+            pen.line(at(tick.x, a), at(tick.x, b), "MARK-STATIONS")
+            tx = max(tick.x, last + 1.6 * s.text)
+            last = tx
+            base = top + s.text
+            pen.poly([at(tick.x, b), at(tick.x, top + 0.3 * s.text), at(tx, base - 0.2 * s.text)], "MARK-STATIONS")
+            pen.text(self.station_text(tick), at(tx + s.text / 2, base), s.text, "TEXT-STATIONS", rotation=90)
+
+        # Scarfs: the feather line across the face, a note between it and the scarf's tip.
+        tips = [0.0] * seg.scarf_at_start + [seg.length] * seg.scarf_at_end  # feather_lines' order
+        for x, tip in zip(seg.feather_lines, tips):
+            a, b = seg.edges_at(x)
+            pen.line(at(x, a), at(x, b), "MARK-SCARFS")
+            note = f"SCARF {self.size(seg.scarf_length)}: slope from the feather line to a feather edge at this end"
+            note = f"<-- {note}" if tip < x else f"{note} -->"
+            pen.text(note, at((x + tip) / 2, bottom - 1.9 * s.text), s.text, "TEXT-LABELS",
+                     align=TextEntityAlignment.MIDDLE_CENTER)
+            pen.text("feather line", at(x, bottom - 0.9 * s.text), 0.8 * s.text, "TEXT-LABELS",
+                     align=TextEntityAlignment.MIDDLE_CENTER)
+
+        # Free stretches between ticks and scarf lines, longest first, for text inside the part.
+        cuts = sorted({0.0, seg.length, *[t.x for t in seg.ticks], *seg.feather_lines})
+        gaps = sorted(zip(cuts, cuts[1:]), key=lambda g: g[1] - g[0], reverse=True)
+
+        def gap(i: int) -> tuple[float, float]:
+            return gaps[i % len(gaps)]
+
+        def room(g: tuple[float, float]) -> tuple[float, float]:
+            """Lowest square edge and highest notch edge over a stretch: the clear band inside."""
+            ends = [seg.edges_at(g[0]), seg.edges_at(g[1])]
+            return max(e[0] for e in ends), min(e[1] for e in ends)
+
+        g = gap(0)
+        lo, hi = room(g)
+        h = min(s.label, 0.45 * (hi - lo))
+        pen.text(seg.label, at((g[0] + g[1]) / 2, (lo + hi) / 2), h, "TEXT-LABELS",
+                 align=TextEntityAlignment.MIDDLE_CENTER)
+
+        g = gap(1)
+        lo, hi = room(g)
+        self.grain_arrow(at, g, lo, hi)
+
+        notch_name, square_name = self.edge_names()
+        g = gap(2)
+        lo, hi = room(g)
+        h = min(s.text, 0.22 * (hi - lo))
+        pen.text(square_name, at((g[0] + g[1]) / 2, hi - 0.6 * h), h, "TEXT-LABELS",
+                 align=TextEntityAlignment.MIDDLE_CENTER)
+        if not self.straight_notch_edge:
+            pen.text(notch_name, at((g[0] + g[1]) / 2, lo + 0.6 * h), h, "TEXT-LABELS",
+                     align=TextEntityAlignment.MIDDLE_CENTER)
+
+        # Below the notch edge: its name and what the segment is.
+        x0 = seg.scarf_length + 6 * s.text if seg.scarf_at_start else s.text  # clear of the "feather line" word
+        if self.straight_notch_edge:
+            pen.text(notch_name, at(x0, bottom - 1.0 * s.text), s.text, "TEXT-LABELS",
+                     align=TextEntityAlignment.TOP_LEFT)
+        pen.text(self.description(seg), at(x0, bottom - 3.2 * s.text), s.text, "TEXT-LABELS",
+                 align=TextEntityAlignment.TOP_LEFT)
+
+    def grain_arrow(self, at: Callable[[float, float], Point], g: tuple[float, float], lo: float, hi: float) -> None:
+        """An arrow along the grain, pointing to the head, in the stretch ``g`` between ``lo`` and ``hi``."""
+        s = self.style
+        span = g[1] - g[0]
+        length = min(0.6 * span, 12 * s.label)
+        x0 = (g[0] + g[1]) / 2 - length / 2
+        y = lo + 0.4 * (hi - lo)
+        head = min(s.text, 0.15 * (hi - lo), length / 4)
+        x1 = x0 + length
+        self.pen.line(at(x0, y), at(x1 - head, y), "MARK-GRAIN")
+        self.pen.poly([at(x1, y), at(x1 - head * 1.6, y + head / 2), at(x1 - head * 1.6, y - head / 2)],
+                      "MARK-GRAIN", closed=True)
+        h = min(s.text, 0.2 * (hi - lo))
+        self.pen.text("GRAIN, heel to head", at(x0, y + 0.5 * h), h, "TEXT-LABELS")
+
+    # End views -------------------------------------------------------------
+    def end_views(self, left: float, bottom: float) -> float:
+        """End views in a row whose lowest caption line sits at ``bottom``; returns the row's top (mm)."""
+        lay, s = self.layout, self.style
+        items: list[tuple[Callable[[Point], None], tuple[float, float, float, float], list[str]]] = []
+        extremes = (("widest", lay.machining.widest), ("narrowest", lay.machining.narrowest))
+        for what, at in extremes:
+            items.append(self.stave_view(what, at.z, at.section))
+        for what, at in extremes:
+            items.append(self.assembled_view(what, at.z, at.section))
+        for block in lay.plugs:
+            for end_name, end in (("heel", block.heel), ("head", block.head)):
+                items.append(self.plug_view(block.index, end_name, end))
+        x = left
+        tallest = 0.0
+        caption_room = 5 * 1.6 * s.text
+        for draw, (x0, y0, x1, y1), caption in items:
+            width = max(x1 - x0, max(s.width_of(line) for line in caption))
+            cx = x + width / 2
+            base = bottom + caption_room
+            draw((cx - (x0 + x1) / 2, base - y0))
+            for i, line in enumerate(caption):
+                self.pen.text(line, (cx, bottom + caption_room - (i + 1) * 1.6 * s.text), s.text, "SHEET-NOTES",
+                              align=TextEntityAlignment.TOP_CENTER)
+            tallest = max(tallest, y1 - y0)
+            x += width + s.gap
+        return bottom + caption_room + tallest
+
+    def stave_view(self, what: str, z: float, section: Section):
+        outline = list(section.stave_outline)
+        xs, ys = [p[0] for p in outline], [p[1] for p in outline]
+
+        def draw(offset: Point) -> None:
+            self.pen.poly(_shift(outline, *offset), "END-STAVE", closed=True)
+
+        caption = [f"STAVE END at the {what}, {self.pos(z)} from the heel",
+                   f"{self.size(section.stave_width)} wide x {self.size(section.thickness)} thick, outer face up"]
+        if section.notch is not None:
+            a, b = section.v_face_angles
+            caption += [f"notch edge at left: V {self.size(section.notch.depth)} deep, "
+                        f"apex {self.size(section.notch.apex_height)} up",
+                        f"V faces {a:.2f} and {b:.2f} deg to the broad face"]
+        else:
+            caption += [f"edges bevelled {section.bevel_angle:.2f} deg off square"]
+        return draw, (min(xs), min(ys), max(xs), max(ys)), caption
+
+    def assembled_view(self, what: str, z: float, section: Section):
+        n = section.staves
+        stave = section.stave_polygon()
+        staves = [list(placed(stave, n, k).exterior.coords)[:-1] for k in range(n)]
+        bore = bore_ring(n, section.inner_apothem)
+        reach = max(math.hypot(x, y) for ring in staves for x, y in ring)
+
+        def draw(offset: Point) -> None:
+            for ring in staves:
+                self.pen.poly(_shift(ring, *offset), "END-STAVE", closed=True)
+            self.pen.poly(_shift(bore, *offset), "END-BORE", closed=True)
+            self.pen.circle(offset, section.radius, "END-ROUND")
+
+        caption = [f"ASSEMBLED at the {what}, {self.pos(z)} from the heel",
+                   f"{n} staves, {self.size(section.across_flats)} across the flats",
+                   f"finished round {self.size(2 * section.radius)} diameter",
+                   f"bore {self.size(2 * section.inner_apothem)} across the flats"]
+        return draw, (-reach, -reach, reach, reach), caption
+
+    def plug_view(self, index: int, end_name: str, end):
+        n = end.section.staves
+        ring = bore_ring(n, end.section.inner_apothem)
+        reach = max(math.hypot(x, y) for x, y in ring)
+
+        def draw(offset: Point) -> None:
+            self.pen.poly(_shift(ring, *offset), "END-PLUG", closed=True)
+
+        caption = [f"PLUG {index}, {end_name} end, {self.pos(end.z)} from the heel",
+                   f"{n} sides, {self.size(end.across_flats)} across the flats",
+                   f"{self.size(end.across_corners)} across the corners"]
+        return draw, (-reach, -reach, reach, reach), caption
+
+    # Notes -----------------------------------------------------------------
+    def notes(self, left: float, bottom: float) -> None:
+        s, spar = self.style, self.spar
+        unit = "inches" if self.units == "in" else "millimetres"
+        check = 304.8 if self.units == "in" else 300.0
+        joint = spar.hollow.joint.kind
+        lines = [
+            f"{spar.name}: stave templates at 1:1, in {unit}. {len(self.layout.staves)} staves, {joint}.",
+            f"Cut only the layer {CUT}; every other layer is marks, text and end views.",
+            "Outlines are the finished stave widths before the notch, with no edge allowance; "
+            "stave ends include the end allowance.",
+            "Check the scale before cutting: the line below must measure "
+            f"{self.size(check)}. Check every figure against the cut list.",
+        ]
+        y = bottom + 2.5 * s.text
+        self.pen.line((left, bottom), (left + check, bottom), "SHEET-NOTES")
+        for tick_x in (left, left + check):
+            self.pen.line((tick_x, bottom - s.text / 2), (tick_x, bottom + s.text / 2), "SHEET-NOTES")
+        for line in reversed(lines):
+            self.pen.text(line, (left, y), s.text, "SHEET-NOTES")
+            y += 1.8 * s.text
+        self.pen.text(spar.name.upper(), (left, y + 0.5 * s.text), s.label, "SHEET-NOTES")
+
+
+def setup_document(units: str):
+    """A new DXF document with our layers, in the spar's units."""
+    doc = ezdxf.new(DXF_VERSION, setup=False)
+    doc.units = INSUNITS[units]
+    doc.header["$INSUNITS"] = INSUNITS[units]
+    doc.header["$MEASUREMENT"] = MEASUREMENT[units]
+    doc.header["$LWDISPLAY"] = 1
+    doc.styles.get("Standard").dxf.font = "txt"
+    for name, (colour, weight, what) in LAYERS.items():
+        layer = doc.layers.add(name, color=colour, lineweight=weight)
+        layer.description = what
+    return doc
+
+
+def template_document(design: Design, place: Placer = parts_in_rows):
+    """The template sheet of ``design`` as an ezdxf document (its layout must be worked out)."""
+    if design.layout is None:
+        raise ValueError("templates need the layout: design(spar, layout=True)")
+    units = design.spar.units
+    doc = setup_document(units)
+    pen = Pen(doc.modelspace(), units)
+    sheet = TemplateSheet(design, pen)
+    parts = place(design.layout, sheet.clearance, sheet.style.gap)
+    for part in parts:
+        sheet.draw_part(part)
+    top = sheet.end_views(0.0, 2 * sheet.style.gap)
+    sheet.notes(0.0, top + sheet.style.gap)
+    set_extents(doc)
+    return doc
+
+
+def set_extents(doc) -> None:
+    """$EXTMIN/$EXTMAX (and the opening view) from what the modelspace holds."""
+    msp = doc.modelspace()
+    box = ezdxf.bbox.extents(msp)
+    msp.reset_extents(box.extmin, box.extmax)
+    doc.update_extents()
+    ezdxf.zoom.center(msp, box.center, box.size)
+
+
+def write_templates(design: Design, path: str | Path, place: Placer = parts_in_rows) -> None:
+    """Write the DXF cutting templates of ``design`` to ``path``."""
+    template_document(design, place).saveas(Path(path))

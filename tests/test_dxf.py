@@ -1,0 +1,339 @@
+"""The DXF cutting templates, checked from outside the renderer.
+
+References used here, none of them stavegen's own drawing code:
+- ezdxf's ``audit()``, the DXF library's own structural check of a document;
+- an independent reader of the file (``read_dxf`` below): a plain group-code
+  parser written from the DXF reference's description of the format (pairs
+  of lines, a group code and a value; sections HEADER, TABLES, ENTITIES),
+  not ezdxf;
+- shapely for closure, validity, self-intersection and overlap;
+- the stave widths as the section model computes them at each station
+  (``SectionCache``), and for flush birdsmouth joints the closed form of the
+  geometry reference, w = 2·a_o·tan(π/N) (GEOMETRY.md, flush);
+- the regular N-gon: apothem = 2·area / perimeter, area = N·a²·tan(π/N).
+"""
+
+from __future__ import annotations
+
+import math
+import re
+from dataclasses import dataclass, field
+from pathlib import Path
+
+import ezdxf
+import pytest
+import shapely
+from hypothesis import HealthCheck, given, settings
+from hypothesis import strategies as st
+from shapely.geometry import LineString, LinearRing, Polygon
+
+from stavegen.build import output_names, write_outputs
+from stavegen.model.loader import load_spar, parse_spar
+from stavegen.pipeline import design
+from stavegen.render import dxf_templates
+from stavegen.render.dxf_templates import CUT, LAYERS, write_templates
+from stavegen.stations.evaluate import SectionCache
+
+from conftest import SAMPLES, spar_dict
+
+MM_PER = {"in": 25.4, "mm": 1.0}
+ALLOWED = {"LWPOLYLINE", "LINE", "CIRCLE", "ARC", "TEXT", "MTEXT"}
+WIDTH_TOLERANCE = 0.05  # mm, the brief's tolerance on widths and lengths
+
+
+# An independent DXF reader -------------------------------------------------------------------
+
+@dataclass
+class Entity:
+    kind: str
+    codes: list[tuple[int, str]] = field(default_factory=list)
+
+    def first(self, code: int, default: str | None = None) -> str | None:
+        return next((v for c, v in self.codes if c == code), default)
+
+    def all(self, code: int) -> list[str]:
+        return [v for c, v in self.codes if c == code]
+
+    @property
+    def layer(self) -> str:
+        return self.first(8, "0")
+
+    @property
+    def points(self) -> list[tuple[float, float]]:
+        return list(zip(map(float, self.all(10)), map(float, self.all(20))))
+
+    @property
+    def closed(self) -> bool:
+        return bool(int(self.first(70, "0")) & 1)
+
+    @property
+    def anchor(self) -> tuple[float, float]:
+        """A TEXT's placement: the second alignment point when it is aligned, else the first."""
+        if int(self.first(72, "0")) or int(self.first(73, "0")):
+            return float(self.first(11)), float(self.first(21))
+        return float(self.first(10)), float(self.first(20))
+
+
+@dataclass
+class DxfFile:
+    header: dict[str, list[tuple[int, str]]]
+    entities: list[Entity]
+    layers: dict[str, Entity]
+
+    def on(self, layer: str, kind: str | None = None) -> list[Entity]:
+        return [e for e in self.entities if e.layer == layer and (kind is None or e.kind == kind)]
+
+
+def read_dxf(path: Path) -> DxfFile:
+    """Header variables, modelspace entities and layer table records of an ASCII DXF file."""
+    lines = path.read_text(encoding="utf-8").splitlines()
+    pairs = [(int(lines[i].strip()), lines[i + 1].strip()) for i in range(0, len(lines) - 1, 2)]
+    header: dict[str, list[tuple[int, str]]] = {}
+    entities: list[Entity] = []
+    layers: dict[str, Entity] = {}
+    section = None
+    current: Entity | None = None
+    variable = None
+    for i, (code, value) in enumerate(pairs):
+        if code == 0 and value == "SECTION":
+            section = pairs[i + 1][1]
+            current = variable = None
+            continue
+        if code == 0 and value == "ENDSEC":
+            section = current = None
+            continue
+        if section == "HEADER":
+            if code == 9:
+                variable = value
+                header[variable] = []
+            elif variable is not None:
+                header[variable].append((code, value))
+        elif section in ("ENTITIES", "TABLES"):
+            if code == 0:
+                current = Entity(value)
+                if section == "ENTITIES":
+                    entities.append(current)
+            elif current is not None:
+                current.codes.append((code, value))
+                if section == "TABLES" and current.kind == "LAYER" and code == 2:
+                    layers[value] = current
+    return DxfFile(header, entities, layers)
+
+
+# Helpers -------------------------------------------------------------------------------------
+
+def templates_of(result, tmp_path: Path) -> tuple[Path, DxfFile]:
+    path = tmp_path / "templates.dxf"
+    write_templates(result, path)
+    return path, read_dxf(path)
+
+
+def width_across(polygon: Polygon, x: float) -> float:
+    """Length of the vertical line x = const inside the polygon (mm)."""
+    x0, y0, x1, y1 = polygon.bounds
+    return polygon.intersection(LineString([(x, y0 - 10), (x, y1 + 10)])).length
+
+
+def check_templates(result, path: Path, dxf: DxfFile) -> float:
+    """Every check of a written template file; returns the worst width error found (mm)."""
+    spar, layout = result.spar, result.layout
+    unit = MM_PER[spar.units]
+
+    # ezdxf's own structural check.
+    auditor = ezdxf.readfile(path).audit()
+    assert not auditor.has_errors, [str(e) for e in auditor.errors]
+
+    # Units and extents in the header.
+    assert int(dxf.header["$INSUNITS"][0][1]) == {"in": 1, "mm": 4}[spar.units]
+    assert int(dxf.header["$MEASUREMENT"][0][1]) == {"in": 0, "mm": 1}[spar.units]
+    ext_min = [float(v) for c, v in dxf.header["$EXTMIN"] if c in (10, 20)]
+    ext_max = [float(v) for c, v in dxf.header["$EXTMAX"] if c in (10, 20)]
+    assert ext_min[0] < ext_max[0] and ext_min[1] < ext_max[1]
+
+    # Only the entity kinds CAM reads; colours by layer; our layers carry a colour and a lineweight.
+    assert {e.kind for e in dxf.entities} <= ALLOWED
+    assert all(e.first(62) is None for e in dxf.entities)
+    for name in LAYERS:
+        record = dxf.layers[name]
+        assert int(record.first(62)) > 0 and int(record.first(370)) > 0
+    assert all(e.first(7, "Standard") == "Standard" for e in dxf.entities if e.kind == "TEXT")
+
+    # The cutting layer holds one closed outline per segment and nothing else.
+    cut = dxf.on(CUT)
+    assert all(e.kind == "LWPOLYLINE" and e.closed for e in cut)
+    assert len(cut) == len(layout.segments)
+    polygons = [Polygon([(x * unit, y * unit) for x, y in e.points]) for e in cut]
+    for e, poly in zip(cut, polygons):
+        assert LinearRing(poly.exterior.coords).is_simple and poly.is_valid and poly.area > 0
+        for x, y in e.points:
+            assert ext_min[0] - 1e-9 <= x <= ext_max[0] + 1e-9 and ext_min[1] - 1e-9 <= y <= ext_max[1] + 1e-9
+    tree = shapely.STRtree(polygons)
+    for i, poly in enumerate(polygons):
+        for j in tree.query(poly, predicate="dwithin", distance=10.0):
+            assert j == i, "two parts are closer than 10 mm"
+
+    # Each outline carries its label inside it; match outlines to segments by label.
+    labels = [t for t in dxf.on("TEXT-LABELS", "TEXT") if re.fullmatch(r"S\d+-\d+", t.first(1))]
+    by_label = {}
+    for poly in polygons:
+        inside = [t.first(1) for t in labels if poly.contains(shapely.Point(*[c * unit for c in t.anchor]))]
+        assert len(inside) == 1, inside
+        by_label[inside[0]] = poly
+    assert sorted(by_label) == sorted(seg.label for seg in layout.segments)
+
+    cache = SectionCache(spar)
+    worst = 0.0
+    n = spar.hollow.staves
+    for seg in layout.segments:
+        poly = by_label[seg.label]
+        x0, _, x1, _ = poly.bounds
+        assert x1 - x0 == pytest.approx(seg.length, abs=WIDTH_TOLERANCE)
+        checks = [(tick.x, tick.z) for tick in seg.ticks]
+        checks += [(0.0, min(max(seg.start, 0.0), spar.length)), (seg.length, min(max(seg.end, 0.0), spar.length))]
+        for x, z in checks:
+            # An end lies on the outline itself: measure a micrometre inside it (the width there differs by less).
+            measured = width_across(poly, min(max(x0 + x, x0 + 1e-3), x1 - 1e-3))
+            section = cache.at(z)
+            expected = [section.stave_width]
+            if spar.hollow.joint.kind == "birdsmouth-flush":
+                expected.append(2 * section.outer_apothem * math.tan(math.pi / n))
+            for w in expected:
+                worst = max(worst, abs(measured - w))
+                assert measured == pytest.approx(w, abs=WIDTH_TOLERANCE), (seg.label, z)
+
+    # Marks on their own layers: a tick line and its figures per station, a feather line per scarf end.
+    ticks = sum(len(seg.ticks) for seg in layout.segments)
+    assert len(dxf.on("MARK-STATIONS", "LINE")) == ticks
+    assert len(dxf.on("TEXT-STATIONS", "TEXT")) == ticks
+    assert len(dxf.on("MARK-SCARFS", "LINE")) == sum(len(seg.feather_lines) for seg in layout.segments)
+    assert len(dxf.on("MARK-NOTCH-EDGE")) == len(dxf.on("MARK-SQUARE-EDGE")) == len(layout.segments)
+    for line in dxf.on("MARK-SCARFS", "LINE"):
+        (ax, ay), (bx, by) = (float(line.first(10)) * unit, float(line.first(20)) * unit), \
+            (float(line.first(11)) * unit, float(line.first(21)) * unit)
+        assert ax == pytest.approx(bx, abs=1e-9)
+        assert any(poly.buffer(1e-6).contains(LineString([(ax, ay), (bx, by)])) for poly in polygons)
+
+    # End views: the finished round as circles, the staves placed round without overlap, the plug N-gons.
+    circles = sorted(float(c.first(40)) * unit for c in dxf.on("END-ROUND", "CIRCLE"))
+    assert circles == pytest.approx(sorted([layout.widest_section.radius, layout.narrowest_section.radius]))
+    rings = [Polygon([(x * unit, y * unit) for x, y in e.points]) for e in dxf.on("END-STAVE", "LWPOLYLINE")]
+    assert len(rings) == 2 + 2 * n
+    assembled = rings[2:2 + n]
+    for a in range(n):
+        for b in range(a + 1, n):
+            assert assembled[a].intersection(assembled[b]).area <= 1e-6 * assembled[a].area
+    if spar.hollow.joint.kind in ("birdsmouth-flush", "bevel"):
+        a_o = layout.widest_section.outer_apothem
+        ngon = n * a_o**2 * math.tan(math.pi / n)  # regular N-gon of apothem a_o
+        assert shapely.union_all(assembled).convex_hull.area == pytest.approx(ngon, rel=1e-6)
+        # No voids in these joints: staves and bore fill the glued-up polygon exactly.
+        bore = Polygon([(x * unit, y * unit) for x, y in dxf.on("END-BORE", "LWPOLYLINE")[0].points])
+        assert sum(p.area for p in assembled) + bore.area == pytest.approx(ngon, rel=1e-6)
+    plugs = [Polygon([(x * unit, y * unit) for x, y in e.points]) for e in dxf.on("END-PLUG", "LWPOLYLINE")]
+    ends = [end for block in layout.plugs for end in (block.heel, block.head)]
+    assert len(plugs) == len(ends)
+    for poly, end in zip(plugs, ends):
+        assert len(poly.exterior.coords) - 1 == n
+        assert 4 * poly.area / poly.length == pytest.approx(end.across_flats, rel=1e-9)
+    # Nothing drawn for the end views or the notes lies on a part.
+    cut_area = shapely.union_all(polygons)
+    for e in dxf.entities:
+        if e.layer.startswith(("END-", "SHEET-")) and e.kind == "LWPOLYLINE":
+            assert not cut_area.intersects(Polygon([(x * unit, y * unit) for x, y in e.points]))
+    return worst
+
+
+# Tests ---------------------------------------------------------------------------------------
+
+@pytest.mark.parametrize("sample", sorted(p.name for p in SAMPLES.glob("*.toml")))
+def test_every_sample_reads_back_whole(sample, tmp_path):
+    result = design(load_spar(SAMPLES / sample), layout=True)
+    path, dxf = templates_of(result, tmp_path)
+    worst = check_templates(result, path, dxf)
+    assert worst < WIDTH_TOLERANCE
+
+
+@pytest.mark.parametrize("sample, insunits, measurement, word", [
+    ("catboat-mast.toml", 1, 0, '"'), ("yawl-mainmast-metric.toml", 4, 1, " mm")])
+def test_units_follow_the_spar_file(sample, insunits, measurement, word, tmp_path):
+    result = design(load_spar(SAMPLES / sample), layout=True)
+    _, dxf = templates_of(result, tmp_path)
+    assert int(dxf.header["$INSUNITS"][0][1]) == insunits
+    assert int(dxf.header["$MEASUREMENT"][0][1]) == measurement
+    # Drawn at 1:1 in that unit: the longest outline spans the longest segment in the file's own numbers.
+    longest = max(max(x for x, _ in e.points) - min(x for x, _ in e.points) for e in dxf.on(CUT))
+    assert longest * MM_PER[result.spar.units] == pytest.approx(max(s.length for s in result.layout.segments),
+                                                                abs=WIDTH_TOLERANCE)
+    # Station figures are written in the spar's unit.
+    assert all(word in t.first(1) for t in dxf.on("TEXT-STATIONS", "TEXT"))
+
+
+def random_spar(units: str, length: float, diameter: float, taper: float, staves: int, joint: str, wall: float,
+                board: float, edge: str = "square-edge"):
+    mm = lambda v: f"{v:.3f} mm"  # noqa: E731
+    head = diameter * taper
+    data = spar_dict(
+        spar={"name": "Random spar", "units": units, "length": mm(length)},
+        plan={"wood": "sitka-spruce", "stations": [[0, mm(diameter)], [mm(length), mm(head)]]},
+        hollow={"wood": "sitka-spruce", "staves": staves, "joint": joint, "wall": mm(wall * head),
+                "planing_allowance": mm(1.5), "end_allowance": mm(50), "taper": edge},
+        stock={"thickness": mm(wall * diameter + 2), "widths": [mm(150)], "lengths": [mm(board)],
+               "kerf": mm(3), "scarf_ratio": 8, "scarf_stagger": mm(150)},
+        output={"mark_spacing": mm(300)},
+    )
+    return parse_spar(data, "random.toml")
+
+
+@settings(max_examples=5, deadline=None, suppress_health_check=[HealthCheck.function_scoped_fixture])
+@given(units=st.sampled_from(["in", "mm"]), length=st.floats(1500, 5000), diameter=st.floats(60, 140),
+       taper=st.floats(0.6, 1.0), staves=st.sampled_from([6, 8, 10, 12]),
+       joint=st.sampled_from(["birdsmouth-flush", "birdsmouth-centered", "bevel"]),
+       wall=st.floats(0.18, 0.24), board=st.floats(1800, 3000), edge=st.sampled_from(["square-edge", "symmetric"]))
+def test_random_spars_read_back_whole(tmp_path, units, length, diameter, taper, staves, joint, wall, board, edge):
+    spar = random_spar(units, length, diameter, taper, staves, joint, wall, board, edge)
+    result = design(spar, layout=True)
+    path, dxf = templates_of(result, tmp_path)
+    check_templates(result, path, dxf)
+
+
+def test_build_writes_the_templates_with_the_other_outputs(run, tmp_path):
+    out = tmp_path / "out"
+    result = run(["build", SAMPLES / "catboat-mast.toml", "-o", out])
+    assert result.exit_code == 0, result.output
+    name = output_names("catboat-mast")["templates"]
+    assert name == "catboat-mast-templates.dxf"
+    dxf = read_dxf(out / name)
+    assert int(dxf.header["$INSUNITS"][0][1]) == 1 and dxf.on(CUT)
+
+
+def test_a_failing_template_writer_leaves_no_output(tmp_path, monkeypatch):
+    result = design(load_spar(SAMPLES / "catboat-mast.toml"), layout=True)
+
+    def broken(design, path):
+        Path(path).write_text("half a file")
+        raise RuntimeError("disk full")
+
+    monkeypatch.setattr(dxf_templates, "write_templates", broken)
+    with pytest.raises(RuntimeError):
+        write_outputs(result, tmp_path)
+    assert list(tmp_path.iterdir()) == []
+
+
+def test_placement_can_be_swapped(tmp_path):
+    """The parts' placement is one function: a different one moves the outlines and nothing breaks."""
+    result = design(load_spar(SAMPLES / "yawl-mainmast-metric.toml"), layout=True)
+
+    def in_one_column(layout, clearance, gap):
+        parts, top = [], 0.0
+        for seg in layout.segments:
+            below, above = clearance(seg)
+            y = top - above - max(y for _, y in seg.outline)
+            parts.append(dxf_templates.Part(seg, (0.0, y)))
+            top = y + min(y for _, y in seg.outline) - below - gap
+        return parts
+
+    path = tmp_path / "column.dxf"
+    write_templates(result, path, place=in_one_column)
+    dxf = read_dxf(path)
+    assert all(min(x for x, _ in e.points) == 0.0 for e in dxf.on(CUT))
+    check_templates(result, path, dxf)
