@@ -159,8 +159,11 @@ class LumberOrder:
     """The boards that cut every piece, and the order to place.
 
     ``used`` counts the boards of :attr:`boards` by size; ``to_buy`` adds ``waste`` to each
-    size (ceil(count × (1 + waste))). ``lower_bound_board_feet`` is the LP bound: no
-    cutting plan can use fewer board feet. ``stave_volume`` is Σ piece.volume (mm³).
+    size (ceil(count × (1 + waste))). ``lower_bound_board_feet``: no cutting plan can use
+    fewer board feet; it is the LP relaxation of the two-stage model when ``bound_is_lp``,
+    else a weaker bound (Farley or area). ``stave_volume`` is Σ piece.volume (mm³).
+    ``method`` is "enumerated patterns" or "column generation"; ``proven_optimal`` says
+    the board feet are the least possible.
     """
 
     boards: tuple[Board, ...]
@@ -171,6 +174,7 @@ class LumberOrder:
     stave_volume: float
     method: str
     proven_optimal: bool
+    bound_is_lp: bool
     notes: tuple[str, ...] = field(default=())
 
     @property
@@ -741,11 +745,14 @@ def _first_fit(prob: _Problem, main: int, by_length: bool) -> _Plan:
     return plan
 
 
-def _solve(prob: _Problem, deadline: float, limit: int, max_rounds: int = 300) -> tuple[_Plan, float, bool, bool]:
+def _solve(
+    prob: _Problem, deadline: float, limit: int, max_rounds: int = 300
+) -> tuple[_Plan, float, bool, bool, bool]:
     """The two-stage model: patterns enumerated up to ``limit`` per family, the rest generated.
 
     Column generation may use half the time left; the integer solve over every pattern
-    made takes the rest. Returns (plan, lower bound, proven optimal, all enumerated).
+    made takes the rest. Returns (plan, lower bound, proven optimal, all enumerated,
+    bound is the LP).
     """
     rips, slots = _start(prob)
     full_rips, full_slots, complete = _enumerate(prob, limit) if limit > 0 else ([], {}, False)
@@ -808,7 +815,7 @@ def _solve(prob: _Problem, deadline: float, limit: int, max_rounds: int = 300) -
     # proven least: the plan meets the bound, or the model held every pattern and HiGHS proved it
     optimal = cost <= bound * (1 + 1e-9) + 1e-9 or (
         complete and converged and proven and x is not None and cost <= plan_cost(plans[-1]))
-    return plan, bound, optimal, complete
+    return plan, bound, optimal, complete, converged
 
 
 # -------------------------------------------------------------------------- placing
@@ -884,9 +891,9 @@ def order_lumber(pieces: list[Piece] | tuple[Piece, ...], stock: Stock, *, units
     sizes = _sizes(stock)
     stave_volume = float(sum(p.volume for p in pieces))
     if not pieces:
-        return LumberOrder((), (), (), stock.waste, 0.0, 0.0, "none", True)
+        return LumberOrder((), (), (), stock.waste, 0.0, 0.0, "none", True, True)
     prob = _Problem(_group(pieces), sizes, stock.kerf)
-    plan, bound, optimal, complete = _solve(prob, time.monotonic() + time_budget, pattern_limit)
+    plan, bound, optimal, complete, is_lp = _solve(prob, time.monotonic() + time_budget, pattern_limit)
     notes = [] if optimal else [
         "the solve stopped before the plan was proven least; compare its board feet with the lower bound"
     ]
@@ -902,5 +909,5 @@ def order_lumber(pieces: list[Piece] | tuple[Piece, ...], stock: Stock, *, units
         boards=tuple(boards), used=used, to_buy=to_buy, waste=stock.waste,
         lower_bound_board_feet=bound, stave_volume=stave_volume,
         method="enumerated patterns" if complete else "column generation",
-        proven_optimal=optimal, notes=tuple(notes),
+        proven_optimal=optimal, bound_is_lp=is_lp, notes=tuple(notes),
     )
