@@ -35,7 +35,10 @@ bound no plan can beat.
 
 from __future__ import annotations
 
+import contextlib
 import math
+import os
+import sys
 import time
 from collections import defaultdict
 from dataclasses import dataclass, field
@@ -326,7 +329,7 @@ class _Front:
     (Nemhauser–Ullmann), so the last fill is the best so far.
     """
 
-    def __init__(self, n_items: int, capacity: float, limit: int = 200_000) -> None:
+    def __init__(self, n_items: int, capacity: float, limit: int = 20_000) -> None:
         self.capacity = capacity + EPS
         self.limit = limit
         self.used = np.zeros(1)
@@ -455,12 +458,34 @@ def _lp(prob: _Problem, m: _Model) -> tuple[float, np.ndarray, np.ndarray]:
     return float(res.fun), duals[:T], duals[T:].reshape(len(prob.lengths), len(prob.classes))
 
 
+@contextlib.contextmanager
+def _quiet_stdout():
+    """Silence file descriptor 1: HiGHS prints a stray line from C++ on some integer solves
+    ("HighsMipSolverData::transformNewIntegerFeasibleSolution ...", HiGHS issue #2783),
+    whatever its output options say, and it would land in the middle of the command's output."""
+    sys.stdout.flush()
+    try:
+        saved = os.dup(1)
+    except OSError:  # no descriptor 1 to silence
+        yield
+        return
+    try:
+        with open(os.devnull, "w") as null:
+            os.dup2(null.fileno(), 1)
+        yield
+    finally:
+        sys.stdout.flush()
+        os.dup2(saved, 1)
+        os.close(saved)
+
+
 def _ip(m: _Model, time_limit: float) -> tuple[np.ndarray | None, bool]:
     """Integer solve: (counts per column or None, proven optimal)."""
-    res = milp(
-        m.cost, constraints=LinearConstraint(m.A, -np.inf, m.upper), integrality=np.ones(len(m.cost)),
-        options={"time_limit": max(0.2, time_limit), "mip_rel_gap": 1e-9},
-    )
+    with _quiet_stdout():
+        res = milp(
+            m.cost, constraints=LinearConstraint(m.A, -np.inf, m.upper), integrality=np.ones(len(m.cost)),
+            options={"time_limit": max(0.2, time_limit), "mip_rel_gap": 1e-9},
+        )
     if res.x is None:
         return None, False
     return np.round(res.x).astype(int), res.status == 0
