@@ -16,7 +16,7 @@ from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
 from stavegen.errors import InputError
-from stavegen.layout.lumber import BoardSize, Piece, board_feet, order_lumber, with_waste
+from stavegen.layout.lumber import BoardSize, Piece, SizeCount, add_waste, board_feet, order_lumber
 from stavegen.model.spar import Stock
 
 IN = 25.4
@@ -62,12 +62,22 @@ def test_tally_is_on_nominal_sizes():
     assert order.lower_bound_board_feet <= 5.0 + 1e-9
 
 
-def test_waste_rounds_up_without_float_creep():
-    # 10 boards + 10 % is 11 boards, not 12 (10 × 1.1 = 11.000000000000002 in floats)
-    assert with_waste(10, 0.10) == 11
-    assert with_waste(3, 0.10) == 4
-    assert with_waste(7, 0.0) == 7
-    assert with_waste(0, 0.25) == 0
+def _size(width_in, length_ft):
+    return BoardSize(width=width_in * IN - 12, length=length_ft * 12 * IN, thickness=0.75 * IN,
+                     nominal_width=width_in * IN, nominal_thickness=IN)
+
+
+def test_waste_is_a_share_of_the_whole_order():
+    # 10 boards of 1 × 6 × 12 ft (6 BF each) + 10 % = 66 BF: 11 boards, not 12 (10 × 1.1 is 11.000000000000002).
+    one = (SizeCount(_size(6, 12), 10),)
+    assert [c.count for c in add_waste(one, 0.10)] == [11]
+    assert [c.count for c in add_waste(one, 0.0)] == [10]
+    # One board each of two sizes: 10 % on 10 BF is 1 BF more, one spare board, not one spare per size.
+    two = (SizeCount(_size(6, 8), 1), SizeCount(_size(6, 12), 1))
+    bought = add_waste(two, 0.10)
+    assert sum(c.count for c in bought) == 3
+    used_bf = sum(c.board_feet for c in two)
+    assert sum(c.board_feet for c in bought) >= 1.1 * used_bf - 1e-9
 
 
 # ------------------------------------------------------------------ an independent checker
@@ -121,8 +131,12 @@ def check_order(order, pieces, s):
     for used, buy in zip(order.used, order.to_buy):
         assert buy.size == used.size
         assert buy.count >= used.count
-        assert buy.count == math.ceil(round(used.count * (1 + s.waste), 9))
-    assert order.to_buy_board_feet >= order.board_feet - 1e-9
+    # The order holds (1 + waste) × the board feet used, and no spare board more than it needs.
+    assert order.to_buy_board_feet >= (1 + s.waste) * order.board_feet - 1e-9
+    spares = [b for u, b in zip(order.used, order.to_buy) if b.count > u.count]
+    if spares:
+        largest = max(b.size.board_feet for b in spares)
+        assert order.to_buy_board_feet - largest < (1 + s.waste) * order.board_feet - 1e-9
 
 
 # ------------------------------------------------------------------- random inputs

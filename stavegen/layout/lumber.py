@@ -161,8 +161,8 @@ class SizeCount:
 class LumberOrder:
     """The boards that cut every piece, and the order to place.
 
-    ``used`` counts the boards of :attr:`boards` by size; ``to_buy`` adds ``waste`` to each
-    size (ceil(count × (1 + waste))). ``lower_bound_board_feet``: no cutting plan can use
+    ``used`` counts the boards of :attr:`boards` by size; ``to_buy`` adds spare boards until
+    the order holds at least (1 + waste) × the board feet used (see :func:`add_waste`). ``lower_bound_board_feet``: no cutting plan can use
     fewer board feet; it is the LP relaxation of the two-stage model when ``bound_is_lp``,
     else a weaker bound (Farley or area). ``stave_volume`` is Σ piece.volume (mm³).
     ``method`` is "enumerated patterns" or "column generation"; ``proven_optimal`` says
@@ -209,9 +209,26 @@ class LumberOrder:
         return sum(s.volume_m3 for s in self.to_buy)
 
 
-def with_waste(count: int, waste: float) -> int:
-    """Boards to buy for ``count`` boards used: ceil(count × (1 + waste)), no float creep."""
-    return math.ceil(count * (1.0 + waste) - 1e-9)
+def add_waste(used: tuple[SizeCount, ...], waste: float) -> tuple[SizeCount, ...]:
+    """The order: the boards used plus spares until it holds (1 + waste) × their board feet.
+
+    The waste fraction is a share of the whole order, not of each size (one
+    board of a size would otherwise become two). Spares go one at a time to
+    the size with the most boards used per spare given so far (ties: the
+    smaller board), so spares follow the sizes the job eats; the order stops
+    at the first board that reaches the target.
+    """
+    counts = {u.size: u.count for u in used}
+    target = (1.0 + waste) * sum(u.board_feet for u in used)
+    extras = {u.size: 0 for u in used}
+
+    def total() -> float:
+        return sum((counts[k] + extras[k]) * k.board_feet for k in counts)
+    while total() < target - 1e-9:
+        # Spread spares over sizes in proportion to use: the size with most boards per spare so far.
+        size = max(counts, key=lambda k: (counts[k] / (1 + extras[k]), -k.board_feet))
+        extras[size] += 1
+    return tuple(SizeCount(u.size, u.count + extras[u.size]) for u in used)
 
 
 # ----------------------------------------------------------------------- the problem
@@ -929,7 +946,7 @@ def order_lumber(pieces: list[Piece] | tuple[Piece, ...], stock: Stock, *, units
     for b in boards:
         tally[index[id(b.size)]] += 1
     used = tuple(SizeCount(sizes[i], n) for i, n in sorted(tally.items()))
-    to_buy = tuple(SizeCount(u.size, with_waste(u.count, stock.waste)) for u in used)
+    to_buy = add_waste(used, stock.waste)
     return LumberOrder(
         boards=tuple(boards), used=used, to_buy=to_buy, waste=stock.waste,
         lower_bound_board_feet=bound, stave_volume=stave_volume,

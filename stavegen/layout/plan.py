@@ -3,13 +3,12 @@
 from __future__ import annotations
 
 from dataclasses import dataclass
-from typing import Any
-
 from ..errors import InputError
 from ..model.spar import Spar
 from ..section.properties import Section
 from ..stations.evaluate import SectionCache
 from ..stations.grid import station_marks
+from .lumber import LumberOrder, Piece, order_lumber
 from .machining import CutterSettings, cutter_settings
 from .plugs import PlugBlock, plug_blocks
 from .scarfs import ScarfPlan, ScarfRules, place_scarfs, segment_bounds
@@ -48,7 +47,12 @@ class Layout:
     staves: tuple[tuple[Segment, ...], ...]
     plugs: tuple[PlugBlock, ...]
     machining: Machining
-    lumber: Any = None
+    lumber: LumberOrder
+
+    @property
+    def board_of(self) -> dict[str, str]:
+        """Board id (e.g. "B3") of every segment label."""
+        return {cut.piece.label: board.id for board in self.lumber.boards for rip in board.rips for cut in rip.cuts}
 
     @property
     def widest_section(self) -> Section:
@@ -98,8 +102,11 @@ def lay_out(spar: Spar, cache: SectionCache | None = None) -> Layout:
             make_segment(plan, k, i + 1, a, b, scarf_at_start=i > 0, scarf_at_end=i < last,
                          scarf_length=rules.length)
             for i, (a, b) in enumerate(stave_bounds)))
+    pieces = [Piece(label=seg.label, stave=seg.stave, segment=seg.index, length=seg.length,
+                    width=seg.rough_width, volume=seg.volume) for stave in staves for seg in stave]
     return Layout(plan=plan, scarfs=scarfs, staves=tuple(staves), plugs=plug_blocks(spar, cache),
-                  machining=machining_at_extremes(spar, plan, cache))
+                  machining=machining_at_extremes(spar, plan, cache),
+                  lumber=order_lumber(pieces, spar.stock, units=spar.units))
 
 
 def machining_at_extremes(spar: Spar, plan: StavePlan, cache: SectionCache) -> Machining:

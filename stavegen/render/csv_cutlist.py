@@ -30,7 +30,7 @@ def cutlist_rows(design: Design) -> list[list[str]]:
               "from_mm", "to_mm", "length_mm", "rip_width_mm"]
     rows = [header]
     plan = layout.plan
-    boards = layout.lumber.board_of if layout.lumber is not None else {}
+    boards = layout.board_of
     for seg in layout.segments:
         rows.append([
             str(seg.stave), str(seg.index), seg.label, pos(seg.start), pos(seg.end), pos(seg.length),

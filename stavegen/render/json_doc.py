@@ -4,12 +4,15 @@ from __future__ import annotations
 
 import json
 import math
+
+import numpy as np
 from typing import Any
 
 from .. import __version__
 from ..cautions import CAUTIONS
 from ..checks.ratios import StationCheck
 from ..model.woods import Wood
+from ..layout.lumber import BoardSize, LumberOrder
 from ..layout.plan import Layout, Machining, StationSettings
 from ..layout.segments import Segment
 from ..pipeline import Design
@@ -138,7 +141,7 @@ def _segment(seg: Segment, board: str | None) -> dict[str, Any]:
 
 def _layout(layout: Layout) -> dict[str, Any]:
     plan = layout.plan
-    boards = layout.lumber.board_of if layout.lumber is not None else {}
+    boards = layout.board_of
     return {
         "stave_plan": {
             "taper": plan.taper,
@@ -161,6 +164,37 @@ def _layout(layout: Layout) -> dict[str, Any]:
                    "head_across_corners_mm": p.head.across_corners, "volume_mm3": p.volume, "mass_kg": p.mass}
                   for p in layout.plugs],
         "machining": _machining(layout.machining),
+        "stock": _stock(layout.lumber),
+    }
+
+
+def _size(size: BoardSize) -> dict[str, Any]:
+    return {"thickness_mm": size.thickness, "width_mm": size.width, "length_mm": size.length,
+            "nominal_thickness_mm": size.nominal_thickness, "nominal_width_mm": size.nominal_width,
+            "board_feet_each": size.board_feet}
+
+
+def _stock(order: LumberOrder) -> dict[str, Any]:
+    """Boards to buy (waste added) under the promised keys; the boards the layout uses and their cuts beside."""
+    return {
+        "boards": [dict(_size(c.size), count=c.count) for c in order.to_buy],
+        "board_feet": order.to_buy_board_feet,
+        "volume_m3": order.to_buy_volume_m3,
+        "yield": order.yield_ratio,
+        "waste": order.waste,
+        "used": [dict(_size(c.size), count=c.count) for c in order.used],
+        "used_board_feet": order.board_feet,
+        "used_volume_m3": order.volume_m3,
+        "lower_bound_board_feet": order.lower_bound_board_feet,
+        "bound_is_lp": order.bound_is_lp,
+        "proven_optimal": order.proven_optimal,
+        "method": order.method,
+        "stave_volume_mm3": order.stave_volume,
+        "cutting": [{"board": b.id, **_size(b.size),
+                     "rips": [{"offset_mm": r.offset, "width_mm": r.width,
+                               "pieces": [{"label": c.piece.label, "offset_mm": c.offset, "length_mm": c.piece.length}
+                                          for c in r.cuts]} for r in b.rips]} for b in order.boards],
+        "notes": list(order.notes),
     }
 
 
@@ -204,7 +238,9 @@ def _machining(m: Machining) -> dict[str, Any]:
 
 
 def _clean(value: Any) -> Any:
-    """JSON has no NaN or infinity: write them as null."""
+    """JSON has no NaN or infinity: write them as null; numpy scalars become plain numbers."""
+    if isinstance(value, np.generic):
+        value = value.item()
     if isinstance(value, float) and not math.isfinite(value):
         return None
     if isinstance(value, dict):
