@@ -126,6 +126,42 @@ def section(
 
 @app.command()
 @reports_errors
+def size(
+    spar: Path = typer.Argument(..., help="The spar file (TOML).", show_default=False),
+    write: Optional[Path] = typer.Option(None, "--write", help="Write the chosen spar, solved values filled in, "
+                                                                "to this file (comments kept).", show_default=False),
+) -> None:
+    """Compare every stave count (4 to 24) and show why one is chosen; solve the wall where it is "auto"."""
+    from dataclasses import replace as _replace
+
+    from .model.loader import load_spar
+    from .model.rewrite import with_solved_values
+    from .outputs import OutputSet
+    from .render.console import candidate_notes, candidates_table
+    from .sizing.count import compare_stave_counts
+
+    model = load_spar(spar)
+    comparison = compare_stave_counts(_replace(model, hollow=_replace(model.hollow, staves="auto")))
+    console = _console()
+    console.print(candidates_table(model, comparison))
+    for line in candidate_notes(comparison):
+        console.print(f"[dim]{line}[/]")
+    console.print(f"[bold]choice:[/] {comparison.reason}")
+    if model.hollow.staves != "auto" and model.hollow.staves != comparison.chosen.staves:
+        console.print(f"The file asks for {model.hollow.staves} staves; the comparison prefers "
+                      f"{comparison.chosen.staves}.")
+    if write is not None:
+        chosen = comparison.chosen.spar
+        original = model if model.hollow.staves == "auto" else _replace(model, hollow=_replace(model.hollow, staves="auto"))
+        text = with_solved_values(spar.read_text(encoding="utf-8"), original, chosen)
+        with OutputSet(write.parent if str(write.parent) else Path(".")) as out:
+            out.add_text(write.name, text)
+            out.commit()
+        console.print(f"wrote {write}")
+
+
+@app.command()
+@reports_errors
 def woods(
     units: str = typer.Option("in", "--units", help='"in" for psi and lb/ft³, "mm" for MPa and kg/m³.'),
 ) -> None:

@@ -29,10 +29,8 @@ class Design:
 
 
 def resolve(spar: Spar) -> tuple[Spar, tuple[str, ...]]:
-    """Solve what the file leaves ``"auto"`` (wall or diameters); return the spar and one line per solved value.
-
-    The stave count cannot be solved yet: ``hollow.staves = "auto"`` is an InputError.
-    """
+    """Solve what the file leaves ``"auto"`` (staves, wall or diameters); return the spar and one line per
+    solved value."""
     if spar.resolved:
         return spar, ()
     from .sizing import size_spar

@@ -81,8 +81,8 @@ def scarf_rules(spar: Spar, plan: StavePlan) -> ScarfRules:
     )
 
 
-def lay_out(spar: Spar, cache: SectionCache | None = None) -> Layout:
-    """The shop plan for a resolved spar with a [stock] table."""
+def lay_out(spar: Spar, cache: SectionCache | None = None, lumber_budget: float = 5.0) -> Layout:
+    """The shop plan for a resolved spar with a [stock] table; the lumber solve gets ``lumber_budget`` s."""
     if spar.stock is None:
         raise InputError("missing: build needs the boards the staves are ripped from "
                          "(thickness, widths, lengths)", "stock", spar.source)
@@ -106,7 +106,7 @@ def lay_out(spar: Spar, cache: SectionCache | None = None) -> Layout:
                     width=seg.rough_width, volume=seg.volume) for stave in staves for seg in stave]
     return Layout(plan=plan, scarfs=scarfs, staves=tuple(staves), plugs=plug_blocks(spar, cache),
                   machining=machining_at_extremes(spar, plan, cache),
-                  lumber=order_lumber(pieces, spar.stock, units=spar.units))
+                  lumber=order_lumber(pieces, spar.stock, units=spar.units, time_budget=lumber_budget))
 
 
 def machining_at_extremes(spar: Spar, plan: StavePlan, cache: SectionCache) -> Machining:

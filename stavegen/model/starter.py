@@ -17,7 +17,7 @@ stations = [[0, 3.5], ["5 ft", 3.5], ["12 ft", 3.0], ["16 ft", 2.0]]   # [from h
 
 [hollow]                          # the spar you will build
 wood = "douglas-fir-coast"
-staves = 8                        # 4 to 24
+staves = 8                        # 4 to 24 (5 or more for a birdsmouth), or "auto"
 joint = "birdsmouth-flush"        # birdsmouth-flush | birdsmouth-centered | birdsmouth-custom | bevel
 wall = "11/16"                    # stave thickness, or [[from heel, thickness], ...], or "auto":
                                   # the least constant wall that meets the target ("auto-tapered":
@@ -70,7 +70,7 @@ stations = [[0, 90], [1500, 90], [3700, 76], [4900, 50]]   # [from heel, diamete
 
 [hollow]                          # the spar you will build
 wood = "douglas-fir-coast"
-staves = 8                        # 4 to 24
+staves = 8                        # 4 to 24 (5 or more for a birdsmouth), or "auto"
 joint = "birdsmouth-flush"        # birdsmouth-flush | birdsmouth-centered | birdsmouth-custom | bevel
 wall = 18                         # stave thickness, or [[from heel, thickness], ...], or "auto":
                                   # the least constant wall that meets the target ("auto-tapered":

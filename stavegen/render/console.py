@@ -16,7 +16,7 @@ from ..model.spar import Spar
 from ..model.woods import Wood
 from ..pipeline import Design
 from ..section.properties import Section
-from ..units import KG_M3_PER_LB_FT3, format_force, format_length, format_mass, format_tape, stress_in
+from ..units import KG_M3_PER_LB_FT3, format_force, format_length_up, format_length, format_mass, format_tape, stress_in
 
 
 def length(spar: Spar, mm: float | None, tape: bool = False) -> str:
@@ -244,3 +244,43 @@ def assessment_summary(result: Assessment) -> str:
     """One line for logs and the build's closing summary."""
     w = result.weakest_stiffness
     return f"EI ratio ≥ {w.ei_ratio:.3f}, strength ratio ≥ {result.weakest_strength.strength_ratio:.3f}"
+
+
+def candidates_table(spar: Spar, comparison) -> Table:
+    """The stave counts side by side, the chosen one marked (sizing.count.Comparison)."""
+    imperial = spar.units == "in"
+    table = Table(title="Stave counts compared", header_style="bold", title_justify="left", box=box.SIMPLE_HEAD,
+                  pad_edge=False)
+    heads = ("\nN", "least\nEI", "\nwall", "widest\nstave", "least\nw / t", "rips per\nboard",
+             "board ft\nto buy", "planed\noff", "glue\narea", "\ncuts", "V-bit\n1 pass", "")
+    for head in heads:
+        table.add_column(head, justify="right", no_wrap=True)
+    for c in comparison.candidates:
+        chosen = c is comparison.chosen
+        if c.refused:
+            table.add_row(str(c.staves), *["—"] * 10, c.verdict(), style="dim")
+            continue
+        wall = c.spar.hollow.wall
+        up = format_length_up
+        wall_text = (up(wall.largest, spar.units) if wall.is_constant
+                     else f"{up(wall.smallest, spar.units)}–{up(wall.largest, spar.units)}")
+        volume = (f"{c.planed_away / 16387.064:,.0f} in³" if imperial else f"{c.planed_away / 1e6:,.2f} L")
+        glue = (f"{c.glue_area / 92903.04:,.1f} ft²" if imperial else f"{c.glue_area / 1e6:,.2f} m²")
+        laid_out = c.fits_stock
+        table.add_row(
+            str(c.staves), f"{c.assessment.weakest_stiffness.ei_ratio:.3f}", wall_text, length(spar, c.widest),
+            f"{c.width_over_thickness[0]:.2f}", str(c.rips_per_board) if laid_out else "—",
+            f"{c.board_feet:.1f}" if laid_out else "—", volume, glue, str(c.cuts) if laid_out else "—",
+            "yes" if c.v_bit_one_pass else "no", "◀ chosen" if chosen else c.verdict(),
+            style="bold green" if chosen else (None if c.eligible else "dim"),
+        )
+    return table
+
+
+def candidate_notes(comparison) -> list[str]:
+    """One line per reason a stave count was ruled out, with the counts it rules out."""
+    found: dict[str, list[int]] = {}
+    for c in comparison.candidates:
+        if not c.eligible:
+            found.setdefault(c.why_not(), []).append(c.staves)
+    return [f"{', '.join(map(str, counts))} staves: {why}" for why, counts in found.items()]

@@ -75,8 +75,10 @@ def size_spar(spar: Spar) -> tuple[Spar, tuple[str, ...]]:
     """The spar with its ``auto`` wall or diameters solved, and one line per solved value."""
     h = spar.hollow
     if h.staves == AUTO:
-        raise InputError('choosing the number of staves ("auto") is not available yet; give a whole number '
-                         "from 4 to 24", "hollow.staves")
+        from .count import compare_stave_counts
+
+        comparison = compare_stave_counts(spar)
+        return comparison.chosen.spar, comparison.chosen.solved + (f"staves chosen: {comparison.reason}",)
     if not isinstance(h.wall, Profile) and not isinstance(h.diameter, Profile):
         raise InputError(f'wall = "{h.wall}" and stations = "auto" leave two unknowns; give the wall to solve '
                          "the diameters, or the diameters (or none: the plan's) to solve the wall",
