@@ -12,6 +12,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
+from functools import cached_property
 
 import numpy as np
 
@@ -64,8 +65,14 @@ class StavePlan:
         """True length along the face between heel and head of the finished spar (mm)."""
         return self.s_at(self.spar_length) - self.s_at(0.0)
 
+    @cached_property
+    def _columns(self) -> dict[str, np.ndarray]:
+        """The stations' figures as arrays, built once (the plan is frozen)."""
+        names = ("z", "s", "width", "thickness")
+        return {n: np.array([getattr(st, n) for st in self.stations]) for n in names}
+
     def _column(self, name: str) -> np.ndarray:
-        return np.array([getattr(st, name) for st in self.stations])
+        return self._columns[name]
 
     def s_at(self, z: float) -> float:
         """Distance along the face (mm) from the stave's heel end to position z."""
@@ -96,7 +103,9 @@ class StavePlan:
 
     def between(self, z0: float, z1: float) -> list[StaveStation]:
         """Stations strictly between z0 and z1."""
-        return [st for st in self.stations if z0 < st.z < z1]
+        z = self._columns["z"]
+        lo, hi = np.searchsorted(z, z0, side="right"), np.searchsorted(z, z1, side="left")
+        return list(self.stations[lo:hi])
 
     def edges_at(self, z: float) -> tuple[float, float]:
         """(notch edge, square edge) across the face at z, mm: the straight edge at 0, or centred."""
