@@ -71,7 +71,7 @@ stations = [[0, 230], [2000, 250], [8000, 250], [{length}, 140]]
 wood = "douglas-fir-coast"
 staves = {staves}
 joint = "birdsmouth-flush"
-wall = [[0, 42], [8000, 38], [{length}, 30]]
+wall = [[0, 46], [8000, 46], [{length}, 32]]
 
 [[hollow.plug]]
 from = 0
@@ -82,7 +82,7 @@ from = {length - 600}
 to = {length}
 
 [stock]
-thickness = 45
+thickness = 48
 widths = [95, 145, 195]
 lengths = [3000, 3600, 4200, 4800, 6000]
 kerf = 3
