@@ -11,12 +11,13 @@ from rich.text import Text
 from ..cautions import CAUTIONS, HEADLINE
 from ..checks.assess import Assessment
 from ..checks.ratios import StationCheck
-from ..layout.machining import CutterSettings, Lean, SawPass
+from ..layout.machining import CutterSettings
 from ..model.spar import Spar
 from ..model.woods import Wood
 from ..pipeline import Design
 from ..section.properties import Section
 from ..units import KG_M3_PER_LB_FT3, format_force, format_length, format_mass, format_tape, stress_in
+from .wording import FENCE_NOTE, GUARD_NOTE, cutter_rows
 
 
 def length(spar: Spar, mm: float | None, tape: bool = False) -> str:
@@ -160,65 +161,18 @@ def section_table(spar: Spar, check: StationCheck) -> Table:
     return table
 
 
-def _degrees(angle: float) -> str:
-    return f"{angle:.2f}°"
-
-
-def _bearing(spar: Spar, mm: float) -> str:
-    return length(spar, mm) if mm > 0 else "on a corner"
-
-
-def _saw_rows(spar: Spar, p: SawPass) -> list[tuple[str, str]]:
-    lean = "" if p.lean is Lean.UPRIGHT else f", top leaning {p.lean}"
-    end = "through the stave" if p.through else "to the apex"
-    return [
-        ("stave down on the table", str(p.on_table)),
-        ("stave against the fence", str(p.on_fence)),
-        ("blade tilt from vertical", _degrees(p.tilt) + lean),
-        ("fence to blade at the table", length(spar, p.fence_distance)),
-        (f"cut along the blade, {end}", length(spar, p.depth_along_blade)),
-        ("top of the cut above the table", length(spar, p.height)),
-        ("stave bearing behind the blade: table / fence",
-         f"{_bearing(spar, p.table_contact)} / {_bearing(spar, p.fence_contact)}"),
-    ]
-
-
 def machining_table(spar: Spar, settings: CutterSettings) -> Table:
     """Table-saw passes and the router set-up for one section, lengths in the spar's units."""
     table = Table(title="Cutter settings", show_header=False, title_justify="left",
-                  caption="Fence to blade: from the fence to where the blade's fence-side face meets the table. "
-                          "Use push sticks, featherboards and the guard on narrow staves.",
-                  caption_justify="left")
+                  caption=f"{FENCE_NOTE} {GUARD_NOTE}", caption_justify="left")
     table.add_column("", style="bold")
     table.add_column("", justify="right")
-    if settings.v_face_angles:
-        inner, outer = settings.v_face_angles
-        table.add_row("V faces to the broad face", f"inner {_degrees(inner)}, outer {_degrees(outer)}")
-        table.add_row("notch depth / apex above the inner face",
-                      f"{length(spar, settings.notch_depth)} / {length(spar, settings.apex_height)}")
-    else:
-        table.add_row("edge bevel off square", _degrees(settings.bevel))
-        table.add_row("rip to width: fence to blade", length(spar, settings.rip_fence_distance))
-    for k, p in enumerate(settings.saw, start=1):
-        table.add_section()
-        table.add_row(f"table saw, pass {k}", f"makes the {p.makes}", style="cyan")
-        for label, value in _saw_rows(spar, p):
-            table.add_row(label, value)
-    r = settings.router
-    if r is not None:
-        table.add_section()
-        table.add_row("router table, 90° V-bit", "whole V in one pass", style="cyan")
-        ride = f"{r.on_table}, {r.on_fence} against the fence"
-        if r.one_pass_flat:
-            ride += ", flat on the table"
+    for row in cutter_rows(spar.units, settings):
+        if row.heading:
+            table.add_section()
+            table.add_row(row.label, row.value, style="cyan")
         else:
-            ride += f", on a {_degrees(r.wedge_angle)} wedge, high side {r.wedge_high_side}"
-        table.add_row("stave rides on", ride)
-        table.add_row("bit tip above the riding surface", length(spar, r.bit_height))
-        table.add_row("fence to bit tip", length(spar, r.fence_to_tip))
-        table.add_row("bit at least this wide", length(spar, r.least_bit_diameter))
-        table.add_row("notched edge left to ride on",
-                      length(spar, r.edge_left) if r.edge_left > 0 else "none: support the outfeed side")
+            table.add_row(row.label, row.value)
     return table
 
 
