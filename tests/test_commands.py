@@ -82,6 +82,11 @@ def test_init_writes_a_valid_spar_that_checks(run, tmp_path, units):
     assert run(["check", path]).exit_code in (0, 1)
     again = run(["init", path])
     assert again.exit_code == 2 and "already exists" in again.stderr
+    # The templates-on-boards option is in the file, off; switched on, it loads on.
+    text = path.read_text()
+    assert not spar.output.templates_on_boards and "templates_on_boards = false" in text
+    path.write_text(text.replace("templates_on_boards = false", "templates_on_boards = true"))
+    assert load_spar(path).output.templates_on_boards
 
 
 def test_build_writes_json(run, tmp_path):
