@@ -17,7 +17,7 @@ from ..model.woods import Wood
 from ..pipeline import Design
 from ..section.properties import Section
 from ..units import KG_M3_PER_LB_FT3, format_force, format_length, format_mass, format_tape, stress_in
-from .wording import FENCE_NOTE, GUARD_NOTE, cutter_rows
+from .wording import FENCE_NOTE, GUARD_NOTE, cutter_rows, order_words
 
 
 def length(spar: Spar, mm: float | None, tape: bool = False) -> str:
@@ -107,6 +107,43 @@ def verdict(design: Design) -> Text:
         text = Text("FAIL ", style="bold red")
         text.append(" ".join(r.shortfalls()) + ".")
     return text
+
+
+def print_build_summary(console: Console, design: Design, written: list) -> None:
+    """The few lines a build ends with: pass or fail, boards to buy, scarfs, weight saved, files written."""
+    spar, r, lay = design.spar, design.assessment, design.layout
+    for line in design.solved:
+        console.print(f"[cyan]solved:[/] {line}")
+    for line in design.warnings:
+        console.print(Text("warning: ", style="bold yellow") + Text(line))
+    w = r.weakest_stiffness
+    if r.passed:
+        head = Text("PASS ", style="bold green")
+        head.append(f"the hollow spar meets its target at every station (least EI ratio {w.ei_ratio:.3f}, "
+                    f"target {r.ei_target:.3f})")
+    else:
+        head = Text("FAIL ", style="bold red")
+        head.append(" ".join(r.shortfalls()) + ". Do not build it as drawn.")
+    console.print(head)
+    table = Table(show_header=False, box=None, pad_edge=False, padding=(0, 2, 0, 2))
+    table.add_column("", style="bold", no_wrap=True)
+    table.add_column("")
+    if lay is not None and lay.lumber is not None and lay.lumber.boards:
+        table.add_row("boards to buy", order_words(lay.lumber, spar.units))
+    if lay is not None:
+        table.add_row("scarfs", f"{lay.scarfs.count}, each {length(spar, lay.scarfs.length)} long"
+                      if lay.scarfs.count else "none: every stave is one piece")
+    saved = r.plan.mass.mass - r.hollow.mass.mass
+    table.add_row("weight saved", f"{format_mass(saved, spar.units)} ({format_mass(r.hollow.mass.mass, spar.units)} "
+                                  f"hollow against {format_mass(r.plan.mass.mass, spar.units)} solid)"
+                  if saved >= 0 else f"none: {format_mass(-saved, spar.units)} heavier than the solid spar")
+    if written:
+        names = [p.name for p in written]
+        stem = spar.slug
+        short = [names[0]] + [n[len(stem):] if n.startswith(stem + "-") else n for n in names[1:]]
+        table.add_row("written", f"{len(names)} files into {written[0].parent}: {', '.join(short)}")
+    console.print(table)
+    console.print(Text("Before cutting, read the safety notes on page 1 of the report.", style="bold red"))
 
 
 def print_check(console: Console, design: Design) -> None:
