@@ -687,14 +687,14 @@ def plugs(r: Report) -> list:
     units = r.spar.units
     n = r.spar.hollow.staves
     u = " (mm)" if units == "mm" else ""
-    rows = [["plug", f"from heel{u}", f"to{u}", f"length{u}", "wood", f"heel end\nacross\nflats{u}",
+    rows = [["plug", f"from heel\n{u.strip()}".strip(), f"to{u}", f"length{u}", "wood", f"heel end\nacross\nflats{u}",
              f"heel end\nacross\ncorners{u}", f"head end\nacross\nflats{u}", f"head end\nacross\ncorners{u}",
              "weight"]]
     for p in lay.plugs:
         rows.append([str(p.index), r.cell(p.plug.start, True), r.cell(p.plug.end, True), r.cell(p.length, True),
                      p.plug.wood.name, r.cell(p.heel.across_flats), r.cell(p.heel.across_corners),
                      r.cell(p.head.across_flats), r.cell(p.head.across_corners), format_mass(p.mass, units)])
-    widths = [9, 18, 16, 18, 26, 20, 20, 20, 20, 13]
+    widths = [10, 18, 16, 18, 26, 20, 20, 20, 20, 13]
     scale = r.width / (sum(widths) * MM)
     table = _table([[plain(c) for c in row] for row in rows], widths=[w * MM * scale for w in widths])
     table.setStyle(TableStyle([("ALIGN", (4, 0), (4, -1), "LEFT")]))
