@@ -2,8 +2,9 @@
 
     python docs/make_images.py
 
-Needs stavegen installed (``pip install -e .``) and pdftoppm (poppler-utils).
-Writes docs/images/report-page1.png and docs/images/fullsize-page.png.
+Needs stavegen installed (``pip install -e .``) and pdftoppm and pdftotext (poppler-utils).
+Writes docs/images/report-page1.png, docs/images/report-boards.png (the page where the board
+order starts) and docs/images/fullsize-page.png.
 """
 
 from __future__ import annotations
@@ -32,9 +33,19 @@ def render(pdf: Path, page: int, target: Path) -> None:
                     str(pdf), str(target.with_suffix(""))], check=True)
 
 
+def page_with(pdf: Path, words: str) -> int:
+    """The first page of ``pdf`` (from 1) whose text has a line that is exactly ``words``."""
+    text = subprocess.run(["pdftotext", "-layout", str(pdf), "-"], check=True, capture_output=True,
+                          text=True).stdout
+    for number, page in enumerate(text.split("\f"), start=1):
+        if any(line.strip() == words for line in page.splitlines()):
+            return number
+    raise SystemExit(f"no page of {pdf} has the heading {words!r}")
+
+
 def main() -> int:
-    if shutil.which("pdftoppm") is None:
-        sys.stderr.write("pdftoppm (poppler-utils) is needed to render the pages\n")
+    if shutil.which("pdftoppm") is None or shutil.which("pdftotext") is None:
+        sys.stderr.write("pdftoppm and pdftotext (poppler-utils) are needed to render the pages\n")
         return 1
     IMAGES.mkdir(parents=True, exist_ok=True)
     d = design(load_spar(SPAR), layout=True)
@@ -43,8 +54,9 @@ def main() -> int:
         write_report(d, report)
         write_fullsize(d, full)
         render(report, 1, IMAGES / "report-page1.png")
+        render(report, page_with(report, "Board order"), IMAGES / "report-boards.png")
         render(full, FULLSIZE_PAGE, IMAGES / "fullsize-page.png")
-    for name in ("report-page1.png", "fullsize-page.png"):
+    for name in ("report-page1.png", "report-boards.png", "fullsize-page.png"):
         print(IMAGES / name)
     return 0
 

@@ -1,15 +1,18 @@
-"""Regenerate the README's preview of the DXF template sheet from the bundled example spar.
+"""Regenerate the README's previews of the DXF template sheet from the bundled example spar.
 
-    python docs/make_previews.py        # writes docs/images/templates-preview.png
+    python docs/make_previews.py        # writes docs/images/templates-preview.png and templates-on-boards.png
 
 Needs the docs extra (matplotlib): ``pip install -e ".[docs]"``. The picture is
 drawn from the DXF file stavegen writes, by ezdxf's drawing add-on: the whole
 sheet on top, then three details at a readable scale (the heel end of stave
-1, the scarf between its two segments, and the end views).
+1, the scarf between its two segments, and the end views); and the same spar with
+``output.templates_on_boards = true``: the boards of the lumber order with the
+segments on them, and the left end of the first board.
 """
 
 from __future__ import annotations
 
+import dataclasses
 import sys
 import tempfile
 from pathlib import Path
@@ -33,6 +36,7 @@ from stavegen.render.dxf_templates import CUT, write_templates  # noqa: E402
 
 SAMPLE = ROOT / "samples" / "catboat-mast.toml"
 OUT = ROOT / "docs" / "images" / "templates-preview.png"
+BOARDS_OUT = ROOT / "docs" / "images" / "templates-on-boards.png"
 CONFIG = Configuration(background_policy=BackgroundPolicy.WHITE, color_policy=ColorPolicy.COLOR)
 
 
@@ -113,5 +117,45 @@ def main() -> Path:
     return OUT
 
 
+def boards_preview() -> Path:
+    """The sample's sheet with templates on boards: the whole sheet, then the heel end of board B1."""
+    spar = load_spar(SAMPLE)
+    spar = dataclasses.replace(spar, output=dataclasses.replace(spar.output, templates_on_boards=True))
+    result = design(spar, layout=True)
+    with tempfile.TemporaryDirectory() as tmp:
+        path = Path(tmp) / "templates.dxf"
+        write_templates(result, path)
+        doc = ezdxf.readfile(path)
+    boards = sorted((bounds(e) for e in doc.modelspace().query("LWPOLYLINE") if e.dxf.layer == "BOARD-OUTLINE"),
+                    key=lambda b: (-b[3], b[0]))
+    first = boards[0]  # B1, the top board
+    ext_min, ext_max = doc.header["$EXTMIN"], doc.header["$EXTMAX"]
+    whole = ((ext_min[0], ext_max[0]), (ext_min[1], ext_max[1]))
+    span = 40.0 if result.spar.units == "in" else 1000.0
+    pad = (first[3] - first[1]) * 0.15
+    detail = ((first[0] - pad, first[0] + span), (first[1] - pad, first[3] + 2.5 * pad))
+    panels = [(whole, 16.0, "Templates on boards: each board of the order at true size, its segments where the "
+                            "order cuts them"),
+              (detail, 16.0, "Left end of board B1: the board outline (grey), rip lines, segment outlines to cut")]
+
+    def height(panel) -> float:
+        (x0, x1), (y0, y1) = panel[0]
+        return panel[1] * (y1 - y0) / (x1 - x0)
+
+    title, gap = 0.35, 0.15
+    fig_w = 16.6
+    fig_h = sum(height(p) + title + gap for p in panels) + gap
+    fig = plt.figure(figsize=(fig_w, fig_h), dpi=150)
+    top = fig_h - gap
+    for window, width, text in panels:
+        h = height((window, width))
+        draw(doc, fig, (0.3 / fig_w, (top - title - h) / fig_h, width / fig_w, h / fig_h), text, window)
+        top -= h + title + gap
+    fig.savefig(BOARDS_OUT)
+    plt.close(fig)
+    return BOARDS_OUT
+
+
 if __name__ == "__main__":
     print(main())
+    print(boards_preview())

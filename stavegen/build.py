@@ -3,14 +3,14 @@
 from __future__ import annotations
 
 from pathlib import Path
+from typing import Callable
 
 from rich.console import Console
 
 from .model.loader import load_spar
 from .outputs import OutputSet
 from .pipeline import Design, design
-from .render.console import verdict
-from .units import format_mass
+from .render.console import print_build_summary
 
 
 def output_names(slug: str) -> dict[str, str]:
@@ -19,40 +19,38 @@ def output_names(slug: str) -> dict[str, str]:
             "report": f"{slug}-report.pdf", "fullsize": f"{slug}-fullsize.pdf"}
 
 
-def write_outputs(result: Design, folder: Path) -> list[Path]:
-    """Render every output into ``folder`` under temporary names, then rename them all."""
+def write_outputs(result: Design, folder: Path, step: Callable[[str], None] | None = None) -> list[Path]:
+    """Render every output into ``folder`` under temporary names, then rename them all.
+
+    ``step``, if given, is told the name of each file as its writing starts.
+    """
     from .render import dxf_templates
     from .render.csv_cutlist import to_csv
     from .render.json_doc import to_json
     from .render.pdf_fullsize import write_fullsize
     from .render.pdf_report import write_report
 
+    tell = step or (lambda name: None)
     names = output_names(result.spar.slug)
     with OutputSet(folder) as out:
+        tell(names["json"])
         out.add_text(names["json"], to_json(result))
+        tell(names["csv"])
         out.add_text(names["csv"], to_csv(result))
+        tell(names["report"])
         out.add(names["report"], lambda p: write_report(result, p))
+        tell(names["fullsize"])
         out.add(names["fullsize"], lambda p: write_fullsize(result, p))
+        tell(names["templates"])
         out.add(names["templates"], lambda p: dxf_templates.write_templates(result, p))
         return out.commit()
 
 
 def run_build(path: Path, folder: Path, console: Console) -> Design:
-    """Check, lay out and write; prints progress and a short summary."""
-    with console.status("reading the spar file"):
+    """Check, lay out and write, showing each step as it runs; ends with a short summary."""
+    with console.status("reading the spar file") as status:
         spar = load_spar(path)
-    with console.status("checking sections against the plan and laying out the staves"):
-        result = design(spar, layout=True)
-    with console.status("writing outputs"):
-        written = write_outputs(result, folder)
-    r = result.assessment
-    for line in result.solved:
-        console.print(f"[cyan]solved:[/] {line}")
-    console.print(verdict(result))
-    console.print(f"weight: {format_mass(r.hollow.mass.mass, spar.units)} hollow against "
-                  f"{format_mass(r.plan.mass.mass, spar.units)} solid")
-    for line in result.warnings:
-        console.print(f"[bold yellow]warning:[/] {line}")
-    for p in written:
-        console.print(f"wrote {p}")
+        result = design(spar, layout=True, step=status.update)
+        written = write_outputs(result, folder, step=lambda name: status.update(f"writing {name}"))
+    print_build_summary(console, result, written)
     return result

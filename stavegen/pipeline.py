@@ -4,7 +4,7 @@ from __future__ import annotations
 
 from dataclasses import dataclass, field
 from pathlib import Path
-from typing import Any
+from typing import Any, Callable
 
 from .checks.advice import warnings_for
 from .checks.assess import Assessment, assess
@@ -41,16 +41,24 @@ def resolve(spar: Spar) -> tuple[Spar, tuple[str, ...]]:
         raise exc.located(spar.source)
 
 
-def design(spar: Spar, layout: bool = False) -> Design:
-    """Check the spar (solving what is ``auto``); with ``layout``, also make the shop plan."""
+def design(spar: Spar, layout: bool = False, step: Callable[[str], None] | None = None) -> Design:
+    """Check the spar (solving what is ``auto``); with ``layout``, also make the shop plan.
+
+    ``step``, if given, is told what is being worked out as each step starts (for a progress display).
+    """
+    tell = step or (lambda words: None)
     try:
+        if not spar.resolved:
+            tell("solving what the spar file leaves to stavegen")
         spar, solved = resolve(spar)
+        tell("checking the sections against the plan")
         result = assess(spar)
         shop = None
         if layout:
             from .layout.plan import lay_out
 
-            shop = lay_out(spar)
+            tell("laying out the staves, scarfs and plugs")
+            shop = lay_out(spar, step=tell)
     except InputError as exc:
         raise exc.located(spar.source)
     return Design(spar=spar, assessment=result, warnings=tuple(warnings_for(result)), layout=shop, solved=solved)

@@ -6,6 +6,7 @@ import os
 import pytest
 
 from stavegen.model.loader import load_spar
+from stavegen.units import format_mass
 
 from conftest import SAMPLES
 
@@ -82,6 +83,11 @@ def test_init_writes_a_valid_spar_that_checks(run, tmp_path, units):
     assert run(["check", path]).exit_code in (0, 1)
     again = run(["init", path])
     assert again.exit_code == 2 and "already exists" in again.stderr
+    # The templates-on-boards option is in the file, off; switched on, it loads on.
+    text = path.read_text()
+    assert not spar.output.templates_on_boards and "templates_on_boards = false" in text
+    path.write_text(text.replace("templates_on_boards = false", "templates_on_boards = true"))
+    assert load_spar(path).output.templates_on_boards
 
 
 def test_build_writes_json(run, tmp_path):
@@ -105,3 +111,41 @@ def test_build_into_an_unwritable_place(run, tmp_path):
     result = run(["build", SAMPLES / "catboat-mast.toml", "-o", blocker / "out"])
     assert result.exit_code == 2
     assert "-o/--out" in result.stderr and "\n" not in result.stderr.strip()
+
+
+def test_build_ends_with_a_short_summary(run, tmp_path):
+    """Pass or fail, boards to buy and board feet, scarfs, weight saved: the JSON's figures, a few lines."""
+    for sample, word in (("catboat-mast.toml", "PASS"), ("skiff-boom-too-light.toml", "FAIL")):
+        out = tmp_path / sample
+        result = run(["build", SAMPLES / sample, "-o", out])
+        assert result.exit_code == (0 if word == "PASS" else 1), result.output
+        doc = json.loads(next(out.glob("*.json")).read_text())
+        units = doc["spar"]["units"]
+        text = " ".join(result.stdout.split())
+        assert word in text and ("FAIL" if word == "PASS" else "PASS") not in text
+        stock = doc["stock"]
+        n = sum(b["count"] for b in stock["boards"])
+        assert f"{n} boards, {stock['board_feet']:.1f} board feet" in text
+        for b in stock["boards"]:
+            assert f"{b['count']} of " in text
+        scarfs = f"scarfs {len(doc['scarfs'])}, each" if doc["scarfs"] else "scarfs none"
+        assert scarfs in text
+        assert f"weight saved {format_mass(doc['mass']['saved_kg'], units)}" in text
+        assert f"{len(list(out.iterdir()))} files into" in text
+        assert "safety notes" in text
+        assert len(result.stdout.strip().splitlines()) <= 12
+
+
+def test_build_steps_are_reported_in_order(tmp_path):
+    """The progress display is told each step, and each file as it is written (the files the folder then holds)."""
+    from stavegen.build import write_outputs
+    from stavegen.pipeline import design
+
+    steps: list[str] = []
+    result = design(load_spar(SAMPLES / "catboat-mast.toml"), layout=True, step=steps.append)
+    wanted = ["checking", "laying out", "ordering lumber"]
+    at = [next(i for i, s in enumerate(steps) if s.startswith(w)) for w in wanted]
+    assert at == sorted(at)
+    names: list[str] = []
+    write_outputs(result, tmp_path, step=names.append)
+    assert sorted(names) == sorted(p.name for p in tmp_path.iterdir())

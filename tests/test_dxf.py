@@ -15,6 +15,7 @@ References used here, none of them stavegen's own drawing code:
 
 from __future__ import annotations
 
+import json
 import math
 import re
 from dataclasses import dataclass, field
@@ -25,13 +26,14 @@ import pytest
 import shapely
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
-from shapely.geometry import LineString, LinearRing, Polygon
+from shapely.geometry import LineString, LinearRing, Polygon, box
 
 from stavegen.build import output_names, write_outputs
 from stavegen.model.loader import load_spar, parse_spar
 from stavegen.pipeline import design
 from stavegen.render import dxf_templates
 from stavegen.render.dxf_templates import CUT, LAYERS, write_templates
+from stavegen.render.json_doc import to_json
 from stavegen.stations.evaluate import SectionCache
 
 from conftest import SAMPLES, spar_dict
@@ -134,8 +136,12 @@ def width_across(polygon: Polygon, x: float) -> float:
     return polygon.intersection(LineString([(x, y0 - 10), (x, y1 + 10)])).length
 
 
-def check_templates(result, path: Path, dxf: DxfFile) -> float:
-    """Every check of a written template file; returns the worst width error found (mm)."""
+def check_templates(result, path: Path, dxf: DxfFile, on_boards: bool = False) -> float:
+    """Every check of a written template file; returns the worst width error found (mm).
+
+    ``on_boards``: the parts lie on the boards of the lumber order, a kerf apart, without the marks that
+    stand outside an outline (station figures): they must not overlap rather than keep 10 mm apart.
+    """
     spar, layout = result.spar, result.layout
     unit = MM_PER[spar.units]
 
@@ -169,8 +175,12 @@ def check_templates(result, path: Path, dxf: DxfFile) -> float:
             assert ext_min[0] - 1e-9 <= x <= ext_max[0] + 1e-9 and ext_min[1] - 1e-9 <= y <= ext_max[1] + 1e-9
     tree = shapely.STRtree(polygons)
     for i, poly in enumerate(polygons):
-        for j in tree.query(poly, predicate="dwithin", distance=10.0):
-            assert j == i, "two parts are closer than 10 mm"
+        if on_boards:
+            for j in tree.query(poly, predicate="intersects"):
+                assert j == i or poly.intersection(polygons[j]).area <= 1e-9 * poly.area, "two parts overlap"
+        else:
+            for j in tree.query(poly, predicate="dwithin", distance=10.0):
+                assert j == i, "two parts are closer than 10 mm"
 
     # Each outline carries its label inside it; match outlines to segments by label.
     labels = [t for t in dxf.on("TEXT-LABELS", "TEXT") if re.fullmatch(r"S\d+-\d+", t.first(1))]
@@ -204,7 +214,7 @@ def check_templates(result, path: Path, dxf: DxfFile) -> float:
     # Marks on their own layers: a tick line and its figures per station, a feather line per scarf end.
     ticks = sum(len(seg.ticks) for seg in layout.segments)
     assert len(dxf.on("MARK-STATIONS", "LINE")) == ticks
-    assert len(dxf.on("TEXT-STATIONS", "TEXT")) == ticks
+    assert len(dxf.on("TEXT-STATIONS", "TEXT")) == (0 if on_boards else ticks)
     assert len(dxf.on("MARK-SCARFS", "LINE")) == sum(len(seg.feather_lines) for seg in layout.segments)
     assert len(dxf.on("MARK-NOTCH-EDGE")) == len(dxf.on("MARK-SQUARE-EDGE")) == len(layout.segments)
     for line in dxf.on("MARK-SCARFS", "LINE"):
@@ -269,7 +279,7 @@ def test_units_follow_the_spar_file(sample, insunits, measurement, word, tmp_pat
 
 
 def random_spar(units: str, length: float, diameter: float, taper: float, staves: int, joint: str, wall: float,
-                board: float, edge: str = "square-edge"):
+                board: float, edge: str = "square-edge", on_boards: bool = False):
     mm = lambda v: f"{v:.3f} mm"  # noqa: E731
     head = diameter * taper
     data = spar_dict(
@@ -279,7 +289,7 @@ def random_spar(units: str, length: float, diameter: float, taper: float, staves
                 "planing_allowance": mm(1.5), "end_allowance": mm(50), "taper": edge},
         stock={"thickness": mm(wall * diameter + 2), "widths": [mm(150)], "lengths": [mm(board)],
                "kerf": mm(3), "scarf_ratio": 8, "scarf_stagger": mm(150)},
-        output={"mark_spacing": mm(300)},
+        output={"mark_spacing": mm(300), "templates_on_boards": on_boards},
     )
     return parse_spar(data, "random.toml")
 
@@ -337,3 +347,99 @@ def test_placement_can_be_swapped(tmp_path):
     dxf = read_dxf(path)
     assert all(min(x for x, _ in e.points) == 0.0 for e in dxf.on(CUT))
     check_templates(result, path, dxf)
+
+
+# Templates on boards ----------------------------------------------------------------------------
+
+def on_boards(sample: str, tmp_path: Path):
+    """A sample spar file with ``output.templates_on_boards = true`` added, laid out."""
+    text = (SAMPLES / sample).read_text(encoding="utf-8")
+    assert "templates_on_boards" not in text
+    path = tmp_path / sample
+    path.write_text(text.replace("[output]\n", "[output]\ntemplates_on_boards = true\n"), encoding="utf-8")
+    spar = load_spar(path)
+    assert spar.output.templates_on_boards
+    return design(spar, layout=True)
+
+
+def check_boards(result, dxf: DxfFile) -> None:
+    """Each board of the order (the JSON's cutting plan) drawn at true size on its own layer, its segments
+    inside it at their rip and offset; nothing on the cutting layer but the segment outlines."""
+    spar = result.spar
+    unit = MM_PER[spar.units]
+    cutting = json.loads(to_json(result))["stock"]["cutting"]
+    assert LAYERS["BOARD-OUTLINE"] and "BOARD-OUTLINE" != CUT and "BOARD-RIPS" != CUT
+    outlines = dxf.on("BOARD-OUTLINE")
+    assert all(e.kind == "LWPOLYLINE" and e.closed for e in outlines)
+    assert len(outlines) == len(cutting)
+    boards = [Polygon([(x * unit, y * unit) for x, y in e.points]) for e in outlines]
+    for i, a in enumerate(boards):
+        for b in boards[i + 1:]:
+            assert a.intersection(b).area == 0.0
+    captions = dxf.on("TEXT-BOARDS", "TEXT")
+    by_id = {}
+    for poly in boards:
+        x0, _, x1, top = poly.bounds
+        above = [t.first(1).split(":")[0] for t in captions
+                 if abs(t.anchor[0] * unit - x0) < 1e-6 and 0 < t.anchor[1] * unit - top < 25.0]
+        assert len(above) == 1, above
+        by_id[above[0]] = poly
+    assert sorted(by_id) == sorted(b["board"] for b in cutting)
+
+    cut = [Polygon([(x * unit, y * unit) for x, y in e.points]) for e in dxf.on(CUT)]
+    labels = [t for t in dxf.on("TEXT-LABELS", "TEXT") if re.fullmatch(r"S\d+-\d+", t.first(1))]
+    segment = {}
+    for poly in cut:
+        inside = [t.first(1) for t in labels if poly.contains(shapely.Point(*[c * unit for c in t.anchor]))]
+        assert len(inside) == 1
+        segment[inside[0]] = poly
+    placed_labels = []
+    for board in cutting:
+        poly = by_id[board["board"]]
+        x0, y0, x1, top = poly.bounds
+        assert x1 - x0 == pytest.approx(board["length_mm"], abs=1e-6)  # true size
+        assert top - y0 == pytest.approx(board["width_mm"], abs=1e-6)
+        assert poly.area == pytest.approx(board["length_mm"] * board["width_mm"], rel=1e-9)
+        for rip in board["rips"]:
+            strip = box(x0, top - rip["offset_mm"] - rip["width_mm"], x1, top - rip["offset_mm"])
+            for piece in rip["pieces"]:
+                part = segment[piece["label"]]
+                assert poly.buffer(1e-6).contains(part), (board["board"], piece["label"])
+                assert strip.buffer(1e-6).contains(part), (board["board"], piece["label"])
+                assert part.bounds[0] == pytest.approx(x0 + piece["offset_mm"], abs=1e-6)
+                assert part.bounds[2] - part.bounds[0] == pytest.approx(piece["length_mm"], abs=WIDTH_TOLERANCE)
+                placed_labels.append(piece["label"])
+    assert sorted(placed_labels) == sorted(segment) == sorted(seg.label for seg in result.layout.segments)
+
+
+@pytest.mark.parametrize("sample", ["catboat-mast.toml", "yawl-mainmast-metric.toml"])
+def test_templates_on_boards(sample, tmp_path):
+    result = on_boards(sample, tmp_path)
+    path, dxf = templates_of(result, tmp_path)
+    check_templates(result, path, dxf, on_boards=True)
+    check_boards(result, dxf)
+
+
+@settings(max_examples=4, deadline=None, suppress_health_check=[HealthCheck.function_scoped_fixture])
+@given(units=st.sampled_from(["in", "mm"]), length=st.floats(1500, 5000), diameter=st.floats(60, 140),
+       staves=st.sampled_from([6, 8, 12]), joint=st.sampled_from(["birdsmouth-flush", "bevel"]),
+       board=st.floats(1800, 3000), edge=st.sampled_from(["square-edge", "symmetric"]))
+def test_random_spars_on_boards(tmp_path, units, length, diameter, staves, joint, board, edge):
+    result = design(random_spar(units, length, diameter, 0.7, staves, joint, 0.2, board, edge, on_boards=True),
+                    layout=True)
+    path, dxf = templates_of(result, tmp_path)
+    check_templates(result, path, dxf, on_boards=True)
+    check_boards(result, dxf)
+
+
+def test_build_draws_the_boards_when_the_file_asks(run, tmp_path):
+    """Off by default; on, ``build`` itself writes the boards."""
+    plain_out, boards_out = tmp_path / "rows", tmp_path / "boards"
+    assert run(["build", SAMPLES / "catboat-mast.toml", "-o", plain_out]).exit_code == 0
+    assert not read_dxf(plain_out / "catboat-mast-templates.dxf").on("BOARD-OUTLINE")
+    on_boards("catboat-mast.toml", tmp_path)
+    result = run(["build", tmp_path / "catboat-mast.toml", "-o", boards_out])
+    assert result.exit_code == 0, result.output
+    dxf = read_dxf(boards_out / "catboat-mast-templates.dxf")
+    assert len(dxf.on("BOARD-OUTLINE")) == len(design(load_spar(tmp_path / "catboat-mast.toml"),
+                                                      layout=True).layout.lumber.boards)

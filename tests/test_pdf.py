@@ -103,7 +103,7 @@ def test_report_cut_list_matches_the_csv_and_json(built):
     d = built["design"]
     rows = list(csv.DictReader(io.StringIO(to_csv(d))))
     header = list(rows[0])
-    shown = header[2:13]  # label through head end, as the CSV spells them
+    shown = header[2:14]  # label through board, as the CSV spells them
     lines = [line for page in built["report_lines"] for line in page]
     doc = json.loads(to_json(d))
     lengths = {seg["label"]: seg["length_mm"] for stave in doc["staves"] for seg in stave["segments"]}
@@ -154,12 +154,126 @@ def test_report_without_a_layout_has_no_cut_list(tmp_path):
     assert "Station by station" in text and "Cut list" not in text and "Scarf map" not in text
 
 
-def test_no_word_about_boards_while_there_is_no_lumber_order(built):
-    assert built["design"].layout.lumber is None
+def _section_lines(built, heading: str, until: str) -> list[str]:
+    """The report's text lines from the line ``heading`` up to the next line starting with ``until``."""
     lines = [line for page in built["report_lines"] for line in page]
-    assert not any("board feet" in line or "boards to buy" in line for line in lines)
-    header = next(line for line in lines if line.startswith("label "))
-    assert "board" not in header
+    start = lines.index(heading)
+    end = next(i for i in range(start + 1, len(lines)) if lines[i].startswith(until))
+    return lines[start:end]
+
+
+def test_report_board_order_matches_the_json_stock(built):
+    """Boards to buy by size, the tallies, the bound and the yield: the JSON ``stock`` figures, read back."""
+    units = built["units"]
+    stock = json.loads(to_json(built["design"]))["stock"]
+    lines = _section_lines(built, "Board order", "Cutting diagrams")
+    text = _flat(" ".join(lines))
+    used = {(b["width_mm"], b["length_mm"]): b["count"] for b in stock["used"]}
+    for b in stock["boards"]:
+        # The size as sold: dressed width, and the length in feet or mm.
+        if units == "in":
+            size = (format_length(b["width_mm"], units), f"{b['length_mm'] / 304.8:g} ft")
+        else:
+            size = (f"{b['width_mm']:g} mm", f"{b['length_mm']:g} mm")
+        each, total = f"{b['board_feet_each']:.1f}", f"{b['count'] * b['board_feet_each']:.1f}"
+        ending = f"{each} {used[(b['width_mm'], b['length_mm'])]} {b['count']} {total}"
+        if units == "mm":  # nominal cubic metres: count x nominal thickness x nominal width x length
+            m3 = b["count"] * b["nominal_thickness_mm"] * b["nominal_width_mm"] * b["length_mm"] * 1e-9
+            ending += f" {m3:.3f}"
+        rows = [line for line in lines if all(words in line for words in size) and line.endswith(ending)]
+        assert len(rows) == 1, (size, ending, lines)
+    n_used, n_buy = sum(b["count"] for b in stock["used"]), sum(b["count"] for b in stock["boards"])
+    total = f"total {n_used} {n_buy} {stock['board_feet']:.1f}"
+    if units == "mm":
+        total += f" {stock['volume_m3']:.3f}"
+    assert total in lines
+    assert f"uses {n_used} boards, {stock['used_board_feet']:.1f} board feet" in text
+    assert f"buy {stock['board_feet']:.1f} board feet" in text
+    assert f"{100 * stock['waste']:g} %" in text
+    assert f"less than {stock['lower_bound_board_feet']:.1f} board feet" in text
+    assert ("proven the least possible" in text) == stock["proven_optimal"]
+    assert ("LP relaxation" in text) == stock["bound_is_lp"]
+    assert f"stave wood is {100 * stock['yield']:.0f} % of the wood in the boards the plan uses" in text
+    if units == "mm":
+        assert f"({stock['volume_m3']:.3f} m³)" in text and f"({stock['used_volume_m3']:.3f} m³)" in text
+    # And on page 1: the boards to buy and their board feet.
+    page1 = _flat(built["report_pages"][0])
+    assert f"{n_buy} boards, {stock['board_feet']:.1f} board feet" in page1
+
+
+def test_report_cutting_diagrams_draw_every_board_to_the_stated_scales(built):
+    """Every board of the JSON's cutting plan is a rectangle at the stated scales, with each segment a rectangle
+    at its rip and offset (rip widths from the CSV), labelled inside."""
+    d = built["design"]
+    stock = json.loads(to_json(d))["stock"]
+    rip_width = {row["label"]: float(row["rip_width_mm"]) for row in csv.DictReader(io.StringIO(to_csv(d)))}
+    text = _flat(" ".join(built["report_pages"]))
+    found = re.search(r"lengths at 1:([\d.]+), widths at 1:([\d.]+)", text)
+    assert found, "no scales stated"
+    kx, ky = PT_PER_MM / float(found.group(1)), PT_PER_MM / float(found.group(2))
+    tol = 0.05
+    with pdfplumber.open(built["report"]) as pdf:
+        pages = [(page.rects, page.extract_words()) for page in pdf.pages]
+
+    def near(a, b):
+        return abs(a - b) <= tol
+
+    matched = set()
+    for board in stock["cutting"]:
+        hit = False
+        for number, (rects, words) in enumerate(pages):
+            for outline in rects:
+                if (number, outline["x0"], outline["top"]) in matched:
+                    continue
+                if not (near(outline["width"], board["length_mm"] * kx) and
+                        near(outline["height"], board["width_mm"] * ky)):
+                    continue
+                ok = True
+                for rip in board["rips"]:
+                    for piece in rip["pieces"]:
+                        x0 = outline["x0"] + piece["offset_mm"] * kx
+                        top = outline["top"] + rip["offset_mm"] * ky
+                        box_ = next((r for r in rects if near(r["x0"], x0) and near(r["top"], top)
+                                     and near(r["width"], piece["length_mm"] * kx)
+                                     and near(r["height"], rip_width[piece["label"]] * ky)), None)
+                        if box_ is None or not any(
+                                w["text"] == piece["label"] and box_["x0"] <= w["x0"] and w["x1"] <= box_["x1"]
+                                and box_["top"] <= w["top"] and w["bottom"] <= box_["bottom"] for w in words):
+                            ok = False
+                            break
+                    if not ok:
+                        break
+                if ok:
+                    matched.add((number, outline["x0"], outline["top"]))
+                    hit = True
+                    break
+            if hit:
+                break
+        assert hit, board["board"]
+    # Several boards share a page.
+    assert max(sum(1 for key in matched if key[0] == n) for n in range(len(pages))) >= 2
+
+
+def test_report_cutter_settings_match_the_json(built):
+    """Both stations' table-saw passes and router set-up, as the JSON ``machining`` gives them."""
+    units = built["units"]
+    m = json.loads(to_json(built["design"]))["machining"]
+    text = _flat(" ".join(_section_lines(built, "Cutter settings", "Plugs")))
+    for what in ("widest", "narrowest"):
+        at = m[what]
+        assert f"at the {what} stave, {format_length(at['z_mm'], units, tape=True)} from the heel" in text
+        for p in at["table_saw"]:
+            assert f"makes the {p['makes']}" in text
+            for key in ("fence_distance_mm", "depth_along_blade_mm", "height_mm"):
+                assert format_length(p[key], units) in text, (what, key)
+            assert f"{p['tilt_deg']:.2f}°" in text
+        if at["router"]:
+            for key in ("bit_height_mm", "fence_to_tip_mm", "least_bit_diameter_mm"):
+                assert format_length(at["router"][key], units) in text, (what, key)
+        if at["notch_depth_mm"] is not None:
+            assert format_length(at["notch_depth_mm"], units) + " / " + format_length(at["apex_height_mm"], units) \
+                in text
+    assert ("The notch changes along the spar" in text) == m["notch_varies"]
 
 
 # The full-size templates ---------------------------------------------------------------------------------
@@ -263,7 +377,7 @@ OTHER_SPARS = {
     "bevel-symmetric": dict(hollow={"joint": "bevel", "taper": "symmetric"}, stock=STOCK,
                             plan={"wood": "sitka-spruce", "stations": [[0, 100], [3000, 70]]}),
     "wider-than-a-page": dict(plan={"wood": "sitka-spruce", "stations": [[0, 400], [3000, 380]]},
-                              hollow={"staves": 6, "wall": 60}, stock=dict(STOCK, thickness=62),
+                              hollow={"staves": 6, "wall": 60}, stock=dict(STOCK, thickness=62, widths=[150, 300]),
                               output={"paper": "a4"}),
 }
 

@@ -3,6 +3,8 @@
 from __future__ import annotations
 
 from dataclasses import dataclass
+from typing import Callable
+
 from ..errors import InputError
 from ..model.spar import Spar
 from ..section.properties import Section
@@ -81,8 +83,13 @@ def scarf_rules(spar: Spar, plan: StavePlan) -> ScarfRules:
     )
 
 
-def lay_out(spar: Spar, cache: SectionCache | None = None, lumber_budget: float = 5.0) -> Layout:
-    """The shop plan for a resolved spar with a [stock] table; the lumber solve gets ``lumber_budget`` s."""
+def lay_out(spar: Spar, cache: SectionCache | None = None, step: Callable[[str], None] | None = None,
+            lumber_budget: float = 5.0) -> Layout:
+    """The shop plan for a resolved spar with a [stock] table.
+
+    ``step``, if given, is told what is being worked out as it starts ("ordering lumber"); the lumber
+    solve gets ``lumber_budget`` seconds.
+    """
     if spar.stock is None:
         raise InputError("missing: build needs the boards the staves are ripped from "
                          "(thickness, widths, lengths)", "stock", spar.source)
@@ -102,11 +109,15 @@ def lay_out(spar: Spar, cache: SectionCache | None = None, lumber_budget: float 
             make_segment(plan, k, i + 1, a, b, scarf_at_start=i > 0, scarf_at_end=i < last,
                          scarf_length=rules.length)
             for i, (a, b) in enumerate(stave_bounds)))
+    if step is not None:
+        step("ordering lumber")
     pieces = [Piece(label=seg.label, stave=seg.stave, segment=seg.index, length=seg.length,
                     width=seg.rough_width, volume=seg.volume) for stave in staves for seg in stave]
+    lumber = order_lumber(pieces, spar.stock, units=spar.units, time_budget=lumber_budget)
+    if step is not None:
+        step("working out the cutter settings")
     return Layout(plan=plan, scarfs=scarfs, staves=tuple(staves), plugs=plug_blocks(spar, cache),
-                  machining=machining_at_extremes(spar, plan, cache),
-                  lumber=order_lumber(pieces, spar.stock, units=spar.units, time_budget=lumber_budget))
+                  machining=machining_at_extremes(spar, plan, cache), lumber=lumber)
 
 
 def machining_at_extremes(spar: Spar, plan: StavePlan, cache: SectionCache) -> Machining:

@@ -53,6 +53,7 @@ waste = 0.10                      # added to the order
 [output]
 paper = "letter"                  # letter | a4, for the full-size templates
 mark_spacing = 12                 # station marks on the templates
+templates_on_boards = false       # true: the DXF draws each board of the order with its segments on it
 '''
 
 _MM = '''# stavegen spar file. Lengths are bare numbers in the file's unit or strings
@@ -105,6 +106,7 @@ waste = 0.10                      # added to the order
 [output]
 paper = "a4"                      # letter | a4, for the full-size templates
 mark_spacing = 250                # station marks on the templates
+templates_on_boards = false       # true: the DXF draws each board of the order with its segments on it
 '''
 
 

@@ -11,12 +11,13 @@ from rich.text import Text
 from ..cautions import CAUTIONS, HEADLINE
 from ..checks.assess import Assessment
 from ..checks.ratios import StationCheck
-from ..layout.machining import CutterSettings, Lean, SawPass
+from ..layout.machining import CutterSettings
 from ..model.spar import Spar
 from ..model.woods import Wood
 from ..pipeline import Design
 from ..section.properties import Section
-from ..units import KG_M3_PER_LB_FT3, format_force, format_length_up, format_length, format_mass, format_tape, stress_in
+from ..units import KG_M3_PER_LB_FT3, format_force, format_length, format_length_up, format_mass, format_tape, stress_in
+from .wording import FENCE_NOTE, GUARD_NOTE, cutter_rows, order_words
 
 
 def length(spar: Spar, mm: float | None, tape: bool = False) -> str:
@@ -108,6 +109,43 @@ def verdict(design: Design) -> Text:
     return text
 
 
+def print_build_summary(console: Console, design: Design, written: list) -> None:
+    """The few lines a build ends with: pass or fail, boards to buy, scarfs, weight saved, files written."""
+    spar, r, lay = design.spar, design.assessment, design.layout
+    for line in design.solved:
+        console.print(f"[cyan]solved:[/] {line}")
+    for line in design.warnings:
+        console.print(Text("warning: ", style="bold yellow") + Text(line))
+    w = r.weakest_stiffness
+    if r.passed:
+        head = Text("PASS ", style="bold green")
+        head.append(f"the hollow spar meets its target at every station (least EI ratio {w.ei_ratio:.3f}, "
+                    f"target {r.ei_target:.3f})")
+    else:
+        head = Text("FAIL ", style="bold red")
+        head.append(" ".join(r.shortfalls()) + ". Do not build it as drawn.")
+    console.print(head)
+    table = Table(show_header=False, box=None, pad_edge=False, padding=(0, 2, 0, 2))
+    table.add_column("", style="bold", no_wrap=True)
+    table.add_column("")
+    if lay is not None and lay.lumber is not None and lay.lumber.boards:
+        table.add_row("boards to buy", order_words(lay.lumber, spar.units))
+    if lay is not None:
+        table.add_row("scarfs", f"{lay.scarfs.count}, each {length(spar, lay.scarfs.length)} long"
+                      if lay.scarfs.count else "none: every stave is one piece")
+    saved = r.plan.mass.mass - r.hollow.mass.mass
+    table.add_row("weight saved", f"{format_mass(saved, spar.units)} ({format_mass(r.hollow.mass.mass, spar.units)} "
+                                  f"hollow against {format_mass(r.plan.mass.mass, spar.units)} solid)"
+                  if saved >= 0 else f"none: {format_mass(-saved, spar.units)} heavier than the solid spar")
+    if written:
+        names = [p.name for p in written]
+        stem = spar.slug
+        short = [names[0]] + [n[len(stem):] if n.startswith(stem + "-") else n for n in names[1:]]
+        table.add_row("written", f"{len(names)} files into {written[0].parent}: {', '.join(short)}")
+    console.print(table)
+    console.print(Text("Before cutting, read the safety notes on page 1 of the report.", style="bold red"))
+
+
 def print_check(console: Console, design: Design) -> None:
     console.print(_headline(design.spar))
     for line in design.solved:
@@ -160,65 +198,18 @@ def section_table(spar: Spar, check: StationCheck) -> Table:
     return table
 
 
-def _degrees(angle: float) -> str:
-    return f"{angle:.2f}°"
-
-
-def _bearing(spar: Spar, mm: float) -> str:
-    return length(spar, mm) if mm > 0 else "on a corner"
-
-
-def _saw_rows(spar: Spar, p: SawPass) -> list[tuple[str, str]]:
-    lean = "" if p.lean is Lean.UPRIGHT else f", top leaning {p.lean}"
-    end = "through the stave" if p.through else "to the apex"
-    return [
-        ("stave down on the table", str(p.on_table)),
-        ("stave against the fence", str(p.on_fence)),
-        ("blade tilt from vertical", _degrees(p.tilt) + lean),
-        ("fence to blade at the table", length(spar, p.fence_distance)),
-        (f"cut along the blade, {end}", length(spar, p.depth_along_blade)),
-        ("top of the cut above the table", length(spar, p.height)),
-        ("stave bearing behind the blade: table / fence",
-         f"{_bearing(spar, p.table_contact)} / {_bearing(spar, p.fence_contact)}"),
-    ]
-
-
 def machining_table(spar: Spar, settings: CutterSettings) -> Table:
     """Table-saw passes and the router set-up for one section, lengths in the spar's units."""
     table = Table(title="Cutter settings", show_header=False, title_justify="left",
-                  caption="Fence to blade: from the fence to where the blade's fence-side face meets the table. "
-                          "Use push sticks, featherboards and the guard on narrow staves.",
-                  caption_justify="left")
+                  caption=f"{FENCE_NOTE} {GUARD_NOTE}", caption_justify="left")
     table.add_column("", style="bold")
     table.add_column("", justify="right")
-    if settings.v_face_angles:
-        inner, outer = settings.v_face_angles
-        table.add_row("V faces to the broad face", f"inner {_degrees(inner)}, outer {_degrees(outer)}")
-        table.add_row("notch depth / apex above the inner face",
-                      f"{length(spar, settings.notch_depth)} / {length(spar, settings.apex_height)}")
-    else:
-        table.add_row("edge bevel off square", _degrees(settings.bevel))
-        table.add_row("rip to width: fence to blade", length(spar, settings.rip_fence_distance))
-    for k, p in enumerate(settings.saw, start=1):
-        table.add_section()
-        table.add_row(f"table saw, pass {k}", f"makes the {p.makes}", style="cyan")
-        for label, value in _saw_rows(spar, p):
-            table.add_row(label, value)
-    r = settings.router
-    if r is not None:
-        table.add_section()
-        table.add_row("router table, 90° V-bit", "whole V in one pass", style="cyan")
-        ride = f"{r.on_table}, {r.on_fence} against the fence"
-        if r.one_pass_flat:
-            ride += ", flat on the table"
+    for row in cutter_rows(spar.units, settings):
+        if row.heading:
+            table.add_section()
+            table.add_row(row.label, row.value, style="cyan")
         else:
-            ride += f", on a {_degrees(r.wedge_angle)} wedge, high side {r.wedge_high_side}"
-        table.add_row("stave rides on", ride)
-        table.add_row("bit tip above the riding surface", length(spar, r.bit_height))
-        table.add_row("fence to bit tip", length(spar, r.fence_to_tip))
-        table.add_row("bit at least this wide", length(spar, r.least_bit_diameter))
-        table.add_row("notched edge left to ride on",
-                      length(spar, r.edge_left) if r.edge_left > 0 else "none: support the outfeed side")
+            table.add_row(row.label, row.value)
     return table
 
 

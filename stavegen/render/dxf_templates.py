@@ -9,9 +9,16 @@ LWPOLYLINE, LINE, CIRCLE and TEXT entities in the standard text style.
 
 Nothing here computes a width, an outline or a section: the figures come
 from the layout (:mod:`stavegen.layout`) and the sections it holds. The
-renderer only decides where on the sheet each part goes
-(:func:`parts_in_rows`, swappable through ``write_templates(place=...)``)
-and where its text stands.
+renderer only decides where on the sheet each part goes and where its text
+stands. Placement is one swappable function (``write_templates(place=...)``):
+:func:`parts_in_rows` (the default) lays the segments out one row per stave
+with room for every mark; :func:`parts_on_boards` (``output.templates_on_boards
+= true``) draws each board of the lumber order at true size on a layer of its
+own and puts every segment on it at the rip and offset the order gives, so the
+router operator cuts each board as the order says. On boards the segments sit
+one kerf apart, so the marks that stand outside an outline (station figures,
+scarf notes, the segment's description) are left to the row sheet and the
+report; outlines, ticks, feather lines, labels and grain arrows stay.
 """
 
 from __future__ import annotations
@@ -26,12 +33,14 @@ import ezdxf.bbox
 import ezdxf.zoom
 from ezdxf.enums import TextEntityAlignment
 
+from ..layout.lumber import Board
 from ..layout.plan import Layout
 from ..layout.segments import Segment
 from ..pipeline import Design
 from ..section.properties import Section, bore_ring
 from ..section.staves import placed
 from ..units import format_length, to_unit
+from .wording import board_words, dressed_size
 
 Point = tuple[float, float]
 
@@ -55,6 +64,9 @@ LAYERS: dict[str, tuple[int, int, str]] = {
     "END-ROUND": (1, 25, "end views: the finished round"),
     "END-PLUG": (34, 25, "end views: plug sections at each plug end"),
     "SHEET-NOTES": (250, 18, "title, notes, captions and the check line"),
+    "BOARD-OUTLINE": (8, 50, "boards of the lumber order at true size (templates on boards): not to cut"),
+    "BOARD-RIPS": (8, 18, "the rip lines along each board (templates on boards): not to cut"),
+    "TEXT-BOARDS": (8, 18, "board captions: id, size, the segments on it (templates on boards)"),
 }
 
 # Why a station is there, in the builder's words; the other reasons (plan, wall, mark, scarf...) go unsaid.
@@ -82,13 +94,27 @@ class Style:
 
 @dataclass(frozen=True)
 class Part:
-    """A segment placed on the sheet: its face frame's origin (heel end, notch edge) at ``origin`` (mm)."""
+    """A segment placed on the sheet: its face frame's origin (heel end, notch edge) at ``origin`` (mm).
+
+    ``marks_outside``: whether the marks that stand outside the outline (station
+    figures, scarf notes, the description) are drawn; off where parts are packed
+    a kerf apart.
+    """
 
     segment: Segment
     origin: Point
+    marks_outside: bool = True
 
 
-Placer = Callable[[Layout, Callable[[Segment], tuple[float, float]], float], list[Part]]
+@dataclass(frozen=True)
+class BoardPlace:
+    """A board of the lumber order on the sheet: its left end and its offset-0 edge (the top) at ``origin``."""
+
+    board: Board
+    origin: Point
+
+
+Placer = Callable[[Layout, Callable[[Segment], tuple[float, float]], float], list[Part | BoardPlace]]
 
 
 def parts_in_rows(layout: Layout, clearance: Callable[[Segment], tuple[float, float]], gap: float) -> list[Part]:
@@ -109,6 +135,40 @@ def parts_in_rows(layout: Layout, clearance: Callable[[Segment], tuple[float, fl
             x += seg.length + gap
         top = y0 - below - gap
     return parts
+
+
+def parts_on_boards(layout: Layout, clearance: Callable[[Segment], tuple[float, float]],
+                    gap: float) -> list[Part | BoardPlace]:
+    """Each board of the lumber order at true size, its segments where the order cuts them.
+
+    Boards go one under another from y = 0 down, length left to right, each
+    board's offset-0 edge at the top with ``gap`` (mm) and a caption's room
+    above it. A rip lies ``rip.offset`` below the top edge; a segment lies
+    ``cut.offset`` from the board's left end, its outline the edge allowance in
+    from the rip's upper edge (the rip width is the segment's finished width
+    plus an edge allowance on each edge). ``clearance`` is not used: marks that
+    need room outside an outline are left off.
+    """
+    if layout.lumber is None:
+        raise ValueError("templates on boards need the lumber order")
+    segments = {seg.label: seg for seg in layout.segments}
+    edge = layout.plan.edge_allowance
+    out: list[Part | BoardPlace] = []
+    top = -gap
+    for board in layout.lumber.boards:
+        out.append(BoardPlace(board, (0.0, top)))
+        for rip in board.rips:
+            upper = top - rip.offset - edge
+            for cut in rip.cuts:
+                seg = segments[cut.piece.label]
+                out.append(Part(seg, (cut.offset, upper - max(y for _, y in seg.outline)), marks_outside=False))
+        top -= board.size.width + 2 * gap
+    return out
+
+
+def placer_for(design: Design) -> Placer:
+    """The placement the spar file asks for: on the boards of the order, or in rows (the default)."""
+    return parts_on_boards if design.spar.output.templates_on_boards else parts_in_rows
 
 
 class Pen:
@@ -210,6 +270,8 @@ class TemplateSheet:
         for tick in seg.ticks:
             a, b = seg.edges_at(tick.x)
             pen.line(at(tick.x, a), at(tick.x, b), "MARK-STATIONS")
+            if not part.marks_outside:
+                continue
             tx = max(tick.x, last + 1.6 * s.text)
             last = tx
             base = top + s.text
@@ -221,6 +283,8 @@ class TemplateSheet:
         for x, tip in zip(seg.feather_lines, tips):
             a, b = seg.edges_at(x)
             pen.line(at(x, a), at(x, b), "MARK-SCARFS")
+            if not part.marks_outside:
+                continue
             note = f"SCARF {self.size(seg.scarf_length)}: slope from the feather line to a feather edge at this end"
             note = f"<-- {note}" if tip < x else f"{note} -->"
             pen.text(note, at((x + tip) / 2, bottom - 1.9 * s.text), s.text, "TEXT-LABELS",
@@ -256,9 +320,11 @@ class TemplateSheet:
         h = min(s.text, 0.22 * (hi - lo))
         pen.text(square_name, at((g[0] + g[1]) / 2, hi - 0.6 * h), h, "TEXT-LABELS",
                  align=TextEntityAlignment.MIDDLE_CENTER)
-        if not self.straight_notch_edge:
+        if not self.straight_notch_edge or not part.marks_outside:
             pen.text(notch_name, at((g[0] + g[1]) / 2, lo + 0.6 * h), h, "TEXT-LABELS",
                      align=TextEntityAlignment.MIDDLE_CENTER)
+        if not part.marks_outside:
+            return
 
         # Below the notch edge: its name and what the segment is.
         x0 = seg.scarf_length + 6 * s.text if seg.scarf_at_start else s.text  # clear of the "feather line" word
@@ -267,6 +333,23 @@ class TemplateSheet:
                      align=TextEntityAlignment.TOP_LEFT)
         pen.text(self.description(seg), at(x0, bottom - 3.2 * s.text), s.text, "TEXT-LABELS",
                  align=TextEntityAlignment.TOP_LEFT)
+
+    def draw_board(self, place: BoardPlace) -> None:
+        """The board's outline at true size, its rip lines, and its caption above it."""
+        board, (x0, top) = place.board, place.origin
+        length, width = board.size.length, board.size.width
+        pen, s = self.pen, self.style
+        pen.poly([(x0, top), (x0 + length, top), (x0 + length, top - width), (x0, top - width)], "BOARD-OUTLINE",
+                 closed=True)
+        for rip in board.rips:  # the rip's long edges, where they are not the board's own
+            for y in (rip.offset, rip.offset + rip.width):
+                if 1e-6 < y < width - 1e-6:
+                    pen.line((x0, top - y), (x0 + length, top - y), "BOARD-RIPS")
+        rips = "; ".join(f"rip {k} {self.size(rip.width)}: " + ", ".join(c.piece.label for c in rip.cuts)
+                         for k, rip in enumerate(board.rips, start=1))
+        pen.text(f"{board.id}: {board_words(board.size, self.units)} board, dressed "
+                 f"{dressed_size(board.size, self.units)}. {rips}", (x0, top + 0.8 * s.text), s.text,
+                 "TEXT-BOARDS")
 
     def grain_arrow(self, at: Callable[[float, float], Point], g: tuple[float, float], lo: float, hi: float) -> None:
         """An arrow along the grain, pointing to the head, in the stretch ``g`` between ``lo`` and ``hi``."""
@@ -362,7 +445,7 @@ class TemplateSheet:
         return draw, (-reach, -reach, reach, reach), caption
 
     # Notes -----------------------------------------------------------------
-    def notes(self, left: float, bottom: float) -> None:
+    def notes(self, left: float, bottom: float, on_boards: bool = False) -> None:
         s, spar = self.style, self.spar
         unit = "inches" if self.units == "in" else "millimetres"
         check = 304.8 if self.units == "in" else 300.0
@@ -375,6 +458,10 @@ class TemplateSheet:
             "Check the scale before cutting: the line below must measure "
             f"{self.size(check)}. Check every figure against the cut list.",
         ]
+        if on_boards:
+            lines.insert(2, "Each board of the lumber order is drawn at true size (layer BOARD-OUTLINE, not to cut) "
+                            "with its segments where the order cuts them; station figures and scarf notes are in "
+                            "the report.")
         y = bottom + 2.5 * s.text
         self.pen.line((left, bottom), (left + check, bottom), "SHEET-NOTES")
         for tick_x in (left, left + check):
@@ -399,19 +486,26 @@ def setup_document(units: str):
     return doc
 
 
-def template_document(design: Design, place: Placer = parts_in_rows):
-    """The template sheet of ``design`` as an ezdxf document (its layout must be worked out)."""
+def template_document(design: Design, place: Placer | None = None):
+    """The template sheet of ``design`` as an ezdxf document (its layout must be worked out).
+
+    ``place`` defaults to what the spar file asks (:func:`placer_for`).
+    """
     if design.layout is None:
         raise ValueError("templates need the layout: design(spar, layout=True)")
+    place = place or placer_for(design)
     units = design.spar.units
     doc = setup_document(units)
     pen = Pen(doc.modelspace(), units)
     sheet = TemplateSheet(design, pen)
-    parts = place(design.layout, sheet.clearance, sheet.style.gap)
-    for part in parts:
-        sheet.draw_part(part)
+    items = place(design.layout, sheet.clearance, sheet.style.gap)
+    for item in items:
+        if isinstance(item, BoardPlace):
+            sheet.draw_board(item)
+        else:
+            sheet.draw_part(item)
     top = sheet.end_views(0.0, 2 * sheet.style.gap)
-    sheet.notes(0.0, top + sheet.style.gap)
+    sheet.notes(0.0, top + sheet.style.gap, on_boards=any(isinstance(i, BoardPlace) for i in items))
     set_extents(doc)
     return doc
 
@@ -425,6 +519,6 @@ def set_extents(doc) -> None:
     ezdxf.zoom.center(msp, box.center, box.size)
 
 
-def write_templates(design: Design, path: str | Path, place: Placer = parts_in_rows) -> None:
-    """Write the DXF cutting templates of ``design`` to ``path``."""
+def write_templates(design: Design, path: str | Path, place: Placer | None = None) -> None:
+    """Write the DXF cutting templates of ``design`` to ``path`` (placed as the spar file asks, or by ``place``)."""
     template_document(design, place).saveas(Path(path))

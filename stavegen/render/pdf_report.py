@@ -2,10 +2,12 @@
 
 The report is a list of section functions (:data:`SECTIONS`), each taking a
 :class:`Report` and returning flowables, [] when it has nothing to say; a new
-part of the report (the board order once ``design.layout.lumber`` exists, the
-cutter settings once ``design.layout.machining`` does) is one more function
-in that list. Every page carries the spar's name, the spar file's name, the
-build date and "page n of m".
+part of the report is one more function in that list. The board order and
+cutting diagrams draw ``design.layout.lumber`` (boards, rips and cut offsets as
+the lumber order placed them); the cutter settings print
+``design.layout.machining`` in the words of :mod:`stavegen.render.wording`,
+shared with the ``section`` command. Every page carries the spar's name, the
+spar file's name, the build date and "page n of m".
 """
 
 from __future__ import annotations
@@ -34,6 +36,8 @@ from ..stations.grid import MERGE_TOLERANCE
 from ..units import MM_PER_FOOT, MM_PER_INCH, N_PER_LBF, format_force, format_length, format_mass, format_plain
 from .csv_cutlist import cutlist_rows
 from .pdf_common import BOLD, FONT, ITALIC, MM, build_date, paper_size, plain, source_name
+from .wording import (FENCE_NOTE, GUARD_NOTE, board_feet_words, board_length, board_words, cutter_rows,
+                      dressed_size, nominal_size, order_words, volume_words)
 
 MARGIN = 15 * MM
 WOOD = colors.Color(0.93, 0.87, 0.74)
@@ -208,6 +212,11 @@ def summary(r: Report) -> list:
             ["stave length", f"{r.where(lay.plan.cut_length)} along the face with end allowances "
                              f"({r.where(lay.plan.finished_length)} finished)"],
         ]
+        if lay.lumber is not None and lay.lumber.boards:
+            order = lay.lumber
+            rows.append(["boards to buy", f"{order_words(order, units)}; {100 * order.waste:g} % waste added to "
+                                          f"the {board_feet_words(order.board_feet)} board feet the cutting plan "
+                                          f"uses (see the board order)"])
     if h.plugs:
         rows.append(["plugs", "; ".join(f"{r.where(p.start)} to {r.where(p.end)}, {p.wood.name}" for p in h.plugs)])
     facts = Table([[r.p(r.t(k), "head"), r.p(r.t(v), "cell")] for k, v in rows],
@@ -586,7 +595,7 @@ def cut_list(r: Report) -> list:
             .replace("width at heel end", "width at\nheel end").replace("width at head end", "width at\nhead end")
             for i in columns]
     table_rows = [head] + [[row[i] for i in columns] for row in body]
-    widths = [14, 20, 20, 20, 15, 15, 14, 14, 15, 15, 15] + ([14] if r.layout.lumber is not None else [])
+    widths = [14, 20, 20, 20, 15, 15, 14, 14, 15, 17, 17] + ([10] if r.layout.lumber is not None else [])
     scale = r.width / (sum(widths) * MM)
     table = _table([[plain(c) for c in row] for row in table_rows], widths=[w * MM * scale for w in widths])
     lay = r.layout
@@ -678,14 +687,14 @@ def plugs(r: Report) -> list:
     units = r.spar.units
     n = r.spar.hollow.staves
     u = " (mm)" if units == "mm" else ""
-    rows = [["plug", f"from heel{u}", f"to{u}", f"length{u}", "wood", f"heel end\nacross\nflats{u}",
+    rows = [["plug", f"from heel\n{u.strip()}".strip(), f"to{u}", f"length{u}", "wood", f"heel end\nacross\nflats{u}",
              f"heel end\nacross\ncorners{u}", f"head end\nacross\nflats{u}", f"head end\nacross\ncorners{u}",
              "weight"]]
     for p in lay.plugs:
         rows.append([str(p.index), r.cell(p.plug.start, True), r.cell(p.plug.end, True), r.cell(p.length, True),
                      p.plug.wood.name, r.cell(p.heel.across_flats), r.cell(p.heel.across_corners),
                      r.cell(p.head.across_flats), r.cell(p.head.across_corners), format_mass(p.mass, units)])
-    widths = [9, 18, 16, 18, 26, 20, 20, 20, 20, 13]
+    widths = [10, 18, 16, 18, 26, 20, 20, 20, 20, 13]
     scale = r.width / (sum(widths) * MM)
     table = _table([[plain(c) for c in row] for row in rows], widths=[w * MM * scale for w in widths])
     table.setStyle(TableStyle([("ALIGN", (4, 0), (4, -1), "LEFT")]))
@@ -694,10 +703,204 @@ def plugs(r: Report) -> list:
                     f"across its flats and across its corners."), "small"), Spacer(1, 4), table]
 
 
-# The report's parts, in order. The board order (``design.layout.lumber``) and the cutter settings
-# (``design.layout.machining``) will each be one more function here.
+# Board order and cutting diagrams ---------------------------------------------------------------------------
+
+
+def _order_table(r: Report) -> Table:
+    """Boards by size: what the cutting plan uses and what to buy (waste added), with the tallies."""
+    order = r.layout.lumber
+    metric = r.spar.units != "in"
+    used = {c.size: c.count for c in order.used}
+    head = ["nominal size", "length", "dressed size", "board feet\neach", "boards the\nplan uses",
+            "boards\nto buy", "board feet\nto buy"] + (["m³\nto buy"] if metric else [])
+    rows = [head]
+    for c in order.to_buy:
+        rows.append([nominal_size(c.size, r.spar.units), board_length(c.size.length, r.spar.units),
+                     dressed_size(c.size, r.spar.units), board_feet_words(c.size.board_feet),
+                     str(used.get(c.size, 0)), str(c.count), board_feet_words(c.board_feet)]
+                    + ([f"{c.volume_m3:.3f}"] if metric else []))
+    rows.append(["total", "", "", "", str(sum(c.count for c in order.used)), str(sum(c.count for c in order.to_buy)),
+                 board_feet_words(order.to_buy_board_feet)] + ([f"{order.to_buy_volume_m3:.3f}"] if metric else []))
+    widths = [28, 18, 28, 18, 20, 16, 20] + ([16] if metric else [])
+    table = _table([[plain(c) for c in row] for row in rows], widths=[w * MM for w in widths], align_right_from=3)
+    table.setStyle(TableStyle([("FONT", (0, -1), (-1, -1), BOLD, 7.5),
+                               ("LINEABOVE", (0, -1), (-1, -1), 0.6, colors.black)]))
+    return table
+
+
+def board_order(r: Report) -> list:
+    lay = r.layout
+    if lay is None or lay.lumber is None or not lay.lumber.boards:
+        return []
+    order, units = lay.lumber, r.spar.units
+    thick = order.used[0].size
+    measure = ("Board feet are tallied on nominal thickness x nominal width x length, 144 cubic inches to the "
+               "board foot (North American lumber rules)")
+    measure += "; cubic metres on the same nominal measure." if units != "in" else "."
+    used_words = f"{board_feet_words(order.board_feet)} board feet"
+    buy_words = f"{board_feet_words(order.to_buy_board_feet)} board feet"
+    if units != "in":
+        used_words += f" ({volume_words(order.volume_m3)})"
+        buy_words += f" ({volume_words(order.to_buy_volume_m3)})"
+    n_used = sum(c.count for c in order.used)
+    bound_kind = ("the LP relaxation of the cutting model" if order.bound_is_lp else
+                  "a weaker bound than the LP relaxation, as the solve stopped early")
+    verdict = ("proven the least possible" if order.proven_optimal else
+               "not proven the least possible: the solver stopped before it could prove it")
+    text = [
+        f"Every board {r.length(thick.thickness)} thick dressed ({_nominal_thickness_words(r, thick)} nominal). "
+        f"{measure}",
+        f"The cutting plan (the diagrams below) uses {n_used} boards, {used_words}. The order adds "
+        f"{100 * order.waste:g} % of that as waste allowance (stock.waste in the spar file), in whole boards: "
+        f"buy {buy_words}.",
+        f"Lower bound: no cutting plan can use less than {board_feet_words(order.lower_bound_board_feet)} board "
+        f"feet ({bound_kind}); this plan uses {board_feet_words(order.board_feet)}, {verdict}.",
+        f"Yield: the stave wood is {100 * order.yield_ratio:.0f} % of the wood in the boards the plan uses "
+        f"(nominal measure, before the waste allowance).",
+    ]
+    text += [f"Note: {line}." for line in order.notes]
+    out = [CondPageBreak(200), r.h2("Board order"), _order_table(r), Spacer(1, 4)]
+    out += [p for line in text for p in (r.p(r.t(line), "small"), Spacer(1, 2))]
+    return out + [Spacer(1, 6)] + cutting_diagrams(r)
+
+
+def _nominal_thickness_words(r: Report, size) -> str:
+    words = nominal_size(size, r.spar.units).split(" x ")[0]
+    return words if r.spar.units == "in" else f"{words} mm"
+
+
+# Drawing scales for the cutting diagrams, as 1:b. Lengths and widths have a scale each, the same for every board.
+_LENGTH_SCALES = (5, 10, 20, 25, 30, 40, 50, 75, 100, 200)
+_WIDTH_SCALES = (1, 2, 2.5, 4, 5, 10, 20, 25, 50)
+_TALLEST_BOARD_MM = 32.0  # on paper
+_RIP_LABEL_ROOM = 44.0  # points right of each board for the rip widths
+
+
+def diagram_scales(r: Report) -> tuple[float, float]:
+    """(b_length, b_width): lengths drawn at 1:b_length, widths at 1:b_width (b_width <= b_length)."""
+    boards = r.layout.lumber.boards
+    longest = max(b.size.length for b in boards)
+    widest = max(b.size.width for b in boards)
+    room = (r.width - _RIP_LABEL_ROOM) / MM
+    b_len = next((b for b in _LENGTH_SCALES if longest / b <= room), _LENGTH_SCALES[-1])
+    b_wid = next((b for b in _WIDTH_SCALES if widest / b <= _TALLEST_BOARD_MM), _WIDTH_SCALES[-1])
+    return b_len, min(b_wid, b_len)
+
+
+def _fit(text: str, size: float, room: float) -> bool:
+    from reportlab.pdfbase.pdfmetrics import stringWidth
+
+    return stringWidth(plain(text), FONT, size) <= room
+
+
+def _board_drawing(r: Report, board, b_len: float, b_wid: float) -> Drawing:
+    """One board from above, offset-0 edge at the top: rips one under another, pieces from the left end."""
+    units = r.spar.units
+    kx, ky = MM / b_len, MM / b_wid
+    w_pt, l_pt = board.size.width * ky, board.size.length * kx
+    caption_h = 12.0
+    height = w_pt + caption_h + 4
+    d = Drawing(r.width, height)
+    top = height - caption_h
+    labels = ", ".join(c.piece.label for rip in board.rips for c in rip.cuts)
+    d.add(String(0, top + 3, plain(f"{board.id}:  {board_words(board.size, units)}  (dressed "
+                                   f"{dressed_size(board.size, units)})  -  {labels}"),
+                 fontName=BOLD, fontSize=7.5))
+    d.add(Rect(0, top - w_pt, l_pt, w_pt, fillColor=colors.Color(0.86, 0.86, 0.86), strokeColor=colors.black,
+               strokeWidth=0.8))
+    for k, rip in enumerate(board.rips, start=1):
+        y1 = top - rip.offset * ky
+        y0 = y1 - rip.width * ky
+        d.add(Rect(0, y0, l_pt, y1 - y0, fillColor=None, strokeColor=colors.Color(0.45, 0.35, 0.2),
+                   strokeWidth=0.4, strokeDashArray=(2, 1.5)))
+        for cut in rip.cuts:
+            piece = cut.piece
+            x0, x1 = cut.offset * kx, (cut.offset + piece.length) * kx
+            d.add(Rect(x0, y1 - piece.width * ky, x1 - x0, piece.width * ky, fillColor=WOOD,
+                       strokeColor=colors.black, strokeWidth=0.6))
+            words = f"{piece.label}  {r.length(piece.length, tape=True)}"
+            size = min(7.0, 0.6 * piece.width * ky)
+            if not _fit(words, size, x1 - x0 - 4):
+                words = piece.label
+            d.add(String((x0 + x1) / 2, y1 - piece.width * ky / 2 - size * 0.35, plain(words), fontName=FONT,
+                         fontSize=size, textAnchor="middle"))
+        d.add(String(l_pt + 4, (y0 + y1) / 2 - 2.3, plain(f"rip {k}: {r.length(rip.width)}"), fontName=FONT,
+                     fontSize=6.5))
+    return d
+
+
+def cutting_diagrams(r: Report) -> list:
+    order = r.layout.lumber
+    b_len, b_wid = diagram_scales(r)
+    proportion = ("true proportions" if b_wid == b_len else
+                  f"widths drawn {b_len / b_wid:g} times their true proportion so the rips can be read")
+    intro = (f"Each board seen from above: lengths at 1:{b_len:g}, widths at 1:{b_wid:g} ({proportion}). "
+             f"Rips from the top edge down, each as wide as the widest segment in it, one kerf "
+             f"({r.length(r.spar.stock.kerf)}) apart; segments from the board's left end, one kerf apart. "
+             f"Segment boxes are rip widths (finished width plus {r.length(r.layout.plan.edge_allowance)} on each "
+             f"edge); grey is offcut.")
+    out = [CondPageBreak(160), r.h2("Cutting diagrams"), r.p(r.t(intro), "small"), Spacer(1, 4)]
+    for board in order.boards:
+        out += [_board_drawing(r, board, b_len, b_wid), Spacer(1, 6)]
+    return out
+
+
+# Cutter settings ------------------------------------------------------------------------------------------
+
+
+def cutter_settings(r: Report) -> list:
+    lay = r.layout
+    if lay is None or lay.machining is None:
+        return []
+    m = lay.machining
+    units = r.spar.units
+    stations = (("widest", m.widest), ("narrowest", m.narrowest))
+    listed = [cutter_rows(units, at.settings) for _, at in stations]
+    first = [["stave before the notch" if at.settings.v_face_angles else "stave, outer face",
+              f"{r.length(at.section.stave_width)} wide x {r.length(at.section.thickness)} thick"]
+             for _, at in stations]
+    heads = [f"at the widest stave, {r.where(m.widest.z)} from the heel",
+             f"at the narrowest stave, {r.where(m.narrowest.z)} from the heel"]
+    if m.notch_varies:
+        varies = ("The notch changes along the spar with the wall: between these two stations set the cutter for "
+                  "each stretch from the notch depth and apex height in the station table.")
+    elif m.widest.settings.v_face_angles:
+        varies = "The notch is the same all along the spar; only the stave width changes."
+    else:
+        varies = "The bevel is the same all along the spar; only the stave width changes."
+    either = (" Cut the V either on the table saw, pass by pass in the order given, or on the router table in one "
+              "pass." if m.widest.settings.router is not None else " Cut the passes in the order given.")
+    text = (f"How to cut the stave at the widest and the narrowest station.{either} "
+            f"{varies} {FENCE_NOTE} {GUARD_NOTE}")
+    out = [CondPageBreak(260), r.h2("Cutter settings"), r.p(r.t(text), "small"), Spacer(1, 4)]
+    same = [row.label for row in listed[0]] == [row.label for row in listed[1]]
+    label_w = 62 * MM
+    if same:
+        columns = [(heads, [first[0][1], first[1][1]], list(zip(*listed)))]
+    else:  # the two stations need different passes: one table each
+        columns = [([head], [top[1]], [(row,) for row in rows_of]) for head, top, rows_of in zip(heads, first, listed)]
+    for head, top, lines in columns:
+        value_w = (r.width - label_w) / len(head)
+        rows = [[r.p(r.t("setting"), "head")] + [r.p(r.t(h), "head") for h in head],
+                [r.p(r.t(first[0][0]), "cell")] + [r.p(r.t(v), "cell") for v in top]]
+        heading_rows = []
+        for group in lines:
+            style = "head" if group[0].heading else "cell"
+            if group[0].heading:
+                heading_rows.append(len(rows))
+            rows.append([r.p(r.t(group[0].label), style)] + [r.p(r.t(row.value), style) for row in group])
+        table = _table(rows, widths=[label_w] + [value_w] * len(head), stripes=False)
+        table.setStyle(TableStyle([("ALIGN", (1, 0), (-1, -1), "LEFT"), ("VALIGN", (0, 0), (-1, -1), "TOP")] +
+                                  [s for i in heading_rows for s in (
+                                      ("BACKGROUND", (0, i), (-1, i), colors.Color(0.88, 0.92, 0.97)),
+                                      ("LINEABOVE", (0, i), (-1, i), 0.4, RULE))]))
+        out += [table, Spacer(1, 6)]
+    return out
+
+
+# The report's parts, in order.
 SECTIONS: tuple[Section_, ...] = (title_and_verdict, cautions, summary, station_table, section_drawing, ei_plot,
-                                  cut_list, scarf_map, plugs)
+                                  cut_list, board_order, scarf_map, cutter_settings, plugs)
 
 
 # Pages ---------------------------------------------------------------------------------------------------------

@@ -1,0 +1,164 @@
+"""How cutter settings and board sizes are worded, once, for every output that prints them.
+
+The ``section`` command's table (:func:`stavegen.render.console.machining_table`)
+and the shop report's cutter settings section both print :func:`cutter_rows`;
+neither words a setting of its own. Board sizes (:func:`board_words` and its
+parts) are worded here for the report, the DXF board captions and the build
+summary alike. Figures come straight from
+:class:`~stavegen.layout.machining.CutterSettings` and
+:class:`~stavegen.layout.lumber.BoardSize`; nothing is computed here.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+from ..layout.lumber import BoardSize, LumberOrder
+from ..layout.machining import CutterSettings, Lean, SawPass
+from ..units import MM_PER_FOOT, MM_PER_INCH, format_inches, format_length, format_tape
+
+QUARTER_INCH = MM_PER_INCH / 4  # rough thickness is sold in quarters: 4/4 = 1 in, 5/4 = 1 1/4 in (lumber rules)
+
+FENCE_NOTE = ("Fence to blade: from the fence to where the blade's fence-side face meets the table.")
+GUARD_NOTE = "Use push sticks, featherboards and the guard on narrow staves."
+
+
+@dataclass(frozen=True)
+class Row:
+    """One line of the settings: ``label`` and its ``value``; ``heading`` starts a pass or a set-up."""
+
+    label: str
+    value: str
+    heading: bool = False
+
+
+def degrees(angle: float) -> str:
+    return f"{angle:.2f}°"
+
+
+def _length(units: str, mm: float | None) -> str:
+    return "—" if mm is None else format_length(mm, units)
+
+
+def _bearing(units: str, mm: float) -> str:
+    return _length(units, mm) if mm > 0 else "on a corner"
+
+
+def saw_rows(units: str, p: SawPass) -> list[Row]:
+    """The settings of one table-saw pass (after its heading)."""
+    lean = "" if p.lean is Lean.UPRIGHT else f", top leaning {p.lean}"
+    end = "through the stave" if p.through else "to the apex"
+    return [
+        Row("stave down on the table", str(p.on_table)),
+        Row("stave against the fence", str(p.on_fence)),
+        Row("blade tilt from vertical", degrees(p.tilt) + lean),
+        Row("fence to blade at the table", _length(units, p.fence_distance)),
+        Row(f"cut along the blade, {end}", _length(units, p.depth_along_blade)),
+        Row("top of the cut above the table", _length(units, p.height)),
+        Row("stave bearing behind the blade: table / fence",
+            f"{_bearing(units, p.table_contact)} / {_bearing(units, p.fence_contact)}"),
+    ]
+
+
+def cutter_rows(units: str, settings: CutterSettings) -> list[Row]:
+    """Every line of one section's cutter settings, in the order to read them, lengths in ``units``.
+
+    First the shape (V faces and notch, or the bevel), then each table-saw pass in the
+    order to cut it, then the router-table set-up when there is one.
+    """
+    rows: list[Row] = []
+    if settings.v_face_angles:
+        inner, outer = settings.v_face_angles
+        rows.append(Row("V faces to the broad face", f"inner {degrees(inner)}, outer {degrees(outer)}"))
+        rows.append(Row("notch depth / apex above the inner face",
+                        f"{_length(units, settings.notch_depth)} / {_length(units, settings.apex_height)}"))
+    else:
+        rows.append(Row("edge bevel off square", degrees(settings.bevel)))
+        rows.append(Row("rip to width: fence to blade", _length(units, settings.rip_fence_distance)))
+    for k, p in enumerate(settings.saw, start=1):
+        rows.append(Row(f"table saw, pass {k}", f"makes the {p.makes}", heading=True))
+        rows += saw_rows(units, p)
+    r = settings.router
+    if r is not None:
+        rows.append(Row("router table, 90° V-bit", "whole V in one pass", heading=True))
+        ride = f"{r.on_table}, {r.on_fence} against the fence"
+        if r.one_pass_flat:
+            ride += ", flat on the table"
+        else:
+            ride += f", on a {degrees(r.wedge_angle)} wedge, high side {r.wedge_high_side}"
+        rows += [
+            Row("stave rides on", ride),
+            Row("bit tip above the riding surface", _length(units, r.bit_height)),
+            Row("fence to bit tip", _length(units, r.fence_to_tip)),
+            Row("bit at least this wide", _length(units, r.least_bit_diameter)),
+            Row("notched edge left to ride on",
+                _length(units, r.edge_left) if r.edge_left > 0 else "none: support the outfeed side"),
+        ]
+    return rows
+
+
+# Board sizes ------------------------------------------------------------------------------------
+
+
+def _mm(mm: float) -> str:
+    """Millimetres to a tenth, without a needless ".0": ``145``, ``37.6``."""
+    return f"{round(mm, 1):g}"
+
+
+def nominal_thickness(mm: float, units: str) -> str:
+    """Nominal (rough) thickness as sold: quarters for inch stock (``5/4``), bare mm for metric."""
+    if units != "in":
+        return _mm(mm)
+    quarters = mm / QUARTER_INCH
+    if abs(quarters - round(quarters)) < 1e-6 and round(quarters) > 0:
+        return f"{round(quarters)}/4"
+    return format_inches(mm)
+
+
+def nominal_size(size: BoardSize, units: str) -> str:
+    """Nominal thickness x width: ``5/4 x 8"`` or ``25 x 150 mm``."""
+    if units == "in":
+        return f"{nominal_thickness(size.nominal_thickness, units)} x {format_inches(size.nominal_width)}"
+    return f"{_mm(size.nominal_thickness)} x {_mm(size.nominal_width)} mm"
+
+
+def dressed_size(size: BoardSize, units: str) -> str:
+    """Dressed thickness x width: ``1 x 7 1/4"`` or ``22 x 145 mm``."""
+    if units == "in":
+        return f"{format_inches(size.thickness, mark=False)} x {format_inches(size.width)}"
+    return f"{_mm(size.thickness)} x {_mm(size.width)} mm"
+
+
+def board_length(mm: float, units: str) -> str:
+    """A board's length as sold: ``14 ft`` (or ``13' 6"``), ``4200 mm``."""
+    if units == "in":
+        feet = mm / MM_PER_FOOT
+        return f"{round(feet)} ft" if abs(feet - round(feet)) < 1e-6 else format_tape(mm)
+    return f"{_mm(mm)} mm"
+
+
+def board_words(size: BoardSize, units: str) -> str:
+    """The whole size as a builder asks for it: ``5/4 x 8" x 14 ft``, ``25 x 150 x 4200 mm``."""
+    if units == "in":
+        return f"{nominal_size(size, units)} x {board_length(size.length, units)}"
+    return f"{_mm(size.nominal_thickness)} x {_mm(size.nominal_width)} x {_mm(size.length)} mm"
+
+
+def board_feet_words(board_feet: float) -> str:
+    """Board feet to a tenth: ``63.3``."""
+    return f"{board_feet:.1f}"
+
+
+def volume_words(m3: float) -> str:
+    """Cubic metres to a thousandth: ``0.153 m³``."""
+    return f"{m3:.3f} m³"
+
+
+def order_words(order: LumberOrder, units: str) -> str:
+    """The boards to buy in one line: ``7 boards, 63.3 board feet: 1 of 5/4 x 6" x 10 ft, ...``."""
+    count = sum(c.count for c in order.to_buy)
+    tally = f"{board_feet_words(order.to_buy_board_feet)} board feet"
+    if units != "in":
+        tally += f" ({volume_words(order.to_buy_volume_m3)})"
+    sizes = ", ".join(f"{c.count} of {board_words(c.size, units)}" for c in order.to_buy)
+    return f"{count} board{'s' if count != 1 else ''}, {tally}: {sizes}"
