@@ -155,6 +155,10 @@ def check_templates(result, path: Path, dxf: DxfFile, on_boards: bool = False) -
     ext_min = [float(v) for c, v in dxf.header["$EXTMIN"] if c in (10, 20)]
     ext_max = [float(v) for c, v in dxf.header["$EXTMAX"] if c in (10, 20)]
     assert ext_min[0] < ext_max[0] and ext_min[1] < ext_max[1]
+    # The header's extents hold everything ezdxf's own (exact) bounding box finds in the drawing.
+    exact = ezdxf.bbox.extents(ezdxf.readfile(path).modelspace())
+    assert ext_min[0] <= exact.extmin.x + 1e-9 and ext_min[1] <= exact.extmin.y + 1e-9
+    assert ext_max[0] >= exact.extmax.x - 1e-9 and ext_max[1] >= exact.extmax.y - 1e-9
 
     # Only the entity kinds CAM reads; colours by layer; our layers carry a colour and a lineweight.
     assert {e.kind for e in dxf.entities} <= ALLOWED

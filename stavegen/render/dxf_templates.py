@@ -177,9 +177,18 @@ class Pen:
     def __init__(self, msp, units: str) -> None:
         self.msp = msp
         self.k = to_unit(1.0, units)
+        self.low = [math.inf, math.inf]
+        self.high = [-math.inf, -math.inf]
 
     def _p(self, p: Point) -> tuple[float, float]:
-        return (p[0] * self.k, p[1] * self.k)
+        x, y = p[0] * self.k, p[1] * self.k
+        self._reach(x, y, 0.0)
+        return (x, y)
+
+    def _reach(self, x: float, y: float, r: float) -> None:
+        """Grow the drawing's extents (in file units) to hold a point and ``r`` round it."""
+        self.low[0], self.low[1] = min(self.low[0], x - r), min(self.low[1], y - r)
+        self.high[0], self.high[1] = max(self.high[0], x + r), max(self.high[1], y + r)
 
     def poly(self, points: Iterable[Point], layer: str, closed: bool = False) -> None:
         self.msp.add_lwpolyline([self._p(p) for p in points], close=closed, dxfattribs={"layer": layer})
@@ -188,13 +197,18 @@ class Pen:
         self.msp.add_line(self._p(a), self._p(b), dxfattribs={"layer": layer})
 
     def circle(self, centre: Point, radius: float, layer: str) -> None:
-        self.msp.add_circle(self._p(centre), radius * self.k, dxfattribs={"layer": layer})
+        c = self._p(centre)
+        self._reach(c[0], c[1], radius * self.k)
+        self.msp.add_circle(c, radius * self.k, dxfattribs={"layer": layer})
 
     def text(self, text: str, at: Point, height: float, layer: str,
              align: TextEntityAlignment = TextEntityAlignment.LEFT, rotation: float = 0.0) -> None:
         entity = self.msp.add_text(text, height=height * self.k, rotation=rotation,
                                    dxfattribs={"layer": layer, "style": "Standard"})
-        entity.set_placement(self._p(at), align=align)
+        where = self._p(at)
+        # Text reaches at most its length in characters times its height from where it is placed.
+        self._reach(where[0], where[1], len(text) * height * self.k)
+        entity.set_placement(where, align=align)
 
 
 def _shift(points: Iterable[Point], dx: float, dy: float) -> list[Point]:
@@ -506,17 +520,22 @@ def template_document(design: Design, place: Placer | None = None):
             sheet.draw_part(item)
     top = sheet.end_views(0.0, 2 * sheet.style.gap)
     sheet.notes(0.0, top + sheet.style.gap, on_boards=any(isinstance(i, BoardPlace) for i in items))
-    set_extents(doc)
+    set_extents(doc, pen)
     return doc
 
 
-def set_extents(doc) -> None:
-    """$EXTMIN/$EXTMAX (and the opening view) from what the modelspace holds."""
+def set_extents(doc, pen: Pen) -> None:
+    """$EXTMIN/$EXTMAX (and the opening view) from everything the pen drew.
+
+    The pen keeps the extents as it draws (text counted generously, by its
+    length in characters times its height), so nothing is measured twice.
+    """
     msp = doc.modelspace()
-    box = ezdxf.bbox.extents(msp)
-    msp.reset_extents(box.extmin, box.extmax)
+    low, high = (pen.low[0], pen.low[1], 0.0), (pen.high[0], pen.high[1], 0.0)
+    msp.reset_extents(low, high)
     doc.update_extents()
-    ezdxf.zoom.center(msp, box.center, box.size)
+    ezdxf.zoom.center(msp, ((low[0] + high[0]) / 2, (low[1] + high[1]) / 2),
+                      (high[0] - low[0], high[1] - low[1]))
 
 
 def write_templates(design: Design, path: str | Path, place: Placer | None = None) -> None:
