@@ -169,3 +169,24 @@ def test_random_layouts_keep_every_rule(length, staves, board, stagger, no_scarf
         assert exc.key in ("stock.no_scarf", "stock.scarf_stagger", "stock.lengths")
         return
     check_segments(spar, layout)
+
+
+def test_templates_thin_out_marks_too_close_to_read():
+    """Spacing marks closer than TICK_GAP give way; stations from the file, plugs and scarfs never do."""
+    from stavegen.layout.segments import TICK_GAP
+
+    spar = layout_of(plan={"stations": [[0, 120], [1003, 110], [3000, 70]]},
+                     hollow={"plug": [{"from": 0, "to": 407}]}, output={"mark_spacing": 2})
+    layout = lay_out(spar)
+    for seg in layout.segments:
+        xs = [t.x for t in seg.ticks]
+        assert xs == sorted(xs)
+        marks = [t.x for t in seg.ticks if set(t.reasons) == {"mark"}]
+        for a, b in zip(sorted(xs), sorted(xs)[1:]):
+            if a in marks or b in marks:
+                assert b - a >= TICK_GAP - 1e-9
+        zs = {round(t.z, 6) for t in seg.ticks}
+        for z in (1003.0, 407.0):
+            if seg.start < z < seg.end:
+                assert round(z, 6) in zs
+    assert sum(len(s.ticks) for s in layout.segments) < 8 * 3150 / TICK_GAP + 100

@@ -10,6 +10,7 @@ between the stations, which include every change of taper.
 
 from __future__ import annotations
 
+import bisect
 from dataclasses import dataclass
 
 import numpy as np
@@ -81,6 +82,27 @@ class Segment:
         return across(self.notch_edge), across(self.square_edge)
 
 
+TICK_GAP = 10.0  # mm: closer station marks would run their labels together on a template
+
+
+def template_ticks(candidates: list[Tick]) -> tuple[Tick, ...]:
+    """The stations marked on a template: every station the file, a plug, a segment or a scarf puts
+    there, and the evenly spaced marks that are at least :data:`TICK_GAP` from a marked one."""
+    kept = [t.x for t in candidates if set(t.reasons) != {"mark"}]
+    kept.sort()
+    marked = []
+    for tick in candidates:
+        if set(tick.reasons) != {"mark"}:
+            marked.append(tick)
+            continue
+        i = bisect.bisect_left(kept, tick.x)
+        near = [kept[j] for j in (i - 1, i) if 0 <= j < len(kept)]
+        if all(abs(tick.x - k) >= TICK_GAP for k in near):
+            bisect.insort(kept, tick.x)
+            marked.append(tick)
+    return tuple(marked)
+
+
 def make_segment(plan: StavePlan, stave: int, index: int, start: float, end: float,
                  scarf_at_start: bool, scarf_at_end: bool, scarf_length: float) -> Segment:
     """The segment of ``plan`` from z = start to end (mm) with its outline and marks."""
@@ -104,7 +126,8 @@ def make_segment(plan: StavePlan, stave: int, index: int, start: float, end: flo
     thick = [plan.thickness_at(z) for z in points_z]
     volume = sum((x1 - x0) * (w0 * t0 + w1 * t1) / 2
                  for x0, x1, w0, w1, t0, t1 in zip(xs, xs[1:], widths, widths[1:], thick, thick[1:]))
-    ticks = tuple(Tick(x=plan.s_at(st.z) - s0, z=st.z, width=st.width, reasons=st.reasons) for st in inner)
+    ticks = template_ticks([Tick(x=x, z=st.z, width=st.width, reasons=st.reasons)
+                            for x, st in zip(xs[1:-1], inner)])
     return Segment(
         stave=stave, index=index, start=start, end=end, length=xs[-1],
         scarf_at_start=scarf_at_start, scarf_at_end=scarf_at_end, scarf_length=scarf_length,

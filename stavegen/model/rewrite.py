@@ -11,22 +11,17 @@ from __future__ import annotations
 import math
 import re
 
-from ..units import MM_PER_INCH
+from ..units import MM_PER_INCH, format_inches
 from .spar import AUTO, WALL_SOLVES, Profile, Spar
 
 _TABLE = re.compile(r"^\s*\[(?!\[)([^\]]+)\]\s*(#.*)?$")
 
 
 def _up(mm: float, units: str) -> str:
-    """A length rounded up to the 1/32 in (as inches, bare) or the 0.1 mm, for a TOML value."""
+    """A length rounded up to the 1/32 in (bare inches, a string when it has a fraction) or 0.1 mm."""
     if units == "in":
-        steps = math.ceil(mm / MM_PER_INCH * 32 - 1e-9)
-        whole, num = divmod(steps, 32)
-        if num == 0:
-            return str(whole)
-        g = math.gcd(num, 32)
-        frac = f"{num // g}/{32 // g}"
-        return f'"{whole} {frac}"' if whole else f'"{frac}"'
+        text = format_inches(math.ceil(mm / MM_PER_INCH * 32 - 1e-9) * MM_PER_INCH / 32, mark=False)
+        return f'"{text}"' if "/" in text else text
     return f"{math.ceil(mm * 10 - 1e-9) / 10:g}"
 
 

@@ -11,6 +11,7 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
+import numpy as np
 import shapely
 from shapely.affinity import rotate
 from shapely.geometry import Polygon, box
@@ -92,9 +93,19 @@ def placed(polygon: Polygon, staves: int, index: int) -> Polygon:
     return rotate(polygon, index * 360.0 / staves, origin=(0.0, 0.0))
 
 
+def placed_ring(polygon: Polygon, staves: int, indices) -> np.ndarray:
+    """Staves ``indices`` of the assembled section at once (an array of polygons), turned with one matrix each."""
+    ring = np.asarray(polygon.exterior.coords)
+    angles = np.asarray(list(indices), dtype=float) * 2 * np.pi / staves
+    c, s = np.cos(angles)[:, None], np.sin(angles)[:, None]
+    x, y = ring[:, 0][None, :], ring[:, 1][None, :]
+    turned = np.stack([c * x - s * y, s * x + c * y], axis=-1)
+    return shapely.polygons(turned)
+
+
 def interference(polygon: Polygon, staves: int) -> float:
     """Largest overlap area (mm²) of stave 0 with any other stave; by symmetry half the ring suffices."""
-    others = [placed(polygon, staves, k) for k in range(1, staves // 2 + 1)]
+    others = placed_ring(polygon, staves, range(1, staves // 2 + 1))
     areas = shapely.area(shapely.intersection(polygon, others))
     return float(max(areas)) if len(areas) else 0.0
 
@@ -114,7 +125,7 @@ def enclosed_gap_reach(polygon: Polygon, staves: int) -> float | None:
     None when the ring of staves does not close round the axis. Touching faces
     are merged on a 1e-6 mm grid.
     """
-    ring = shapely.union_all([placed(polygon, staves, k) for k in range(staves)], grid_size=1e-6)
+    ring = shapely.union_all(placed_ring(polygon, staves, range(staves)), grid_size=1e-6)
     if ring.geom_type != "Polygon":
         return None
     axis = shapely.Point(0.0, 0.0)
