@@ -9,7 +9,7 @@ w = h + 2·tan(π/N)·(a_i + f·t/2) (the section model).
 import math
 
 import pytest
-from hypothesis import HealthCheck, assume, given, settings
+from hypothesis import HealthCheck, assume, event, given, settings
 from hypothesis import strategies as st
 
 from stavegen.checks.assess import assess
@@ -127,3 +127,35 @@ def test_random_spars_check_without_crashing(data):
     assert result.hollow.euler_load > 0 and result.hollow.tip_deflection > 0
     if spar.hollow.joint.kind != "birdsmouth-centered":
         assert all(c.station.section.void_area == 0 for c in result.stations)
+
+
+@settings(max_examples=6, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+@given(data=spar_files(), taper=st.sampled_from(["square-edge", "symmetric"]))
+def test_random_builds_write_files_that_readers_open(data, taper, tmp_path_factory):
+    """A whole build of a random spar: the DXF passes ezdxf's audit, both PDFs open in pypdf."""
+    import ezdxf
+    from pypdf import PdfReader
+
+    from stavegen.build import write_outputs
+    from stavegen.pipeline import design
+
+    scale = 25.4 if data["spar"]["units"] == "in" else 1.0
+    widest = max(d for _, d in data["plan"]["stations"]) * scale
+    data["hollow"]["taper"] = taper
+    wall = data["hollow"]["wall"]
+    thickest = max(t for _, t in wall) if isinstance(wall, list) else wall
+    data["stock"] = {"thickness": thickest * 1.05, "widths": [widest * 2 / scale], "lengths": [3600 / scale],
+                     "kerf": 3 / scale, "scarf_ratio": 8, "scarf_stagger": 100 / scale}
+    spar = parse_spar(data, "random.toml")
+    try:
+        result = design(spar, layout=True)
+    except DesignError as exc:  # a centred notch refused, or scarfs that cannot be placed
+        assert exc.key in ("hollow.joint", "stock.no_scarf", "stock.scarf_stagger", "stock.lengths"), exc.one_line()
+        event("refused")
+        return
+    event("built")
+    out = tmp_path_factory.mktemp("build")
+    written = {p.suffix: p for p in write_outputs(result, out)}
+    assert not ezdxf.readfile(written[".dxf"]).audit().has_errors
+    for pdf in out.glob("*.pdf"):
+        assert len(PdfReader(pdf).pages) > 0
