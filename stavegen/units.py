@@ -116,11 +116,6 @@ def to_unit(mm: float, units: str) -> float:
     return mm / _UNIT_MM[units]
 
 
-def from_unit(value: float, units: str) -> float:
-    """Millimetres from a number in the unit system's base unit."""
-    return value * _UNIT_MM[units]
-
-
 def inch_fraction(inches: float, denominator: int = 32) -> tuple[int, int, int, int]:
     """(sign, whole, numerator, denominator) of ``inches`` to the nearest 1/denominator, reduced."""
     sign = -1 if inches < 0 else 1
@@ -190,11 +185,6 @@ def format_plain(mm: float, units: str) -> str:
     if units == "in":
         return format_inches(mm, mark=False)
     return f"{mm:.1f}"
-
-
-def round_trip_tolerance_mm(units: str) -> float:
-    """Largest error :func:`format_length` makes: half a 32nd, or half a tenth of a mm."""
-    return MM_PER_INCH / 64 if units == "in" else 0.05
 
 
 # Stresses (moduli and strengths) and densities -----------------------------

@@ -2,7 +2,6 @@
 
 import os
 
-import pytest
 
 import stavegen.build as build_module
 from stavegen.build import write_outputs

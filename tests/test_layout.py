@@ -30,7 +30,6 @@ def layout_of(**changes):
 
 def check_segments(spar, layout):
     """Segments cover each stave end to end, overlapping by one scarf length at each scarf."""
-    plan = layout.plan
     stock = spar.stock
     scarf = layout.scarfs.length
     for k, segments in enumerate(layout.staves):

@@ -17,7 +17,6 @@ import os
 import re
 import shutil
 import subprocess
-from pathlib import Path
 
 import pdfplumber
 import pytest

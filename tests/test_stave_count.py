@@ -9,7 +9,7 @@ import json
 
 import pytest
 
-from stavegen.model.loader import load_spar, parse_spar
+from stavegen.model.loader import load_spar
 from stavegen.sizing.count import WORKABLE_WIDTH_OVER_THICKNESS, compare_stave_counts
 
 from conftest import SAMPLES

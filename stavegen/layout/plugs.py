@@ -2,7 +2,6 @@
 
 from __future__ import annotations
 
-import math
 from dataclasses import dataclass
 
 from ..model.spar import Plug, Spar
@@ -59,13 +58,3 @@ def plug_blocks(spar: Spar, cache: SectionCache) -> tuple[PlugBlock, ...]:
         blocks.append(PlugBlock(index=i, plug=plug, heel=heel, head=head, volume=volume,
                                 mass=plug.wood.density * 1e-9 * volume))
     return tuple(blocks)
-
-
-def plug_side_bevel(staves: int) -> float:
-    """Angle between neighbouring faces of the N-sided plug, degrees: 180° − 360°/N."""
-    return 180.0 - 360.0 / staves
-
-
-def plug_face_width(across_flats: float, staves: int) -> float:
-    """Width of one face of the N-sided plug (mm): 2·(flats/2)·tan(π/N)."""
-    return across_flats * math.tan(math.pi / staves)

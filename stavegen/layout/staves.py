@@ -78,9 +78,6 @@ class StavePlan:
         """Distance along the face (mm) from the stave's heel end to position z."""
         return float(np.interp(z, self._column("z"), self._column("s")))
 
-    def z_at(self, s: float) -> float:
-        return float(np.interp(s, self._column("s"), self._column("z")))
-
     def width_at(self, z: float) -> float:
         """Finished stave width at z (mm), straight between stations."""
         return float(np.interp(z, self._column("z"), self._column("width")))

@@ -9,7 +9,6 @@ from rich.table import Table
 from rich.text import Text
 
 from ..cautions import CAUTIONS, HEADLINE
-from ..checks.assess import Assessment
 from ..checks.ratios import StationCheck
 from ..layout.machining import CutterSettings
 from ..model.spar import Spar
@@ -229,12 +228,6 @@ def woods_table(woods: list[Wood], units: str) -> Table:
                       f"{stress_in(w.mor, system):,.0f}", f"{stress_in(w.moe, system):,.0f}", density,
                       f"[{sources.index(w.source) + 1}]")
     return table
-
-
-def assessment_summary(result: Assessment) -> str:
-    """One line for logs and the build's closing summary."""
-    w = result.weakest_stiffness
-    return f"EI ratio ≥ {w.ei_ratio:.3f}, strength ratio ≥ {result.weakest_strength.strength_ratio:.3f}"
 
 
 def candidates_table(spar: Spar, comparison) -> Table:

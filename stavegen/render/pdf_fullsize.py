@@ -296,7 +296,6 @@ class _Painter:
 def _draw_template(p: _Painter, design: Design, place: Placement) -> None:
     t = place.template
     seg = t.segment
-    units = design.spar.units
     plan = design.layout.plan
     if not p.visible(place.left, place.right, place.top, place.bottom):
         return
@@ -382,7 +381,7 @@ def _header(c, design: Design, sheet_: Sheet, title: str, right: str, detail: st
     bar, words, _ = scale_bar_length(spar)
     bx = x1 - 84 - bar
     c.setFont(BOLD, 6.5)
-    c.drawString(bx, y1 - 9, plain(f"PRINT AT ACTUAL SIZE (100 %, no scaling, not 'fit to page')."))
+    c.drawString(bx, y1 - 9, plain("PRINT AT ACTUAL SIZE (100 %, no scaling, not 'fit to page')."))
     c.setFont(FONT, 6.5)
     c.drawString(bx, y1 - 17, plain(f"This bar must measure exactly {words}; if it does not, do not cut to these pages."))
     draw_scale_bar(c, bx, y1 - 28, spar, height=5)

@@ -539,8 +539,8 @@ def _plot(r: Report, series: list[tuple[list[tuple[float, float]], colors.Color,
     d.add(String(lp.x - 4, lp.y + lp.height + 6, plain(y_words), fontName=BOLD, fontSize=7.5, textAnchor="start"))
     lx = lp.x + lp.width
     for words, colour, dash in reversed(list(legend)):
-        wtext = d.add(String(lx, lp.y + lp.height + 6, plain(words), fontName=FONT, fontSize=7.5,
-                             textAnchor="end"))
+        d.add(String(lx, lp.y + lp.height + 6, plain(words), fontName=FONT, fontSize=7.5,
+                     textAnchor="end"))
         from reportlab.pdfbase.pdfmetrics import stringWidth
 
         lx -= stringWidth(plain(words), FONT, 7.5) + 4
@@ -562,7 +562,7 @@ def ei_plot(r: Report) -> list:
     ratio = list(zip(z, [c.ei_ratio for c in a.stations]))
     target = [(z[0], a.ei_target), (z[-1], a.ei_target)]
     bands = [(p.start / unit, p.end / unit, "plug") for p in r.spar.hollow.plugs]
-    blue, orange = colors.Color(0.1, 0.3, 0.7), colors.Color(0.85, 0.4, 0.0)
+    blue = colors.Color(0.1, 0.3, 0.7)
     top = _plot(r, [(plan, colors.black, 1.2, (4, 2)), (hollow, blue, 1.4, None)], ei_words, 190, y_min=0,
                 bands=bands, legend=[("plan (solid)", colors.black, (4, 2)), ("hollow", blue, None)])
     ratios = [v for _, v in ratio]

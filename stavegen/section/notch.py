@@ -77,11 +77,6 @@ def closure_width(staves: int, inner_apothem: float, notch: Notch | None, thickn
     return notch.depth + 2 * tan_half * (inner_apothem + notch.apex_height / 2)
 
 
-def inner_apothem_for_width(staves: int, width: float, notch: Notch) -> float:
-    """The closure relation solved the other way: a_i = (w − h) / (2·tan(π/N)) − f·t/2, mm."""
-    return (width - notch.depth) / (2 * math.tan(math.pi / staves)) - notch.apex_height / 2
-
-
 def v_face_angles(staves: int) -> tuple[float, float]:
     """Angles (degrees) of the V's two faces to the stave's broad face: φ and 90° − φ.
 
