@@ -20,6 +20,7 @@ from .spar import (
     MAX_STAVES,
     MIN_STAVES,
     PAPERS,
+    SEPARATIONS,
     TAPERS,
     WALL_SOLVES,
     Hollow,
@@ -390,12 +391,25 @@ def _stock(t: _Table, units: str, length: float, hollow: Hollow) -> Stock:
         no_scarf=tuple(sorted(ranges)),
         waste=t.number("waste", 0.10, low=0.0, high=0.9),
         edge_allowance=t.length("edge_allowance", 1.5875 if imperial else 1.5, strict=False),
+        **_separation(t),
     )
     t.finish()
     if isinstance(hollow.wall, Profile) and hollow.wall.largest > thickness + 1e-9:
         raise InputError(f"boards {thickness:.1f} mm thick are thinner than the wall "
                          f"({hollow.wall.largest:.1f} mm)", "stock.thickness")
     return stock
+
+
+def _separation(t: _Table) -> dict[str, Any]:
+    """How pieces are parted on a board: a saw (its kerf) or a router (its bit's diameter, required)."""
+    how = t.string("separate_with", "saw", SEPARATIONS)
+    bit = t.length("router_bit", None)
+    if how == "router" and bit is None:
+        raise t.fail("router_bit", 'missing: separate_with = "router" needs the diameter of the bit that cuts the '
+                                   "pieces out")
+    if how == "saw" and bit is not None:
+        raise t.fail("router_bit", 'is for separate_with = "router"; the saw parts pieces by its kerf')
+    return {"separate_with": how, "router_bit": bit}
 
 
 def _output(t: _Table | None, units: str, length: float) -> OutputOptions:

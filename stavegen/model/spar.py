@@ -19,6 +19,7 @@ WALL_SOLVES = (AUTO, AUTO_TAPERED)  # hollow.wall strings the sizing step solves
 JOINTS = ("birdsmouth-flush", "birdsmouth-centered", "birdsmouth-custom", "bevel")
 TAPERS = ("square-edge", "symmetric")
 PAPERS = ("letter", "a4")
+SEPARATIONS = ("saw", "router")  # how neighbouring pieces are parted on a board (stock.separate_with)
 MIN_STAVES, MAX_STAVES = 4, 24
 
 
@@ -136,6 +137,16 @@ class Stock:
     no_scarf: tuple[tuple[float, float], ...] = ()
     waste: float = 0.10
     edge_allowance: float = 1.5875
+    separate_with: str = "saw"
+    router_bit: float | None = None
+
+    @property
+    def gap(self) -> float:
+        """Clearance between neighbouring pieces on a board (mm): the saw's kerf, or the diameter of the
+        router bit that cuts the pieces out (``separate_with = "router"``)."""
+        if self.separate_with == "router" and self.router_bit is not None:
+            return self.router_bit
+        return self.kerf
 
 
 @dataclass(frozen=True)

@@ -120,7 +120,7 @@ def _integral(spar: Spar, cache: SectionCache, per_length) -> float:
     return total
 
 
-def _evaluate(spar: Spar, staves: int, lumber_budget: float) -> Candidate:
+def _evaluate(spar: Spar, staves: int) -> Candidate:
     from .solve import size_spar
 
     trial = replace(spar, hollow=replace(spar.hollow, staves=staves))
@@ -142,7 +142,7 @@ def _evaluate(spar: Spar, staves: int, lumber_budget: float) -> Candidate:
     if not result.passed or not (low <= min(ratios) and max(ratios) <= high):
         return Candidate(**base)
     try:
-        layout = lay_out(trial, cache, lumber_budget=lumber_budget)
+        layout = lay_out(trial, cache)
     except InputError as exc:
         return Candidate(**base, stock_problem=exc.problem)
     stock = trial.stock
@@ -159,12 +159,12 @@ def _evaluate(spar: Spar, staves: int, lumber_budget: float) -> Candidate:
                      v_bit_one_pass=bool(router and router.one_pass_flat))
 
 
-def compare_stave_counts(spar: Spar, lumber_budget: float = 1.0) -> Comparison:
+def compare_stave_counts(spar: Spar) -> Comparison:
     """Lay out every stave count and choose one; InputError on hollow.staves when none will do."""
     if spar.stock is None:
         raise InputError('staves = "auto" needs a [stock] table: the choice is by the wood to buy', "hollow.staves")
     first = MIN_STAVES if spar.hollow.joint.kind == "bevel" else MIN_STAVES + 1
-    candidates = tuple(_evaluate(spar, n, lumber_budget) for n in range(first, MAX_STAVES + 1))
+    candidates = tuple(_evaluate(spar, n) for n in range(first, MAX_STAVES + 1))
     eligible = [c for c in candidates if c.eligible]
     if not eligible:
         reasons = sorted({c.why_not() for c in candidates})
