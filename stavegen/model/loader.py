@@ -455,8 +455,8 @@ def parse_spar(data: dict[str, Any], source: str = "") -> Spar:
                 source=source)
 
 
-def load_spar(path: str | Path) -> Spar:
-    """Read and validate the spar file at ``path``."""
+def read_toml(path: str | Path) -> dict[str, Any]:
+    """The parsed TOML of the file at ``path``; InputError naming the file if it cannot be read or is empty."""
     path = Path(path)
     source = str(path)
     try:
@@ -477,5 +477,9 @@ def load_spar(path: str | Path) -> Spar:
         raise InputError(f"TOML syntax error: {exc}", source=source) from None
     if not data:
         raise InputError("the file is empty (no tables); `stavegen init` writes a starter spar file", source=source)
-    return parse_spar(data, source)
+    return data
 
+
+def load_spar(path: str | Path) -> Spar:
+    """Read and validate the spar file at ``path``."""
+    return parse_spar(read_toml(path), str(path))

@@ -104,6 +104,7 @@ class Part:
     segment: Segment
     origin: Point
     marks_outside: bool = True
+    label: str | None = None  # what the part is called on the sheet, if not its segment's label
 
 
 @dataclass(frozen=True)
@@ -321,7 +322,7 @@ class TemplateSheet:
         g = gap(0)
         lo, hi = room(g)
         h = min(s.label, 0.45 * (hi - lo))
-        pen.text(seg.label, at((g[0] + g[1]) / 2, (lo + hi) / 2), h, "TEXT-LABELS",
+        pen.text(part.label or seg.label, at((g[0] + g[1]) / 2, (lo + hi) / 2), h, "TEXT-LABELS",
                  align=TextEntityAlignment.MIDDLE_CENTER)
 
         g = gap(1)
