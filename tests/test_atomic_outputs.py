@@ -13,7 +13,7 @@ from conftest import SAMPLES
 
 def test_failed_renderer_leaves_previous_outputs_untouched(run, tmp_path, monkeypatch):
     out = tmp_path / "out"
-    assert run(["build", SAMPLES / "catboat-mast.toml", "-o", out]).exit_code == 0
+    assert run(["build", SAMPLES / "daysailer-mast.toml", "-o", out]).exit_code == 0
     before = {p.name: p.read_bytes() for p in out.iterdir()}
     assert len(before) >= 2
 
@@ -25,7 +25,7 @@ def test_failed_renderer_leaves_previous_outputs_untouched(run, tmp_path, monkey
     monkeypatch.setattr(csv_cutlist, "to_csv", broken)
     # Change the spar so that a successful write would change the JSON.
     changed = tmp_path / "changed.toml"
-    changed.write_text((SAMPLES / "catboat-mast.toml").read_text().replace("margin = 0.02", "margin = 0.01"))
+    changed.write_text((SAMPLES / "daysailer-mast.toml").read_text().replace("margin = 0.02", "margin = 0.01"))
     result = run(["build", changed, "-o", out])
     assert result.exit_code == 3 and "renderer failed on purpose" in result.stderr
     after = {p.name: p.read_bytes() for p in out.iterdir()}

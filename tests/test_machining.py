@@ -254,7 +254,7 @@ def test_bevel_tilt_is_pi_over_n(n, bevel):
 
 
 def test_section_command_prints_the_table_saw_settings(run):
-    result = run(["section", SAMPLES / "catboat-mast.toml", "--at", "8 ft"])
+    result = run(["section", SAMPLES / "daysailer-mast.toml", "--at", "8 ft"])
     assert result.exit_code == 0, result.output
     out = result.output
     assert "Cutter settings" in out
@@ -265,7 +265,7 @@ def test_section_command_prints_the_table_saw_settings(run):
     from stavegen.model.loader import load_spar
     from stavegen.pipeline import resolve
 
-    spar, _ = resolve(load_spar(SAMPLES / "catboat-mast.toml"))
+    spar, _ = resolve(load_spar(SAMPLES / "daysailer-mast.toml"))
     t = float(spar.hollow.wall.at(8 * 304.8))
     a_o = float(spar.hollow.diameter.at(8 * 304.8)) / 2 + spar.hollow.planing_allowance
     width = 2 * a_o * math.tan(math.pi / 8)  # flush: the outer faces make the octagon
