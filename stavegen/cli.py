@@ -121,7 +121,8 @@ def section(
     for line in solved:
         console.print(f"[cyan]solved:[/] {line}")
     console.print(section_table(model, check_station(model, station)))
-    console.print(machining_table(model, cutter_settings(station.section)))
+    kerf = model.stock.kerf if model.stock is not None else (3.175 if model.units == "in" else 3.0)
+    console.print(machining_table(model, cutter_settings(station.section, kerf)))
 
 
 @app.command()
