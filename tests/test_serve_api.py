@@ -10,6 +10,7 @@ import csv
 import io
 import json
 import re
+import socket
 import tomllib
 import xml.etree.ElementTree as ET
 import zipfile
@@ -202,6 +203,26 @@ def test_edit_keeps_comments_and_writes_values_as_the_file_would(client):
     assert after["spar"]["length"] == before["spar"]["length"]
 
 
+def test_edit_adds_tables_where_the_file_has_none(client):
+    skiff = SAMPLES / "skiff-boom-too-light.toml"
+    ops = [{"set": "hollow.joint", "value": "birdsmouth-custom", "string": True},
+           {"set": "hollow.notch.depth", "value": "3/8"}, {"set": "hollow.notch.apex_fraction", "value": "0.3"},
+           {"set": "output.paper", "value": "a4", "string": True},
+           {"set": "plan.wood", "value": {"name": "test wood", "moe": "1.6e6 psi", "mor": "", "density": ""}}]
+    answer = client.post("/api/edit", json={"text": skiff.read_text(encoding="utf-8"), "ops": ops})
+    assert answer.status_code == 200
+    text = answer.json()["text"]
+    data = tomllib.loads(text)
+    assert data["hollow"]["notch"] == {"depth": "3/8", "apex_fraction": 0.3}
+    assert data["output"] == {"paper": "a4"}
+    assert data["plan"]["wood"] == {"name": "test wood", "moe": "1.6e6 psi"}
+    assert "\n\n[stock]" in text  # the new [hollow.notch] table ends with a blank line
+    # the loader then names the wood's first missing figure, beside which the page shows it
+    check = client.post("/api/check", params={"name": "skiff.toml"}, content=text.encode("utf-8"))
+    assert check.status_code == 422
+    assert check.json()["key"] == "plan.wood.mor"
+
+
 def test_edit_of_bad_toml_gives_the_loader_message(client):
     answer = client.post("/api/edit", params={"name": "x.toml"}, json={"text": "[spar\n", "ops": []})
     assert answer.status_code == 422
@@ -271,14 +292,22 @@ def test_serve_command_binds_loopback_and_warns_for_other_hosts(monkeypatch, run
             return None
 
     monkeypatch.setattr(serve_run.uvicorn, "Server", FakeServer)
-    result = run(["serve", CATBOAT, "--no-browser"])
+    result = run(["serve", CATBOAT, "--no-browser", "--port", "0"])
     assert result.exit_code == 0, result.stderr
-    assert started[-1].host == "127.0.0.1"
+    assert started[-1].host == "127.0.0.1" and started[-1].port == 0
     assert "warning" not in result.stderr
-    result = run(["serve", CATBOAT, "--no-browser", "--host", "0.0.0.0", "--port", "9999"])
+    result = run(["serve", CATBOAT, "--no-browser", "--host", "0.0.0.0", "--port", "0"])
     assert result.exit_code == 0
-    assert started[-1].host == "0.0.0.0" and started[-1].port == 9999
+    assert started[-1].host == "0.0.0.0"
     assert "warning: serving on 0.0.0.0" in result.stderr
+    with socket.socket() as taken:  # a port in use: one line naming --port, nothing started
+        taken.bind(("127.0.0.1", 0))
+        taken.listen()
+        count = len(started)
+        result = run(["serve", CATBOAT, "--no-browser", "--port", taken.getsockname()[1]])
+        assert result.exit_code == 2
+        assert cli_message(result).startswith("serve: --port: port ")
+        assert len(started) == count
     result = run(["serve", SAMPLES / "no-such-file.toml", "--no-browser"])
     assert result.exit_code == 2
     assert cli_message(result).endswith("no-such-file.toml: no such file")

@@ -36,7 +36,11 @@ _designs: OrderedDict[tuple[str, bytes, bool], Design | InputError] = OrderedDic
 
 
 def spar_from_text(raw: bytes, name: str) -> Spar:
-    """The validated spar of a spar file's bytes, with the messages the loader gives a file."""
+    """The validated spar of a spar file's bytes, with the messages the loader gives a file.
+
+    The three file-level messages mirror :func:`stavegen.model.loader.load_spar`'s, which reads from a
+    path only; tests/test_serve_api.py holds every bad spar file's message to the command line's.
+    """
     try:
         text = raw.decode("utf-8")
     except UnicodeDecodeError as exc:
@@ -170,7 +174,11 @@ def run(operation: str, kwargs: dict[str, Any]) -> tuple:
 
 
 def warm_up() -> None:
-    """Import what the engine needs, so that the first request is not slowed by it."""
+    """Start a worker: leave Ctrl+C to the server (which ends its workers), and import what the engine
+    needs, so that the first request is not slowed by it."""
+    import signal
+
+    signal.signal(signal.SIGINT, signal.SIG_IGN)
     from ..build import write_outputs  # noqa: F401
     from ..layout.plan import lay_out  # noqa: F401
     from ..render.json_doc import to_json  # noqa: F401

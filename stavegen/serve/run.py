@@ -2,6 +2,8 @@
 
 from __future__ import annotations
 
+import errno
+import socket
 import sys
 import threading
 import time
@@ -30,6 +32,21 @@ def is_loopback(host: str) -> bool:
     return host in LOOPBACK_HOSTS or host.startswith("127.")
 
 
+def check_port(host: str, port: int) -> None:
+    """Fail in one line, before anything starts, when the address cannot be served on."""
+    try:
+        family = socket.AF_INET6 if ":" in host else socket.AF_INET
+        with socket.socket(family, socket.SOCK_STREAM) as probe:
+            probe.setsockopt(socket.SOL_SOCKET, socket.SO_REUSEADDR, 1)
+            probe.bind((host, port))
+    except OSError as exc:
+        words = exc.strerror or str(exc)
+        if exc.errno == errno.EADDRINUSE:
+            raise InputError(f"port {port} on {host} is in use; choose another with --port", "--port",
+                             source="serve") from None
+        raise InputError(f"cannot serve on {host!r}: {words}", "--host", source="serve") from None
+
+
 def serve(path: Path | None, default: Path, host: str = "127.0.0.1", port: int = DEFAULT_PORT,
           open_browser: bool = True) -> None:
     """Serve the page for ``path`` (or the bundled ``default``) until interrupted."""
@@ -38,6 +55,7 @@ def serve(path: Path | None, default: Path, host: str = "127.0.0.1", port: int =
         text, name = default.read_text(encoding="utf-8"), default.name
     else:
         text, name = read_spar_text(path), str(path)
+    check_port(host, port)
     allowed = list(LOOPBACK_HOSTS)
     if not is_loopback(host):
         sys.stderr.write(f"stavegen: warning: serving on {host}, not only this machine: anyone who can reach it "
@@ -62,4 +80,8 @@ def serve(path: Path | None, default: Path, host: str = "127.0.0.1", port: int =
             webbrowser.open(url)
 
     threading.Thread(target=announce, daemon=True).start()
-    server.run()
+    try:
+        server.run()
+    except KeyboardInterrupt:  # Ctrl+C is how the server is meant to stop
+        pass
+    sys.stdout.write("stavegen: the server has stopped\n")

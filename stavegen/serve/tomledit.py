@@ -83,7 +83,7 @@ def to_item(value: Any, as_string: bool = False) -> Item | None:
     raise EditError(f"cannot write a {type(value).__name__} into a spar file")
 
 
-def _step(node: Any, part: str | int, key: str, create: bool) -> Any:
+def _step(node: Any, part: str | int, key: str, create: bool, created: list | None = None) -> Any:
     if isinstance(part, int):
         if not isinstance(node, (list, AoT)) or part >= len(node):
             raise EditError("no such item in the file", key)
@@ -94,13 +94,15 @@ def _step(node: Any, part: str | int, key: str, create: bool) -> Any:
         if not create:
             raise EditError("no such key in the file", key)
         node[part] = tomlkit.table()
+        if created is not None:
+            created.append(node[part])
     return node[part]
 
 
-def _parent(doc: Any, parts: list[str | int], key: str, create: bool) -> Any:
+def _parent(doc: Any, parts: list[str | int], key: str, create: bool, created: list | None = None) -> Any:
     node = doc
     for part in parts[:-1]:
-        node = _step(node, part, key, create)
+        node = _step(node, part, key, create, created)
     return node
 
 
@@ -113,14 +115,15 @@ def _keep_comment_column(old: Item, new: Item) -> None:
     new.trivia.comment_ws = " " * max(1, len(old.trivia.comment_ws) + shift)
 
 
-def set_value(doc: Any, key: str, value: Any, as_string: bool = False) -> None:
-    """Set (or, for None or an empty text, remove) ``key``; tables on the way are made as needed."""
+def set_value(doc: Any, key: str, value: Any, as_string: bool = False, created: list | None = None) -> None:
+    """Set (or, for None or an empty text, remove) ``key``; tables on the way are made as needed (and
+    listed in ``created``)."""
     parts = parse_key(key)
     item = to_item(value, as_string)
     if item is None:
         delete(doc, key, missing_ok=True)
         return
-    parent = _parent(doc, parts, key, create=True)
+    parent = _parent(doc, parts, key, create=True, created=created)
     last = parts[-1]
     if isinstance(last, int):
         if not isinstance(parent, list) or last >= len(parent):
@@ -196,11 +199,12 @@ def apply_edits(text: str, ops: list[dict[str, Any]], source: str = "") -> str:
     if not ops:
         return text
     doc = tomlkit.parse(text)
+    created: list = []
     for op in ops:
         if not isinstance(op, dict):
             raise EditError("each edit is a table: set, delete or append")
         if "set" in op:
-            set_value(doc, str(op["set"]), op.get("value"), bool(op.get("string")))
+            set_value(doc, str(op["set"]), op.get("value"), bool(op.get("string")), created)
         elif "delete" in op:
             delete(doc, str(op["delete"]), missing_ok=True)
         elif "append" in op:
@@ -210,6 +214,9 @@ def apply_edits(text: str, ops: list[dict[str, Any]], source: str = "") -> str:
             append_table(doc, str(op["append"]), values)
         else:
             raise EditError("each edit is one of set, delete or append")
+    for table in created:  # a blank line after a table the edits added, before the next one
+        if len(table):
+            table.add(tomlkit.nl())
     result = tomlkit.dumps(doc)
     syntax_check(result, source)  # an edit must never leave a file the loader cannot read
     return result
