@@ -202,3 +202,36 @@ def test_page_follows_the_edits_and_builds_what_the_cli_builds(page, run, tmp_pa
 
     # the stave counts compared again: this wall makes no count meet the target, and the page says so
     compare_counts_as_the_cli(page, run)
+
+
+def test_keystroke_to_update_on_each_sample(page, record_property, capsys):
+    """Type into the margin field of each bundled sample, one key at a time, and time the page's update
+    (the page measures from the keystroke, its 250 ms pause for more typing included, to the last drawing)."""
+    from selenium.webdriver.support.ui import Select
+
+    found = {}
+    for sample in sorted(SAMPLES.glob("*.toml")):
+        before = page.updates()
+        Select(page.find("#samples")).select_by_value(sample.name)
+        page.settle(before)
+        assert page.find("#file-name").text == sample.name
+        page.type_into('input[data-key="hollow.margin"]', "0.0")
+        field = page.find('input[data-key="hollow.margin"]')
+        timings = []
+        for key in "1234":
+            before = page.updates()
+            field.send_keys(key)
+            page.settle(before)
+            last = page.driver.execute_script("return window.stavegenTimings[window.stavegenTimings.length - 1]")
+            assert last["ok"] is True
+            timings.append((last["afterKeystrokeMs"], last["afterRequestMs"]))
+        assert page.find('input[data-key="hollow.margin"]').get_attribute("value") == "0.01234"
+        found[sample.name] = timings
+    with capsys.disabled():
+        print("\nkeystroke to updated page (ms; median, max; 250 ms of it is the pause for more typing):")
+        for name, timings in found.items():
+            key = [t[0] for t in timings]
+            req = [t[1] for t in timings]
+            print(f"  {name}: after the keystroke {statistics.median(key):.0f}, {max(key):.0f}; "
+                  f"server and drawing {statistics.median(req):.0f}, {max(req):.0f}")
+            record_property(f"keystroke_ms_{name}", [round(k) for k in key])
