@@ -213,5 +213,21 @@ def build(
         raise typer.Exit(EXIT_MISSED)
 
 
+@app.command()
+@reports_errors
+def serve(
+    spar: Optional[Path] = typer.Argument(None, help="The spar file (TOML) to open; none opens the bundled example.",
+                                          show_default=False),
+    port: int = typer.Option(8471, "--port", help="Port to serve on (0: any free port)."),
+    host: str = typer.Option("127.0.0.1", "--host", help="Address to serve on; anything but the loopback "
+                                                         "address lets other machines reach the page."),
+    no_browser: bool = typer.Option(False, "--no-browser", help="Do not open the browser."),
+) -> None:
+    """The builder's page: edit the spar in a browser, watch the check and the section, download the papers."""
+    from .serve.run import serve as run_server
+
+    run_server(spar, bundled_sample(), host=host, port=port, open_browser=not no_browser)
+
+
 def main() -> None:  # console-script entry point
     app()
