@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 from dataclasses import dataclass
+from types import SimpleNamespace
 from typing import Callable
 
 from ..errors import InputError
@@ -11,33 +12,11 @@ from ..section.properties import Section
 from ..stations.evaluate import SectionCache
 from ..stations.grid import station_marks
 from .lumber import LumberOrder, Piece, order_lumber
-from .machining import CutterSettings, cutter_settings
+from .operations import Machining, StationSettings, blank_for, machining  # noqa: F401  (re-exported)
 from .plugs import PlugBlock, plug_blocks
 from .scarfs import ScarfAim, ScarfPlan, ScarfRules, aim_scarfs, segment_bounds
 from .segments import Segment, make_segment
 from .staves import StavePlan, stave_plan
-
-
-@dataclass(frozen=True)
-class StationSettings:
-    """Cutter settings for the stave section at one position z (mm from the heel)."""
-
-    z: float
-    section: Section
-    settings: CutterSettings
-
-
-@dataclass(frozen=True)
-class Machining:
-    """Cutter settings at the widest and the narrowest stave stations (the same when the notch is)."""
-
-    widest: StationSettings
-    narrowest: StationSettings
-
-    @property
-    def notch_varies(self) -> bool:
-        a, b = self.widest.settings, self.narrowest.settings
-        return (a.notch_depth, a.apex_height) != (b.notch_depth, b.apex_height)
 
 
 @dataclass(frozen=True)
@@ -100,22 +79,29 @@ def lay_out(spar: Spar, cache: SectionCache | None = None, step: Callable[[str],
     rules = scarf_rules(spar, base)
     if step is not None:
         step("placing the scarfs for the boards")
-    choice = aim_scarfs(base, spar.length, spar.hollow.staves, rules, spar.stock)
+    choice = aim_scarfs(base, spar.length, spar.hollow.staves, rules, spar.stock, rough=_rough_width(spar))
     for scarfs in dict.fromkeys((choice.plan, choice.slack_first)):
         plan, staves = _segments(spar, cache, base, scarfs, rules)
         if step is not None:
+            step("working out the cutter settings")
+        shop = machining(spar, plan, staves, cache)
+        if step is not None:
             step("ordering lumber")
+        rough = {s.label: s.rough_width for s in shop.segments}
         pieces = [Piece(label=seg.label, stave=seg.stave, segment=seg.index, length=seg.length,
-                        width=seg.rough_width, volume=seg.volume) for stave in staves for seg in stave]
+                        width=rough[seg.label], volume=seg.volume) for stave in staves for seg in stave]
         lumber = order_lumber(pieces, spar.stock, units=spar.units)
-        aimed_as_measured = choice.aim is None or lumber.board_feet <= choice.aim.board_feet + 1e-6
-        if aimed_as_measured or scarfs is choice.slack_first:
+        # the aimed scarfs were measured on the plan before its segments were cut: should the cut segments need
+        # more than measured, the slack-first scarfs are laid out instead
+        if choice.aim is None or lumber.board_feet <= choice.aim.board_feet + 1e-6 or scarfs is choice.slack_first:
             break
-    if step is not None:
-        step("working out the cutter settings")
-    return Layout(plan=plan, scarfs=scarfs, staves=tuple(staves), plugs=plug_blocks(spar, cache),
-                  machining=machining_at_extremes(spar, plan, cache), lumber=lumber,
-                  scarf_aim=choice.aim if scarfs is choice.plan else None)
+    return Layout(plan=plan, scarfs=scarfs, staves=staves, plugs=plug_blocks(spar, cache), machining=shop,
+                  lumber=lumber, scarf_aim=choice.aim if scarfs is choice.plan else None)
+
+
+def _rough_width(spar: Spar) -> Callable[[float], float]:
+    """The rip width of a segment from its widest finished width (mm), as the machining's blank has it."""
+    return lambda widest: blank_for(spar, SimpleNamespace(widest=widest), 0.0)[1]
 
 
 def _segments(spar: Spar, cache: SectionCache, base: StavePlan, scarfs: ScarfPlan,
@@ -132,14 +118,4 @@ def _segments(spar: Spar, cache: SectionCache, base: StavePlan, scarfs: ScarfPla
             make_segment(plan, k, i + 1, a, b, scarf_at_start=i > 0, scarf_at_end=i < last,
                          scarf_length=rules.length)
             for i, (a, b) in enumerate(stave_bounds)))
-    return plan, staves
-
-
-def machining_at_extremes(spar: Spar, plan: StavePlan, cache: SectionCache) -> Machining:
-    """Cutter settings where the stave is widest and narrowest on the finished spar."""
-    inside = [st for st in plan.stations if 0 <= st.z <= spar.length]
-    found = []
-    for station in (max(inside, key=lambda st: st.width), min(inside, key=lambda st: st.width)):
-        section = cache.at(station.z)
-        found.append(StationSettings(z=station.z, section=section, settings=cutter_settings(section)))
-    return Machining(widest=found[0], narrowest=found[1])
+    return plan, tuple(staves)

@@ -43,7 +43,7 @@ from __future__ import annotations
 import itertools
 import math
 from dataclasses import dataclass
-from typing import Sequence
+from typing import Callable, Sequence
 
 import numpy as np
 from scipy.optimize import Bounds, LinearConstraint, milp
@@ -301,11 +301,11 @@ class ScarfChoice:
 class _Geometry:
     """Face lengths and rip widths of stave pieces, read off the stave plan (straight between stations)."""
 
-    def __init__(self, plan: StavePlan) -> None:
+    def __init__(self, plan: StavePlan, rough: Callable[[float], float] | None = None) -> None:
         self.z = np.array([st.z for st in plan.stations])
         self.s = np.array([st.s for st in plan.stations])
         self.width = np.array([st.width for st in plan.stations])
-        self.edge = plan.edge_allowance
+        self.rough = rough or (lambda widest: widest + 2 * plan.edge_allowance)
 
     def s_at(self, z: float) -> float:
         return float(np.interp(z, self.z, self.s))
@@ -317,7 +317,7 @@ class _Geometry:
         """(face length, rip width) of the stave from z = a to b."""
         inside = self.width[(self.z > a) & (self.z < b)]
         ends = np.interp([a, b], self.z, self.width)
-        return self.s_at(b) - self.s_at(a), float(max(ends.max(), inside.max(initial=0.0))) + 2 * self.edge
+        return self.s_at(b) - self.s_at(a), self.rough(float(max(ends.max(), inside.max(initial=0.0))))
 
 
 def _adjacent(phases: int) -> list[tuple[int, int]]:
@@ -403,16 +403,17 @@ class _Aim:
 
 
 def aim_scarfs(plan: StavePlan, spar_length: float, staves: int, rules: ScarfRules, stock: Stock,
-               work: AimWork = AIM) -> ScarfChoice:
+               work: AimWork = AIM, rough: Callable[[float], float] | None = None) -> ScarfChoice:
     """Scarfs that keep every rule and need the fewest board feet of the placements tried (see the module).
 
-    ``plan`` is the stave before its segments are cut (its stations give face lengths and widths). Raises
-    DesignError as :func:`place_scarfs` does when no placement keeps the rules.
+    ``plan`` is the stave before its segments are cut (its stations give face lengths and widths);
+    ``rough(widest)`` is a segment's rip width from its widest finished width (default: an edge allowance on
+    each edge). Raises DesignError as :func:`place_scarfs` does when no placement keeps the rules.
     """
     base = place_scarfs(plan.start, plan.end, plan.cut_length, spar_length, staves, rules)
     if base.count == 0:
         return ScarfChoice(base, base, None)
-    aim = _Aim(_Geometry(plan), plan.start, plan.end, spar_length, rules, stock)
+    aim = _Aim(_Geometry(plan, rough), plan.start, plan.end, spar_length, rules, stock)
     phases = base.phases
     n_phases = max(phases) + 1
     first = {p: phases.index(p) for p in range(n_phases)}
