@@ -105,10 +105,7 @@ def slack_first_order(spar: Spar):
     base = layout_plan.stave_plan(spar, station_marks(spar), cache)
     rules = layout_plan.scarf_rules(spar, base)
     scarfs = place_scarfs(base.start, base.end, base.cut_length, spar.length, spar.hollow.staves, rules)
-    _, staves = layout_plan._segments(spar, cache, base, scarfs, rules)
-    pieces = [Piece(seg.label, seg.stave, seg.index, seg.length, seg.rough_width, seg.volume)
-              for stave in staves for seg in stave]
-    return order_lumber(pieces, spar.stock, units=spar.units)
+    return layout_plan.cut_and_order(spar, cache, base, scarfs, rules)[3]
 
 
 def main() -> None:

@@ -22,6 +22,7 @@ app = typer.Typer(
 )
 
 DEFAULT_SAMPLE = "daysailer.toml"  # a boat; its spar files lie beside it
+DEFAULT_SPAR = "daysailer-mast.toml"  # one spar of that boat, for what takes a spar file only (serve)
 EXIT_MISSED = 1
 EXIT_BAD_INPUT = 2
 
@@ -244,7 +245,7 @@ def serve(
     """The builder's page: edit the spar in a browser, watch the check and the section, download the papers."""
     from .serve.run import serve as run_server
 
-    run_server(spar, bundled_sample(), host=host, port=port, open_browser=not no_browser)
+    run_server(spar, bundled_sample(DEFAULT_SPAR), host=host, port=port, open_browser=not no_browser)
 
 
 def main() -> None:  # console-script entry point

@@ -87,9 +87,11 @@ def test_every_segment_is_cut_once_under_a_unique_label(built):
     rows = list(csv.reader(io.StringIO(to_boat_csv(built))))
     head = rows[0]
     label, board = head.index("label"), head.index("board")
+    segments = rows[1:rows.index([])] if [] in rows else rows[1:]
     on_board = {p["label"]: b["board"] for b in doc["stock"]["cutting"] for r in b["rips"] for p in r["pieces"]}
-    assert sorted(row[label] for row in rows[1:]) == sorted(wanted)
-    assert all(on_board[row[label]] == row[board] for row in rows[1:])
+    assert sorted(row[label] for row in segments) == sorted(wanted)
+    assert all(on_board[row[label]] == row[board] for row in segments)
+    assert all(len(row) == len(head) for row in segments)
 
 
 def test_the_boat_order_against_the_spars_bought_alone(built):
@@ -133,7 +135,7 @@ def _spar(name: str, length: float, diameter: float, staves: int, wall: float) -
     }
 
 
-@settings(max_examples=6, deadline=None, suppress_health_check=[HealthCheck.function_scoped_fixture])
+@settings(max_examples=5, deadline=None, suppress_health_check=[HealthCheck.function_scoped_fixture])
 @given(spars=st.lists(st.tuples(st.floats(1500, 6000), st.floats(50, 110), st.sampled_from([6, 8, 12])),
                       min_size=2, max_size=3),
        lengths=st.sampled_from([[2400, 3000], [2400, 3000, 3600], [3000, 4200]]),

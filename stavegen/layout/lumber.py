@@ -79,7 +79,7 @@ class Work:
     """
 
     rounds: int = 120
-    nodes: int = 4000
+    nodes: int = 1000
     time_guard: float = 120.0
 
 
@@ -996,13 +996,19 @@ def order_lumber(pieces: list[Piece] | tuple[Piece, ...], stock: Stock, *, units
                      stopped_by_clock=out.stopped_by_clock)
 
 
-def _order_of(boards: list[Board], sizes: list[BoardSize], stock: Stock, stave_volume: float, **figures) -> LumberOrder:
+def _order_of(boards: list[Board], sizes: list[BoardSize], stock: Stock, stave_volume: float,
+              spares: tuple[SizeCount, ...] | None = None, **figures) -> LumberOrder:
+    """The order of ``boards``: the boards used, and to buy them with the waste allowance (or ``spares``, an
+    order to buy that already holds every board used and the allowance, if it buys fewer board feet)."""
     tally: dict[int, int] = defaultdict(int)
     index = {z: i for i, z in enumerate(sizes)}
     for b in boards:
         tally[index[b.size]] += 1
     used = tuple(SizeCount(sizes[i], n) for i, n in sorted(tally.items()))
-    return LumberOrder(boards=tuple(boards), used=used, to_buy=add_waste(used, stock.waste), waste=stock.waste,
+    to_buy = add_waste(used, stock.waste)
+    if spares is not None and sum(c.board_feet for c in spares) < sum(c.board_feet for c in to_buy):
+        to_buy = spares
+    return LumberOrder(boards=tuple(boards), used=used, to_buy=to_buy, waste=stock.waste,
                        stave_volume=stave_volume, gap=stock.gap, **figures)
 
 
@@ -1043,15 +1049,23 @@ def side_by_side(orders: list[LumberOrder], stock: Stock, lower_bound: float, bo
     """One order holding every board of ``orders`` as each cuts it, renumbered B1, B2, ...
 
     For pieces ordered apart and then together: when cutting them apart is no worse, this
-    is the plan. ``lower_bound`` must be a bound for all the pieces together (the bound of
-    the order made for them together); the plan is proven least when it meets it.
+    is the plan. It buys what the orders buy between them (each with its own spares), or
+    the boards used with the waste allowance on their sum, whichever is less. ``lower_bound``
+    must be a bound for all the pieces together (the bound of the order made for them
+    together); the plan is proven least when it meets it.
     """
     sizes = _sizes(stock)
     boards = [b for order in orders for b in order.boards]
     boards.sort(key=lambda b: (-b.size.width, -b.size.length))
     boards = [Board(f"B{i + 1}", b.size, b.rips) for i, b in enumerate(boards)]
     cost = sum(b.size.board_feet for b in boards)
-    return _order_of(boards, sizes, stock, sum(o.stave_volume for o in orders), lower_bound_board_feet=lower_bound,
+    bought: dict[BoardSize, int] = defaultdict(int)  # each order's boards to buy, spares and all
+    for order in orders:
+        for c in order.to_buy:
+            bought[c.size] += c.count
+    spares = tuple(SizeCount(z, bought[z]) for z in sizes if bought.get(z))
+    return _order_of(boards, sizes, stock, sum(o.stave_volume for o in orders), spares=spares,
+                     lower_bound_board_feet=lower_bound,
                      method="each order kept apart", proven_optimal=cost <= lower_bound * (1 + 1e-9) + 1e-9,
                      bound_is_lp=bound_is_lp, notes=tuple(dict.fromkeys(n for o in orders for n in o.notes)),
                      stopped_by_clock=any(o.stopped_by_clock for o in orders))

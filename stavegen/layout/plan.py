@@ -81,22 +81,29 @@ def lay_out(spar: Spar, cache: SectionCache | None = None, step: Callable[[str],
         step("placing the scarfs for the boards")
     choice = aim_scarfs(base, spar.length, spar.hollow.staves, rules, spar.stock, rough=_rough_width(spar))
     for scarfs in dict.fromkeys((choice.plan, choice.slack_first)):
-        plan, staves = _segments(spar, cache, base, scarfs, rules)
-        if step is not None:
-            step("working out the cutter settings")
-        shop = machining(spar, plan, staves, cache)
-        if step is not None:
-            step("ordering lumber")
-        rough = {s.label: s.rough_width for s in shop.segments}
-        pieces = [Piece(label=seg.label, stave=seg.stave, segment=seg.index, length=seg.length,
-                        width=rough[seg.label], volume=seg.volume) for stave in staves for seg in stave]
-        lumber = order_lumber(pieces, spar.stock, units=spar.units)
+        plan, staves, shop, lumber = cut_and_order(spar, cache, base, scarfs, rules, step)
         # the aimed scarfs were measured on the plan before its segments were cut: should the cut segments need
         # more than measured, the slack-first scarfs are laid out instead
         if choice.aim is None or lumber.board_feet <= choice.aim.board_feet + 1e-6 or scarfs is choice.slack_first:
             break
     return Layout(plan=plan, scarfs=scarfs, staves=staves, plugs=plug_blocks(spar, cache), machining=shop,
                   lumber=lumber, scarf_aim=choice.aim if scarfs is choice.plan else None)
+
+
+def cut_and_order(spar: Spar, cache: SectionCache, base: StavePlan, scarfs: ScarfPlan, rules: ScarfRules,
+                  step: Callable[[str], None] | None = None):
+    """The segments of ``scarfs``, their cutter settings and the boards they are cut from:
+    (stave plan, staves, machining, lumber order)."""
+    plan, staves = _segments(spar, cache, base, scarfs, rules)
+    if step is not None:
+        step("working out the cutter settings")
+    shop = machining(spar, plan, staves, cache)
+    if step is not None:
+        step("ordering lumber")
+    rough = {s.label: s.rough_width for s in shop.segments}
+    pieces = [Piece(label=seg.label, stave=seg.stave, segment=seg.index, length=seg.length,
+                    width=rough[seg.label], volume=seg.volume) for stave in staves for seg in stave]
+    return plan, staves, shop, order_lumber(pieces, spar.stock, units=spar.units)
 
 
 def _rough_width(spar: Spar) -> Callable[[float], float]:

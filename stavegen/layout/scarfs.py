@@ -263,8 +263,8 @@ class AimWork:
 
     fills: int = 3  # a segment is aimed at a board length, or 1/2 ... 1/fills of one
     sequences: int = 2000  # most placements generated per phase
-    per_phase: int = 8  # placements of each phase kept after the quick estimate
-    combined: int = 4  # whole placements ordered with the lumber solver's light work
+    per_phase: int = 12  # placements of each phase kept after the quick estimate
+    combined: int = 8  # whole placements ordered with the lumber solver's light work
     light: Work = Work(rounds=20, nodes=200)
     full: Work = WORK
 

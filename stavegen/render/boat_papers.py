@@ -59,17 +59,33 @@ def to_boat_json(bd: BoatDesign) -> str:
 
 
 def boat_cutlist_rows(bd: BoatDesign) -> list[list[str]]:
-    """Header and one row per segment of every spar, spar by spar: the spar, then its cut list row."""
-    rows: list[list[str]] = []
-    for i, (bs, _) in enumerate(bd.spars):
+    """Every spar's cut list in one table, in the boat's units: the spar's tag and name in front of each row.
+
+    A spar that misses its target says so first (its cut list's own warning line, after its tag); then one
+    header (every spar's columns, in order of first appearance: spars differ in their passes); then each spar's
+    segments, boat-wide labels and the boat's boards; then each spar's order of operations.
+    """
+    warnings: list[list[str]] = []
+    header: list[str] = []
+    body: list[dict[str, str]] = []
+    tail: list[list[str]] = []
+    for i, (bs, d) in enumerate(bd.spars):
         own = cutlist_rows(bd.spar_view(i, units=bd.boat.units))
-        if not rows:
-            rows.append(["spar", "spar name"] + own[0])
-        for row in own[1:]:
-            row = list(row)
-            row[LABEL] = bs.label(row[LABEL])
-            rows.append([bs.tag, bs.spar.name] + row)
-    return rows
+        at = next(k for k, row in enumerate(own) if row[:3] == ["stave", "segment", "label"])
+        warnings += [[f"{bs.tag} ({d.spar.name}): {row[0]}"] for row in own[:at] if row]
+        names = own[at]
+        header += [name for name in names if name not in header]
+        end = next((k for k in range(at + 1, len(own)) if not own[k]), len(own))
+        for row in own[at + 1:end]:
+            cells = dict(zip(names, row))
+            cells["label"] = bs.label(cells["label"])
+            body.append(cells)
+            cells["spar"], cells["spar name"] = bs.tag, d.spar.name
+        rest = [row for row in own[end + 1:]]
+        if rest:
+            tail += [[], [f"{bs.tag}: {d.spar.name}: {rest[0][0]}"]] + rest[1:]
+    header = ["spar", "spar name"] + header
+    return warnings + [header] + [[cells.get(name, "") for name in header] for cells in body] + tail
 
 
 def to_boat_csv(bd: BoatDesign) -> str:
