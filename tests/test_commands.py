@@ -59,10 +59,10 @@ def test_stations_include_marks_file_stations_and_plug_ends(run):
 
 
 def test_section_command(run):
-    result = run(["section", SAMPLES / "daysailer-mast.toml", "--at", "7 ft 6 in"])
+    result = run(["section", SAMPLES / "daysailer-boom.toml", "--at", "7 ft 6 in"])  # eight staves
     assert result.exit_code == 0, result.output
     assert "stave width" in result.stdout and "45.00°" in result.stdout
-    bad = run(["section", SAMPLES / "daysailer-mast.toml", "--at", "30 ft"])
+    bad = run(["section", SAMPLES / "daysailer-boom.toml", "--at", "30 ft"])
     assert bad.exit_code == 2 and "--at" in bad.stderr
 
 

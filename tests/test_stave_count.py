@@ -18,8 +18,8 @@ from conftest import SAMPLES
 @pytest.fixture(scope="module")
 def auto_mast(tmp_path_factory):
     text = (SAMPLES / "daysailer-mast.toml").read_text()
-    text = text.replace("staves = 8", 'staves = "auto"          # chosen by stavegen')
-    text = text.replace('wall = "11/16"', 'wall = "auto"')
+    text = text.replace("staves = 12", 'staves = "auto"          # chosen by stavegen')
+    text = text.replace('wall = "5/8"', 'wall = "auto"')
     path = tmp_path_factory.mktemp("auto") / "auto-mast.toml"
     path.write_text(text)
     return path
