@@ -11,6 +11,7 @@ outlines are at least the order's gap apart (the kerf, or the router bit).
 
 from __future__ import annotations
 
+import textwrap
 from pathlib import Path
 
 from ..boat import BoatDesign
@@ -57,7 +58,8 @@ def _notes(bd: BoatDesign, sheet: TemplateSheet, top: float) -> None:
         f"stave, segment. {spars}.",
         f"Check the scale before cutting: the line below must measure {sheet.size(check)}.",
     ]
-    bottom = top - 2 * s.gap
+    lines = [part for line in lines for part in textwrap.wrap(line, 90)]  # short lines keep the extents tight
+    bottom = top - (len(lines) * 1.8 + 4) * s.text
     pen.line((0.0, bottom), (check, bottom), "SHEET-NOTES")
     y = bottom + 2.5 * s.text
     for line in reversed(lines):
