@@ -79,7 +79,7 @@ class Work:
     """
 
     rounds: int = 120
-    nodes: int = 1000
+    nodes: int = 1500
     time_guard: float = 120.0
 
 
