@@ -20,6 +20,7 @@ JOINTS = ("birdsmouth-flush", "birdsmouth-centered", "birdsmouth-custom", "bevel
 TAPERS = ("square-edge", "symmetric")
 PAPERS = ("letter", "a4")
 MIN_STAVES, MAX_STAVES = 4, 24
+SLUG_LONGEST = 60  # characters of the file-name stem made from the spar's name
 
 
 @dataclass(frozen=True)
@@ -159,14 +160,22 @@ class Spar:
     stock: Stock | None
     output: OutputOptions = field(default_factory=OutputOptions)
     source: str = ""
+    notices: tuple[str, ...] = ()
+    """Warnings the loader found (unlikely figures), one line each; the pipeline passes them on."""
 
     @property
     def slug(self) -> str:
-        """File-name stem for outputs: lowercase words joined by hyphens."""
+        """File-name stem for outputs: lowercase words joined by hyphens, cut at a word to 60 characters."""
         import re
 
-        words = re.findall(r"[a-z0-9]+", self.name.lower())
-        return "-".join(words) or "spar"
+        slug = ""
+        for word in re.findall(r"[a-z0-9]+", self.name.lower()):
+            joined = f"{slug}-{word}" if slug else word
+            if len(joined) > SLUG_LONGEST:
+                slug = slug or word[:SLUG_LONGEST]
+                break
+            slug = joined
+        return slug or "spar"
 
     @property
     def resolved(self) -> bool:
