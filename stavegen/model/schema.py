@@ -82,8 +82,8 @@ class Key:
     loader works out. ``field`` names the dataclass field a generic kind fills (None: read by hand).
     ``low``/``high`` bound a number (``low_open``: strictly above ``low``); a length must be positive, or
     only not negative with ``zero_ok``. ``longest`` caps a text's characters. ``example`` is what the
-    starter file writes (a PerUnit of TOML text); without one the starter writes the key commented out
-    at its default. ``note`` is a longer explanation for the reference, ``choice_notes`` one per choice.
+    starter file writes (a PerUnit of TOML text); without one the starter writes the key commented out,
+    at ``aside`` (a value to show, for keys whose default is in words or unset) or else at its default. ``note`` is a longer explanation for the reference, ``choice_notes`` one per choice.
     """
 
     name: str
@@ -98,6 +98,7 @@ class Key:
     zero_ok: bool = False
     longest: int | None = None
     example: PerUnit | None = None
+    aside: PerUnit | None = None
     note: str = ""
     choice_notes: dict[str, str] = _field(default_factory=dict)
 
@@ -122,6 +123,7 @@ class Table:
     required: bool = False
     array: bool = False
     note: str = ""
+    short: str = ""  # the comment on the table's line in the starter file
 
     def __post_init__(self) -> None:
         names = [k.name for k in self.keys]
@@ -155,7 +157,8 @@ SPAR = Table("spar", "What the spar is and the unit the file is written in.", re
     Key("length", "length", "heel to head, finished", example=_u('"16 ft"', '"4.9 m"')),
 ))
 
-PLAN = Table("plan", "The solid spar drawn in the plans: the stiffness and strength target.", required=True, keys=(
+PLAN = Table("plan", "The solid spar drawn in the plans: the stiffness and strength target.", required=True,
+             short="the solid spar in the plans: the stiffness target", keys=(
     Key("wood", "wood", "the wood the plans specify", example=_u('"sitka-spruce"', '"sitka-spruce"')),
     Key("stations", "stations", "the plan's diameters, heel (0) to head (the spar's length)",
         example=_u('[[0, 3.5], ["5 ft", 3.5], ["12 ft", 3.0], ["16 ft", 2.0]]',
@@ -165,25 +168,28 @@ PLAN = Table("plan", "The solid spar drawn in the plans: the stiffness and stren
              "(no spar tapers that fast), and a jump of 1.8 times or more is warned of."),
 ))
 
-NOTCH = Table("hollow.notch", "Your own cutter's notch, for `joint = \"birdsmouth-custom\"` only.", keys=(
+NOTCH = Table("hollow.notch", "Your own cutter's notch, for `joint = \"birdsmouth-custom\"` only.",
+              short="your own cutter's notch, with joint = \"birdsmouth-custom\" only", keys=(
     Key("depth", "length", "notch depth: from the notched edge to the V's apex, across the stave's width",
         example=_u('"5/8"', "16")),
     Key("apex_height", "length", "height of the V's apex above the stave's inner face", default=UNSET,
         example=_u('"1/4"', "6")),
     Key("apex_fraction", "number", "the apex height as a fraction of the stave's thickness (instead of "
-        "apex_height)", default=UNSET, low=0.0, high=1.0, low_open=True),
+        "apex_height)", default=UNSET, low=0.0, high=1.0, low_open=True, aside=_u("0.4", "0.4")),
 ), note="Give `depth` and exactly one of `apex_height` and `apex_fraction`. The V is always 90°; the stave "
         "width follows from the closure of the staves, and the section is refused if the staves would overlap "
         "or a stave would fall apart.")
 
 PLUG = Table("hollow.plug", "Solid blocking filling the bore over a range (heel, partners, masthead): one "
-             "`[[hollow.plug]]` table for each.", array=True, keys=(
+             "`[[hollow.plug]]` table for each.", array=True, short="solid blocking in the bore: heel", keys=(
     Key("from", "length", "where the plug starts, from the heel", zero_ok=True, example=_u("0", "0")),
     Key("to", "length", "where it ends, from the heel", zero_ok=True, example=_u("10", "250")),
-    Key("wood", "wood", "the plug's wood", default=Words("the hollow spar's wood")),
+    Key("wood", "wood", "the plug's wood", default=Words("the hollow spar's wood"),
+        aside=_u('"douglas-fir-coast"', '"douglas-fir-coast"')),
 ), note="Plugs must not overlap and must end within the spar.")
 
-HOLLOW = Table("hollow", "The stave-built spar you will make.", required=True, keys=(
+HOLLOW = Table("hollow", "The stave-built spar you will make.", required=True, short="the spar you will build",
+               keys=(
     Key("wood", "wood", "the staves' wood", example=_u('"douglas-fir-coast"', '"douglas-fir-coast"')),
     Key("staves", "staves", "how many staves; \"auto\" compares every count and keeps the one that buys the "
         "least wood", example=_u("8", "8"),
@@ -211,6 +217,7 @@ HOLLOW = Table("hollow", "The stave-built spar you will make.", required=True, k
              "`\"auto-tapered\"`: the least thickness at each station, linear between."),
     Key("stations", "stations", "finished diameters if not the plan's, or \"auto\"",
         default=Words("the plan's diameters"),
+        aside=_u('[[0, 3.6], ["5 ft", 3.6], ["12 ft", 3.1], ["16 ft", 2.1]]', "[[0, 92], [1500, 92], [3700, 78], [4900, 52]]"),
         note="`\"auto\"` (with a wall given): the plan's diameters times the least factor, never below 1, "
              "that meets the target. Checked for slips as `plan.stations` is, and against the plan: a diameter "
              "over 1.5 times or under two thirds of the plan's at the same place is warned of."),
@@ -220,12 +227,13 @@ HOLLOW = Table("hollow", "The stave-built spar you will make.", required=True, k
         low=0.0, high=5.0, example=_u("0.0", "0.0")),
     Key("min_strength_ratio", "number", "least strength ratio (MOR·S of the hollow spar over the plan's) the "
         "check and the sizing demand at every station", default=UNSET, field="min_strength_ratio", low=0.0,
-        high=10.0, low_open=True,
+        high=10.0, low_open=True, aside=_u("1.0", "1.0"),
         note="Unset, strength is reported beside stiffness but does not decide the verdict; set (1.0 for a "
              "spar as strong as the plan), a station below it fails the check and `\"auto\"` walls are sized "
              "to meet it as well."),
     Key("min_corner_wall", "length", "least wall you accept after rounding, at the bore's corners; warned "
-        "below, and kept by \"auto\" sizing", default=UNSET, field="min_corner_wall"),
+        "below, and kept by \"auto\" sizing", default=UNSET, field="min_corner_wall",
+        aside=_u('"1/8"', "3")),
     Key("planing_allowance", "length", "on the radius, taken off when rounding", default=PerUnit("1/16", 1.5),
         field="planing_allowance", zero_ok=True, example=_u('"1/16"', "1.5")),
     Key("end_allowance", "length", "extra stave length at each end, trimmed after glue-up",
@@ -239,7 +247,7 @@ HOLLOW = Table("hollow", "The stave-built spar you will make.", required=True, k
 ))
 
 STOCK = Table("stock", "The boards the staves are ripped from; needed by `build`, `size` and "
-              "`staves = \"auto\"`.", keys=(
+              "`staves = \"auto\"`.", short="boards the staves are ripped from", keys=(
     Key("thickness", "length", "dressed thickness (must cover the wall, given or solved)", field="thickness",
         example=_u("0.75", "20")),
     Key("nominal_thickness", "quarters", "nominal thickness, for the board-foot tally",
@@ -267,7 +275,7 @@ STOCK = Table("stock", "The boards the staves are ripped from; needed by `build`
              "templates on boards space segments by it."),
 ))
 
-OUTPUT = Table("output", "Drawing and printing choices.", keys=(
+OUTPUT = Table("output", "Drawing and printing choices.", short="drawing and printing", keys=(
     Key("paper", "choice", "paper for the full-size templates and the report", default=PerUnit("letter", "a4"),
         choices=PAPERS, field="paper", example=_u('"letter"', '"a4"')),
     Key("mark_spacing", "length", "spacing of the station marks on the templates", default=PerUnit(12, 250),
@@ -276,14 +284,17 @@ OUTPUT = Table("output", "Drawing and printing choices.", keys=(
         default=False, field="templates_on_boards", example=_u("false", "false")),
 ))
 
-WOOD = Table("wood", "A wood of your own, written where a wood is asked for: "
-             "`wood = { name = \"Larch\", moe = \"1.4e6 psi\", mor = \"11000 psi\", density = \"36 lb/ft3\" }`.",
-             keys=(
-    Key("name", "text", "what the wood is called", longest=80),
-    Key("moe", "stress", "modulus of elasticity (1,000 to 40,000 MPa)"),
-    Key("mor", "stress", "modulus of rupture, far below the modulus"),
-    Key("density", "density", "density at 12 % moisture content (100 to 1,400 kg/m³)"),
-    Key("source", "text", "where the figures come from", default="defined in the spar file", longest=300),
+WOOD = Table("wood", "Wherever a wood is asked for (`plan.wood`, `hollow.wood`, a plug's `wood`), a table in "
+             "place of a built-in wood's key: inline, `wood = { name = \"My wood\", moe = \"1.5e6 psi\", "
+             "mor = \"12000 psi\", density = \"33 lb/ft3\", source = \"...\" }`, or as a table of its own "
+             "(`[hollow.wood]`, its keys on the lines below).", keys=(
+    Key("name", "text", "what the wood is called", longest=80, example=_u('"My wood"', '"My wood"')),
+    Key("moe", "stress", "modulus of elasticity (1,000 to 40,000 MPa)", example=_u('"1.5e6 psi"', '"10300 MPa"')),
+    Key("mor", "stress", "modulus of rupture, far below the modulus", example=_u('"12000 psi"', '"83 MPa"')),
+    Key("density", "density", "density at 12 % moisture content (100 to 1,400 kg/m³)",
+        example=_u('"33 lb/ft3"', '"530 kg/m3"')),
+    Key("source", "text", "where the figures come from", default="defined in the spar file", longest=300,
+        example=_u('"the table the figures come from"', '"the table the figures come from"')),
 ), note="Use figures for clear wood at 12 % moisture content from a source you trust, and name it.")
 
 TOP = Table("", "The spar file.", required=True, keys=(
