@@ -369,7 +369,7 @@ def _hollow(t: _Table, units: str, length: float, plan: Plan) -> Hollow:
     elif t.has("stations") and isinstance(t.raw("stations"), str):
         raise t.fail("stations", f"expected [[position, diameter], ...] or \"auto\", got {shown(t.raw('stations'))}")
     elif t.has("stations"):
-        diameter = _profile(t.raw("stations"), units, t.key("stations"), length, "diameter", whole_length=True)
+        diameter = _diameters(t.raw("stations"), units, t.key("stations"), length)
         given = True
     else:
         diameter, given = plan.diameter, False
@@ -459,6 +459,24 @@ def _output(t: _Table | None, units: str, length: float) -> OutputOptions:
     return options
 
 
+def _jumps(profile: Profile, key: str, units: str):
+    """(key of the station, factor, words) for each stretch of a diameter profile: how much it changes."""
+    for i in range(1, len(profile.value)):
+        a, b = profile.value[i - 1], profile.value[i]
+        jump = max(a, b) / min(a, b)
+        yield (f"{key}[{i + 1}]", jump, f"the diameter goes from {format_length(a, units)} at {key}[{i}] to "
+                                        f"{format_length(b, units)} ({jump:.2f} times) in one stretch")
+
+
+def _diameters(value: Any, units: str, key: str, length: float) -> Profile:
+    """A diameter profile heel to head, refused where it jumps as no spar does (a slipped digit, a wrong unit)."""
+    profile = _profile(value, units, key, length, "diameter", whole_length=True)
+    for here, jump, said in _jumps(profile, key, units):
+        if jump >= DIAMETER_JUMP_REFUSED:
+            raise InputError(f"{said}: no spar tapers that fast; a slipped digit or a wrong unit?", here)
+    return profile
+
+
 def _plausibility(spar: Spar) -> tuple[str, ...]:
     """Refuse figures no spar could have (a slipped digit, a wrong unit); one warning line for unlikely ones."""
     notices: list[str] = []
@@ -467,14 +485,7 @@ def _plausibility(spar: Spar) -> tuple[str, ...]:
     if spar.hollow.diameter_given and isinstance(spar.hollow.diameter, Profile):
         profiles.append(("hollow.stations", spar.hollow.diameter))
     for key, profile in profiles:
-        for i in range(1, len(profile.value)):
-            a, b = profile.value[i - 1], profile.value[i]
-            jump = max(a, b) / min(a, b)
-            here = f"{key}[{i + 1}]"
-            said = (f"the diameter goes from {show(a)} at {key}[{i}] to {show(b)} ({jump:.2f} times) in one "
-                    "stretch")
-            if jump >= DIAMETER_JUMP_REFUSED:
-                raise InputError(f"{said}: no spar tapers that fast; a slipped digit or a wrong unit?", here)
+        for here, jump, said in _jumps(profile, key, spar.units):
             if jump >= DIAMETER_JUMP_WARNED:
                 notices.append(f"{here}: {said}; spars rarely taper so fast: check the figures.")
     largest = spar.plan.diameter.largest
@@ -517,8 +528,7 @@ def parse_spar(data: dict[str, Any], source: str = "") -> Spar:
         plan_t = top.sub("plan")
         plan = Plan(
             wood=_wood(plan_t.raw("wood"), units, plan_t.key("wood")),
-            diameter=_profile(plan_t.raw("stations"), units, plan_t.key("stations"), length, "diameter",
-                              whole_length=True),
+            diameter=_diameters(plan_t.raw("stations"), units, plan_t.key("stations"), length),
         )
         hollow = _hollow(top.sub("hollow"), units, length, plan)
         stock_t = top.sub("stock")
