@@ -283,6 +283,12 @@ def test_unlikely_figures_are_warned_in_one_line_naming_the_key(run, tmp_path):
     assert all("\n" not in w for w in warnings)
 
 
+def test_a_wall_past_the_plans_radius_with_auto_diameters_is_warned():
+    data = spar_dict(plan={"stations": [[0, 100], [3000, 60]]}, hollow={"stations": "auto", "wall": 35})
+    (notice,) = parse_spar(data, "t.toml").notices
+    assert notice.startswith("hollow.wall: 35.0 mm is as thick as the plan's radius (30.0 mm) at 3000.0 mm")
+
+
 def test_no_warnings_for_the_samples(run):
     for sample in sorted(SAMPLES.glob("*.toml")):
         assert load_spar(sample).notices == (), sample

@@ -57,6 +57,7 @@ HOLLOW_AGAINST_PLAN_WARNED = 1.5  # a given hollow diameter this many times the 
 SLENDERNESS_WARNED = 8.0  # length over largest diameter: spars run 15 (a bowsprit) to 80 (a mast)
 KERF_WARNED = MM_PER_INCH / 4  # wider than any ripping blade's kerf
 KERF_REFUSED = MM_PER_INCH  # no saw cuts this wide
+SHORTEST_BOARD = 12 * MM_PER_INCH  # boards are sold in feet; a "board" under a foot is a slip (8 for "8 ft")
 
 
 class _Table:
@@ -500,6 +501,20 @@ def _plausibility(spar: Spar) -> tuple[str, ...]:
                 notices.append(f"hollow.stations[{i + 1}]: {show(d)} against the plan's {show(plan)} there "
                                f"({d / plan:.2f} times): check the figures.")
                 break
+    wall, plan_d = spar.hollow.wall, spar.plan.diameter
+    if spar.hollow.diameter == AUTO and isinstance(wall, Profile):
+        # The diameters grow from the plan's until a bore is left: a wall past the plan's radius makes them.
+        if wall.largest >= plan_d.largest / 2:
+            raise InputError(f"a wall of {show(wall.largest)} is as thick as the plan's largest radius "
+                             f"({show(plan_d.largest / 2)}): with stations = \"auto\" the spar would grow past "
+                             "anything in the plans to leave a bore; a slipped digit or a wrong unit?", "hollow.wall")
+        for z in sorted(set(wall.z) | set(plan_d.z)):
+            thick, radius = float(wall.at(z)), float(plan_d.at(z)) / 2
+            if thick >= radius:
+                notices.append(f"hollow.wall: {show(thick)} is as thick as the plan's radius ({show(radius)}) at "
+                               f"{format_length(z, spar.units, tape=True)} from the heel: stations = \"auto\" "
+                               "enlarges the whole spar to leave a bore there; check the wall.")
+                break
     stock = spar.stock
     if stock is not None:
         widest = max(stock.widths)
@@ -508,6 +523,10 @@ def _plausibility(spar: Spar) -> tuple[str, ...]:
                      else f"{show(KERF_REFUSED)} or more")
             raise InputError(f"a kerf of {show(stock.kerf)} is {limit}: no saw cuts so wide; give the blade's "
                              "kerf (1/8 in or 3 mm is usual)", "stock.kerf")
+        for i, board in enumerate(stock.lengths):
+            if board < SHORTEST_BOARD:
+                raise InputError(f"a board {show(board)} long is no stock for staves; lengths are board lengths "
+                                 "(write \"8 ft\" or 2400, not 8)", f"stock.lengths[{i + 1}]")
         if stock.kerf > KERF_WARNED:
             notices.append(f"stock.kerf: {show(stock.kerf)} is wider than a ripping blade's kerf "
                            f"(under {show(KERF_WARNED)}): check the figure.")

@@ -123,6 +123,23 @@ def _new_value(value, rng):
     return value if r < 0.5 else None
 
 
+def slip_data(data: dict, rng: random.Random) -> dict:
+    """One or two slips of the kind a builder makes: a digit added, dropped or changed, or a factor of ten."""
+    data = copy.deepcopy(data)
+    for _ in range(rng.choice([1, 1, 2])):
+        spots = [(c, k) for c, k, _ in _paths(data) if isinstance(c[k], (int, float, str))
+                 and not isinstance(c[k], bool) and any(ch.isdigit() for ch in str(c[k]))]
+        if not spots:
+            break
+        container, key = rng.choice(spots)
+        value = container[key]
+        if isinstance(value, (int, float)) and rng.random() < 0.3:
+            container[key] = value * 10 if rng.random() < 0.5 else value / 10
+        else:
+            container[key] = _slip_digit(value, rng)
+    return data
+
+
 def mutate_data(data: dict, rng: random.Random) -> dict:
     data = copy.deepcopy(data)
     for _ in range(rng.choice([1, 1, 2, 3])):
@@ -182,12 +199,14 @@ def mutate_text(text: str, rng: random.Random) -> str:
     return "".join(lines)
 
 
-def make_case(seed: int, index: int) -> tuple[str, str, bytes]:
+def make_case(seed: int, index: int, mode: str = "all") -> tuple[str, str, bytes]:
     """(sample name, command, file bytes) of case ``index``."""
     rng = random.Random(seed * 1_000_003 + index)
     sample = rng.choice(SAMPLES)
     text = sample.read_text(encoding="utf-8")
-    if rng.random() < 0.25:
+    if mode == "slips":
+        body = tomlkit.dumps(slip_data(tomllib.loads(text), rng)).encode("utf-8")
+    elif rng.random() < 0.25:
         body = mutate_text(text, rng).encode("utf-8", "surrogatepass")
     else:
         body = tomlkit.dumps(mutate_data(tomllib.loads(text), rng)).encode("utf-8", "surrogatepass")
@@ -201,12 +220,12 @@ def _alarm(signum, frame):
 
 
 def run_case(args) -> dict:
-    seed, index, limit = args
+    seed, index, limit, mode = args
     from typer.testing import CliRunner
 
     from stavegen.cli import app
 
-    sample, command, body = make_case(seed, index)
+    sample, command, body = make_case(seed, index, mode)
     with tempfile.TemporaryDirectory(prefix="stavegen-fuzz-") as tmp:
         path = Path(tmp) / "case.toml"
         path.write_bytes(body)
@@ -265,6 +284,8 @@ def main() -> int:
     parser = argparse.ArgumentParser(description=__doc__.split("\n\n")[0])
     parser.add_argument("--cases", type=int, default=1000)
     parser.add_argument("--seed", type=int, default=1)
+    parser.add_argument("--mode", choices=("all", "slips"), default="all",
+                        help="all: every kind of mutation; slips: only digits slipped and factors of ten")
     parser.add_argument("--jobs", type=int, default=os.cpu_count() or 1)
     parser.add_argument("--limit", type=int, default=60, help="CPU-free seconds per case before it counts as slow")
     parser.add_argument("--show", type=int, default=5, help="cases to print for each bad verdict")
@@ -272,7 +293,7 @@ def main() -> int:
     parser.add_argument("--dump", type=int, help="print case INDEX's file and command, and stop")
     opts = parser.parse_args()
     if opts.dump is not None:
-        sample, command, body = make_case(opts.seed, opts.dump)
+        sample, command, body = make_case(opts.seed, opts.dump, opts.mode)
         sys.stdout.write(f"# {command} (from {sample})\n")
         sys.stdout.buffer.write(body)
         return 0
@@ -286,7 +307,7 @@ def main() -> int:
     log = opts.log.open("w") if opts.log else None
     ctx = multiprocessing.get_context("fork")
     with ctx.Pool(opts.jobs, maxtasksperchild=200) as pool:
-        jobs = [(opts.seed, i, opts.limit) for i in range(opts.cases)]
+        jobs = [(opts.seed, i, opts.limit, opts.mode) for i in range(opts.cases)]
         for n, res in enumerate(pool.imap_unordered(run_case, jobs, chunksize=4), start=1):
             counts[res["verdict"]] += 1
             codes[str(res["code"])] += 1
@@ -298,7 +319,7 @@ def main() -> int:
                 print(f"{n} cases, {dict(counts)}", file=sys.stderr)
     if log:
         log.close()
-    print(f"{opts.cases} cases (seed {opts.seed}) in {time.time() - started:.0f} s")
+    print(f"{opts.cases} cases (seed {opts.seed}, {opts.mode}) in {time.time() - started:.0f} s")
     print("exit codes: " + ", ".join(f"{k}: {v}" for k, v in sorted(codes.items())))
     print("verdicts:   " + ", ".join(f"{k}: {v}" for k, v in counts.most_common()))
     for verdict, cases in bad.items():
