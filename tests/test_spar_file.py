@@ -281,6 +281,8 @@ def test_unlikely_figures_are_warned_in_one_line_naming_the_key(run, tmp_path):
         assert any(fragment in w for w in warnings), (fragment, warnings)
         assert fragment in text
     assert all("\n" not in w for w in warnings)
+    section = run(["section", _write(tmp_path, steep, "steep.toml"), "--at", "1500"])
+    assert section.exit_code == 0 and "stock.kerf: 8.0 mm is wider" in " ".join(section.stdout.split())
 
 
 def test_a_wall_past_the_plans_radius_with_auto_diameters_is_warned():
