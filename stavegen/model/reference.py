@@ -8,7 +8,7 @@ what the loader reads.
 from __future__ import annotations
 
 from . import schema
-from .schema import PerUnit, Words
+from .schema import PerUnit, Words, toml_text
 
 _INTRO = """\
 # The spar file: every key
@@ -42,13 +42,6 @@ def _cell(text: str) -> str:
     return text.replace("|", "\\|").replace("\n", " ")
 
 
-def _toml(value) -> str:
-    if isinstance(value, bool):
-        return "true" if value else "false"
-    if isinstance(value, str):
-        return f'"{value}"'
-    return repr(value) if isinstance(value, float) else str(value)
-
 
 def _default(key: schema.Key) -> str:
     d = key.default
@@ -59,8 +52,8 @@ def _default(key: schema.Key) -> str:
     if isinstance(d, Words):
         return d.text
     if isinstance(d, PerUnit):
-        return f"`{_toml(d.inch)}` (in), `{_toml(d.mm)}` (mm)"
-    return f"`{_toml(d)}`"
+        return f"`{toml_text(d.inch)}` (in), `{toml_text(d.mm)}` (mm)"
+    return f"`{toml_text(d)}`"
 
 
 def _value(key: schema.Key) -> str:

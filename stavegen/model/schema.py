@@ -39,6 +39,15 @@ class Words:
     text: str
 
 
+def toml_text(value: Any) -> str:
+    """A default's value as a TOML file writes it: ``"1/16"``, ``1.5``, ``false``."""
+    if isinstance(value, bool):
+        return "true" if value else "false"
+    if isinstance(value, str):
+        return f'"{value}"'
+    return repr(value) if isinstance(value, float) else str(value)
+
+
 REQUIRED = Words("required")
 UNSET = Words("not set")
 

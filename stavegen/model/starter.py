@@ -12,7 +12,7 @@ from __future__ import annotations
 import textwrap
 
 from . import schema
-from .schema import PerUnit
+from .schema import PerUnit, toml_text
 
 COLUMN = 34  # where the comments start
 WIDTH = 110  # longest line
@@ -26,14 +26,6 @@ _HEAD = {
 # The second plug of the example (the first is drawn from the schema's examples).
 _MASTHEAD_PLUG = {"from": PerUnit('"15 ft"', "4600"), "to": PerUnit('"16 ft"', "4900")}
 
-
-def _toml(value) -> str:
-    """A Python value as TOML writes it (for defaults)."""
-    if isinstance(value, bool):
-        return "true" if value else "false"
-    if isinstance(value, str):
-        return f'"{value}"'
-    return repr(value) if isinstance(value, float) else str(value)
 
 
 def _comment_lines(prefix: str, comment: str) -> list[str]:
@@ -69,7 +61,7 @@ def _key(key: schema.Key, units: str, off: bool = False, value: PerUnit | None =
     live = value is not None and not off
     if value is None:
         value = key.aside
-    text = value.get(units) if value is not None else _toml(key.default_for(units))
+    text = value.get(units) if value is not None else toml_text(key.default_for(units))
     line = f"{'' if live else '# '}{key.name} = {text}"
     return _comment_lines(line, _meaning(key, live)) if comment else [line]
 

@@ -2,7 +2,7 @@
 
 "Well" means: exit code 0, 1 or 2; on exit 2 exactly one line on stderr,
 starting "stavegen: " and free of terminal control characters; on 0 and 1
-nothing on stderr; never exit 3 (an internal error), never a traceback.
+nothing on stderr; no control character on stdout; never exit 3 (an internal error), never a traceback.
 
 Not part of the test suite (it takes minutes): run it by hand,
 
@@ -250,14 +250,16 @@ def run_case(args) -> dict:
             signal.alarm(0)
         cpu = time.process_time() - started
         left = sorted(p.name for p in (Path(tmp) / "out").iterdir()) if (Path(tmp) / "out").exists() else []
-    verdict = judge(code, err, command, left)
+    verdict = judge(code, err, command, left, out)
     return {"index": index, "sample": sample, "command": command, "code": code, "verdict": verdict,
             "stderr": err[:400], "cpu": round(cpu, 2)}
 
 
-def judge(code, err: str, command: str, left: list[str]) -> str:
+def judge(code, err: str, command: str, left: list[str], out: str = "") -> str:
     if code == "slow":
         return "slow"
+    if any(c in CONTROL for c in out):
+        return "control character in the output"  # rich writes no escapes to a pipe: this came from the file
     if code not in (0, 1, 2):
         return f"bad exit {code}"
     if "Traceback" in err:
