@@ -376,7 +376,7 @@ def _hollow(t: _Table, units: str, length: float, plan: Plan) -> Hollow:
         diameter, given = plan.diameter, False
     plugs = _plugs(t.raw("plug"), units, length, wood)
     hollow = Hollow(wood=wood, staves=staves, joint=joint, wall=wall, diameter=diameter, diameter_given=given,
-                    plugs=plugs, **t.fields())
+                    plugs=plugs, strength_target_given=t.has("min_strength_ratio"), **t.fields())
     if isinstance(wall, Profile) and isinstance(diameter, Profile):
         for z, thick in zip(wall.z, wall.value):
             radius = float(diameter.at(z)) / 2
@@ -544,6 +544,7 @@ def parse_spar(data: dict[str, Any], source: str = "") -> Spar:
             t.units = units
         name = spar_t.get("name")
         length = spar_t.get("length")
+        head_load = spar_t.get("head_load")
         plan_t = top.sub("plan")
         plan = Plan(
             wood=_wood(plan_t.raw("wood"), units, plan_t.key("wood")),
@@ -554,16 +555,16 @@ def parse_spar(data: dict[str, Any], source: str = "") -> Spar:
         stock = None if stock_t is None else _stock(stock_t, units, length, hollow)
         output = _output(top.sub("output"), units, length)
         spar = Spar(name=name, units=units, length=length, plan=plan, hollow=hollow, stock=stock, output=output,
-                    source=source)
+                    source=source, head_load=head_load)
         notices = _plausibility(spar)
     except InputError as exc:
         raise exc.located(source)
     return Spar(name=name, units=units, length=length, plan=plan, hollow=hollow, stock=stock, output=output,
-                source=source, notices=notices)
+                source=source, head_load=head_load, head_load_given=spar_t.has("head_load"), notices=notices)
 
 
-def read_spar_text(path: str | Path) -> str:
-    """The text of the spar file at ``path``: a regular file (or a pipe) of at most :data:`LARGEST_FILE` bytes."""
+def read_spar_bytes(path: str | Path) -> bytes:
+    """The bytes of the spar file at ``path``: a regular file (or a pipe) of at most :data:`LARGEST_FILE` bytes."""
     path = Path(path)
     source = str(path)
     try:
@@ -580,16 +581,26 @@ def read_spar_text(path: str | Path) -> str:
         raise InputError(f"cannot read: {exc.strerror or exc}", source=source) from None
     if len(raw) > LARGEST_FILE:
         raise InputError(f"is larger than {LARGEST_FILE // 1024:,} KiB: not a spar file", source=source)
+    return raw
+
+
+def _decoded(raw: bytes, source: str) -> str:
     try:
         return raw.decode("utf-8")
     except UnicodeDecodeError as exc:
         raise InputError(f"not UTF-8 text (byte {exc.start}); save the spar file as UTF-8", source=source) from None
 
 
-def load_spar(path: str | Path) -> Spar:
-    """Read and validate the spar file at ``path``."""
-    source = str(path)
-    text = read_spar_text(path)
+def read_spar_text(path: str | Path) -> str:
+    """The text of the spar file at ``path`` (see :func:`read_spar_bytes`)."""
+    return _decoded(read_spar_bytes(path), str(path))
+
+
+def spar_from_bytes(raw: bytes, source: str) -> Spar:
+    """The validated spar of a spar file's bytes; ``source`` names it in messages (a path, or a label)."""
+    if len(raw) > LARGEST_FILE:
+        raise InputError(f"is larger than {LARGEST_FILE // 1024:,} KiB: not a spar file", source=source)
+    text = _decoded(raw, source)
     try:
         data = tomllib.loads(text)
     except tomllib.TOMLDecodeError as exc:
@@ -599,3 +610,8 @@ def load_spar(path: str | Path) -> Spar:
     if not data:
         raise InputError("the file is empty (no tables); `stavegen init` writes a starter spar file", source=source)
     return parse_spar(data, source)
+
+
+def load_spar(path: str | Path) -> Spar:
+    """Read and validate the spar file at ``path``."""
+    return spar_from_bytes(read_spar_bytes(path), str(path))

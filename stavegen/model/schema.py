@@ -18,7 +18,7 @@ from dataclasses import dataclass
 from dataclasses import field as _field
 from typing import Any
 
-from .spar import JOINTS, MAX_STAVES, MIN_STAVES, PAPERS, TAPERS
+from .spar import DEFAULT_STRENGTH_TARGET, JOINTS, MAX_STAVES, MIN_STAVES, NOTCH_CUTS, PAPERS, TAPERS
 
 
 @dataclass(frozen=True)
@@ -164,6 +164,11 @@ SPAR = Table("spar", "What the spar is and the unit the file is written in.", re
         choice_notes={"in": "inches; positions print as feet, inches and 32nds, stresses in psi, densities "
                             "in lb/ft³", "mm": "millimetres; stresses in MPa, densities in kg/m³"}),
     Key("length", "length", "heel to head, finished", example=_u('"16 ft"', '"4.9 m"')),
+    Key("head_load", "force", "sideways load at the head for the whole-spar deflection figures",
+        default="1 kN",
+        note="Not a rig load (stavegen computes none): the head deflection of the plan and of the hollow spar "
+             "are compared under it. Deflection grows in proportion to it, so the hollow / plan ratios and the "
+             "head stiffness do not depend on it; the report says which load was used."),
 ))
 
 PLAN = Table("plan", "The solid spar drawn in the plans: the stiffness and strength target.", required=True,
@@ -235,11 +240,11 @@ HOLLOW = Table("hollow", "The stave-built spar you will make.", required=True, s
     Key("margin", "number", "the EI ratio must reach 1 + margin at every station", default=0.0, field="margin",
         low=0.0, high=5.0, example=_u("0.0", "0.0")),
     Key("min_strength_ratio", "number", "least strength ratio (MOR·S of the hollow spar over the plan's) the "
-        "check and the sizing demand at every station", default=UNSET, field="min_strength_ratio", low=0.0,
-        high=10.0, low_open=True, aside=_u("1.0", "1.0"),
-        note="Unset, strength is reported beside stiffness but does not decide the verdict; set (1.0 for a "
-             "spar as strong as the plan), a station below it fails the check and `\"auto\"` walls are sized "
-             "to meet it as well."),
+        "check and the sizing demand at every station", default=DEFAULT_STRENGTH_TARGET, field="min_strength_ratio",
+        low=0.0, high=10.0, low_open=True,
+        note="The verdict needs both stiffness (EI ratio at least 1 + margin) and strength (this ratio) at every "
+             "station, and `\"auto\"` walls are sized to meet both. A builder who accepts a spar weaker than the "
+             "plan sets it below 1, and page 1 of the report says so."),
     Key("min_corner_wall", "length", "least wall you accept after rounding, at the bore's corners; warned "
         "below, and kept by \"auto\" sizing", default=UNSET, field="min_corner_wall",
         aside=_u('"1/8"', "3")),
@@ -252,6 +257,13 @@ HOLLOW = Table("hollow", "The stave-built spar you will make.", required=True, s
         choice_notes={"square-edge": "the notch is cut along a straight edge; the taper comes off the square "
                                      "edge",
                       "symmetric": "the taper is split between both edges"}),
+    Key("notch_cut", "choice", "how the notch is cut when the wall tapers", default="thickest-wall",
+        choices=NOTCH_CUTS, field="notch_cut",
+        choice_notes={"thickest-wall": "once, with one setting, on staves all dressed to the thickest wall; the "
+                                       "taper is the bore's",
+                      "follow-wall": "following the wall station by station (the thickness tapered first): no "
+                                     "fixed table-saw or router-table set-up cuts it, so the figures are given "
+                                     "station by station for a CNC router"}),
     Key("plug", "tables", "solid blocking in the bore (see [[hollow.plug]])", default=Words("none")),
 ))
 

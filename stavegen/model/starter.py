@@ -51,6 +51,8 @@ def _meaning(key: schema.Key, live: bool) -> str:
             text += f" (default: {key.default.text})"
         elif key.aside is None:
             text += " (the default)"
+        else:
+            text += f" (default {toml_text(key.default_for(units))})"
     return text
 
 

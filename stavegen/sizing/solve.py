@@ -37,8 +37,7 @@ def _least(spar: Spar) -> str:
                 if name not in least or ratio < least[name][0]:
                     least[name] = (ratio, place(spar, point))
     parts = [f"least {EI_RATIO} {least[EI_RATIO][0]:.3f} at {least[EI_RATIO][1]}"]
-    if spar.hollow.min_strength_ratio is not None:
-        parts.append(f"least {STRENGTH_RATIO} {least[STRENGTH_RATIO][0]:.3f} at {least[STRENGTH_RATIO][1]}")
+    parts.append(f"least {STRENGTH_RATIO} {least[STRENGTH_RATIO][0]:.3f} at {least[STRENGTH_RATIO][1]}")
     return ", ".join(parts)
 
 

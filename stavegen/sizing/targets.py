@@ -10,10 +10,10 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
-from ..checks.ratios import StationCheck, check_station
+from ..checks.ratios import StationCheck, check_station, targets
 from ..model.spar import Plug, Spar
-from ..section.properties import evaluate_section
-from ..stations.evaluate import Station, plug_at_station, where
+from ..stations.evaluate import Station, hollow_section, plug_at_station, where
+from ..units import Way, system
 from ..stations.grid import station_marks
 
 MIDDLE = "between stations"
@@ -52,11 +52,9 @@ def ratio_text(ratio: float, target: float) -> str:
 
 
 def criteria_of(spar: Spar) -> tuple[Criterion, ...]:
-    """EI ratio ≥ 1 + margin, and strength ratio ≥ ``hollow.min_strength_ratio`` when that is set."""
-    out = [Criterion(EI_RATIO, 1.0 + spar.hollow.margin)]
-    if spar.hollow.min_strength_ratio is not None:
-        out.append(Criterion(STRENGTH_RATIO, spar.hollow.min_strength_ratio))
-    return tuple(out)
+    """EI ratio ≥ 1 + margin and strength ratio ≥ the strength target (1 unless the file accepts less)."""
+    ei_target, strength_target = targets(spar)
+    return (Criterion(EI_RATIO, ei_target), Criterion(STRENGTH_RATIO, strength_target))
 
 
 def _point(spar: Spar, z: float, reasons: tuple[str, ...], plugs: bool) -> Point:
@@ -84,10 +82,14 @@ def place(spar: Spar, point: Point) -> str:
 
 
 def check_at(spar: Spar, point: Point, radius: float, wall: float) -> StationCheck:
-    """The exact section of finished ``radius`` and ``wall`` (mm) at ``point``, set against the plan there."""
-    h = spar.hollow
-    section = evaluate_section(h.staves, h.joint, radius, wall, h.planing_allowance, place(spar, point),
-                               spar.units)
+    """The section of finished ``radius`` and ``wall`` (mm) at ``point``, as it would be built, against the plan.
+
+    As built: staves dressed to the wall rounded up onto the builder's grid, the bore the wall's
+    (:func:`~stavegen.stations.evaluate.hollow_section`); for flush and bevel staves that is the
+    exact section of the wall itself.
+    """
+    thickness = system(spar.units).on_grid(wall, Way.UP)
+    section = hollow_section(spar, radius, wall, place(spar, point), thickness=thickness)
     station = Station(z=point.z, reasons=point.reasons, plan_diameter=point.plan_diameter, diameter=2 * radius,
                       wall=wall, plug=point.plug, section=section)
     return check_station(spar, station)
