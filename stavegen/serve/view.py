@@ -15,6 +15,7 @@ from rich.text import Text
 from ..pipeline import Design
 from ..render import console
 from ..render.wording import board_feet_words, board_length, board_words, cutter_rows, dressed_size, order_words
+from ..render.figures import Figures
 from ..units import format_length
 from . import svg
 
@@ -85,13 +86,14 @@ def section_view(design: Design, check) -> dict[str, Any]:
 
     spar = design.spar
     station = check.station
-    settings = cutter_settings(station.section)
+    kerf = spar.stock.kerf if spar.stock is not None else (3.175 if spar.units == "in" else 3.0)
+    settings = cutter_settings(station.section, kerf)
     return {
         "z_mm": station.z,
         "position": format_length(station.z, spar.units, tape=True),
         "figures": table_data(console.section_table(spar, check)),
         "cutter": [{"label": r.label, "value": r.value, "heading": r.heading}
-                   for r in cutter_rows(spar.units, settings)],
+                   for r in cutter_rows(Figures(spar), settings)],
         "section_svg": svg.section_svg(spar, station),
         "stave_svg": svg.stave_svg(spar, station.section),
     }
