@@ -314,7 +314,8 @@ def test_write_back_keeps_every_other_byte(tmp_path):
     text = (SAMPLES / "catboat-mast.toml").read_text()
     text = text.replace("staves = 8", 'staves = "auto"          # stavegen chooses')
     text = text.replace('wall = [[0, 1], ["10 ft", 1], ["20 ft", "3/4"]]', 'wall = "auto-tapered"  # solved')
-    text = text.replace('joint = "birdsmouth-flush"', 'joint = "birdsmouth-flush"\nstations = "auto"   # diameters')
+    text = re.sub(r"(?m)^stations = \[\[0, \"4 7/8\".*$", 'stations = "auto"   # diameters', text)
+    assert 'stations = "auto"' in text
     text = text.replace("\n", "\r\n")  # a file saved on Windows keeps its line ends
     original = parse_spar(tomllib.loads(text), "t.toml")
     # A hand-made solution (the write-back does not care how it was found): wall and diameters along the spar.
@@ -325,7 +326,7 @@ def test_write_back_keeps_every_other_byte(tmp_path):
     before, after = text.splitlines(keepends=True), out.splitlines(keepends=True)
     assert len(before) == len(after)
     changed = [(a, b) for a, b in zip(before, after) if a != b]
-    assert [b.split("=")[0].strip() for _, b in changed] == ["staves", "stations", "wall"]
+    assert [b.split("=")[0].strip() for _, b in changed] == ["staves", "wall", "stations"]
     for a, b in changed:
         assert a.split("#")[1] == b.split("#")[1] and b.endswith("\r\n")
     read = tomllib.loads(out)["hollow"]
