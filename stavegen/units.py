@@ -188,8 +188,10 @@ def format_mm(mm: float, decimals: int = 1) -> str:
     return f"{mm:.{decimals}f} mm"
 
 
-def format_length(mm: float, units: str, tape: bool = False) -> str:
-    """A length for people: fractions of an inch (feet too if ``tape``), or mm."""
+def format_length(mm: float, units: str, tape: bool = False, way: "Way | None" = None) -> str:
+    """A length for people: fractions of an inch (feet too if ``tape``), or mm; rounded ``way`` (nearest)."""
+    if way is not None:
+        return SYSTEMS[units].length(mm, way, tape=tape)
     if units == "in":
         return format_tape(mm) if tape else format_inches(mm)
     return format_mm(mm)
