@@ -11,6 +11,7 @@ from typing import Callable, Optional
 
 import typer
 from rich.console import Console
+from rich.markup import escape
 
 from .errors import InputError
 
@@ -128,6 +129,8 @@ def section(
     console = _console()
     for line in solved:
         console.print(f"[cyan]solved:[/] {line}")
+    for line in model.notices:
+        console.print(f"[bold yellow]warning:[/] {escape(line)}")
     console.print(section_table(model, check_station(model, station)))
     kerf = model.stock.kerf if model.stock is not None else (3.175 if model.units == "in" else 3.0)
     console.print(machining_table(model, cutter_settings(station.section, kerf)))
@@ -148,7 +151,7 @@ def size(
 
     if is_boat_file(spar):
         return size_boat(spar, write, _console())
-    from .model.loader import load_spar
+    from .model.loader import load_spar, read_spar_text
     from .model.rewrite import with_solved_values
     from .outputs import OutputSet
     from .render.console import candidate_notes, candidates_table
@@ -157,6 +160,8 @@ def size(
     model = load_spar(spar)
     comparison = compare_stave_counts(_replace(model, hollow=_replace(model.hollow, staves="auto")))
     console = _console()
+    for line in model.notices:
+        console.print(f"[bold yellow]warning:[/] {escape(line)}")
     console.print(candidates_table(model, comparison))
     for line in candidate_notes(comparison):
         console.print(f"[dim]{line}[/]")
@@ -167,11 +172,11 @@ def size(
     if write is not None:
         chosen = comparison.chosen.spar
         original = model if model.hollow.staves == "auto" else _replace(model, hollow=_replace(model.hollow, staves="auto"))
-        text = with_solved_values(spar.read_text(encoding="utf-8"), original, chosen)
+        text = with_solved_values(read_spar_text(spar), original, chosen)
         with OutputSet(write.parent if str(write.parent) else Path(".")) as out:
             out.add_text(write.name, text)
             out.commit()
-        console.print(f"wrote {write}")
+        console.print(f"wrote {escape(str(write))}")
 
 
 @app.command()
@@ -202,6 +207,8 @@ def init(
 
     if units not in ("in", "mm"):
         raise InputError(f'{units!r} is not "in" or "mm"', "--units")
+    if path.is_dir() or path.name in ("", ".", ".."):
+        raise InputError("is a folder; give the spar file's name, e.g. my-mast.toml", source=str(path))
     if boat:
         from .boat_commands import init_boat
 
@@ -211,7 +218,7 @@ def init(
     with OutputSet(path.parent if str(path.parent) else Path(".")) as out:
         out.add_text(path.name, starter_text(units))
         out.commit()
-    _console().print(f"wrote {path}: edit it, then run [bold]stavegen check {path}[/]")
+    _console().print(f"wrote {escape(str(path))}: edit it, then run [bold]stavegen check {escape(str(path))}[/]")
 
 
 @app.command()

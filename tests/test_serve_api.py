@@ -127,9 +127,12 @@ def test_section_figures_and_drawing(client, run):
     svg = ET.fromstring(body["section_svg"])
     staves = svg.findall(f".//{SVG}path[@class='stave']")
     assert len(staves) == 8
-    # the file: 5" at 2 ft and at 8 ft, so 5" at 7 ft 6 in (linear between stations)
+    # the finished round is the file's diameter there (linear between its stations)
+    from stavegen.model.loader import load_spar
+
+    od = float(load_spar(BOOM).hollow.diameter.at(7.5 * 304.8))
     rounds = svg.findall(f".//{SVG}circle[@class='round']")
-    assert float(rounds[0].get("r")) == pytest.approx(3.5625 / 2 * 25.4, abs=1e-3)  # drawn to the micrometre
+    assert float(rounds[0].get("r")) == pytest.approx(od / 2, abs=1e-3)  # the drawing keeps 3 decimals
     area_row = next(v for k, v in body["figures"]["rows"] if k == "wood area")
     wood = float(area_row.replace(",", "").split()[0])
     drawn = sum(_shoelace(p.get("d")) for p in svg.findall(f".//{SVG}path[@class='finished']"))

@@ -37,10 +37,30 @@ from types import SimpleNamespace
 from typing import Any
 
 from ..errors import InputError
+from . import schema
 from .loader import _Table, _kind, _output, _stock, parse_spar, read_toml
+from .schema import UNSET, Key, Table, Words
 from .spar import OutputOptions, Profile, Spar, Stock
 
 TAG = re.compile(r"^[A-Za-z0-9]{1,4}$")
+
+# The boat file's own tables, declared as the spar file's are (schema.py); [stock] and [output] are the spar
+# file's own declarations.
+BOAT = Table("boat", "What the boat is, the unit of its file, and its spar files.", required=True, keys=(
+    Key("name", "text", "what the boat is called; it titles the boat's papers and names their files", longest=120),
+    Key("units", "choice", "the unit of bare numbers in the boat file and of the boat's printed figures",
+        default="in", choices=("in", "mm")),
+    Key("spars", "spars", "the spar files, from the boat file's folder: names, or tables with file and tag"),
+))
+BOAT_SPAR = Table("boat.spars", "One spar of the boat.", array=True, keys=(
+    Key("file", "text", "the spar file, from the boat file's folder", longest=300),
+    Key("tag", "text", "1 to 4 letters or digits that start its segments' labels", default=UNSET, longest=4),
+))
+BOAT_TOP = Table("", "The boat file.", required=True, keys=(
+    Key("boat", "table", BOAT.meaning),
+    Key("stock", "table", "the boards of the boat's one order", default=UNSET),
+    Key("output", "table", "drawing and printing, for every paper of the boat", default=Words("the defaults")),
+))
 BOARD_KEYS = ("thickness", "nominal_thickness", "widths", "nominal_widths", "lengths", "kerf", "separate_with",
               "router_bit", "edge_allowance", "waste")
 
@@ -91,10 +111,8 @@ def _entries(value: Any, key: str) -> list[tuple[str, str | None, str]]:
         if isinstance(item, str):
             file, tag = item, None
         elif isinstance(item, dict):
-            t = _Table(item, k, "in")
-            file = t.string("file")
-            tag = t.string("tag", None)
-            t.finish()
+            t = _Table(item, k, "in", BOAT_SPAR)
+            file, tag = t.get("file"), t.get("tag")
             if tag is not None and not TAG.match(tag):
                 raise InputError(f"tag {tag!r} must be 1 to 4 letters or digits", f"{k}.tag")
         else:
@@ -124,8 +142,9 @@ def _tags(entries: list[tuple[str, str | None, str]]) -> list[str]:
     return out
 
 
-def _boat_stock(t: _Table, units: str) -> Stock:
-    """The boat's [stock], validated as a spar file's is; the no-scarf ranges belong to each spar."""
+def _boat_stock(data: Any, units: str) -> Stock:
+    """The boat's [stock], read as a spar file's is; the no-scarf ranges belong to each spar."""
+    t = _Table(data, "stock", units, schema.STOCK)
     if t.has("no_scarf"):
         raise t.fail("no_scarf", "belongs in each spar file: where no scarf may fall differs from spar to spar")
     return _stock(t, units, math.inf, SimpleNamespace(wall=None))
@@ -153,18 +172,17 @@ def parse_boat(data: dict[str, Any], source: str = "") -> Boat:
     """A validated :class:`Boat` from parsed TOML (spar files read relative to ``source``'s folder)."""
     folder = Path(source).parent if source else Path(".")
     try:
-        top = _Table(data, "", "in")
-        boat_t = top.sub("boat", required=True)
-        units = boat_t.string("units", "in", ("in", "mm"))
-        boat_t.units = top.units = units
-        name = boat_t.string("name")
+        _Table(data, "", "in", BOAT_TOP)  # refuses a key the boat file does not declare
+        boat_t = _Table(data["boat"], "boat", "in", BOAT) if "boat" in data else None
+        if boat_t is None:
+            raise InputError("missing table [boat]", "boat")
+        units = boat_t.get("units")
+        name = boat_t.get("name")
         entries = _entries(boat_t.raw("spars"), boat_t.key("spars"))
-        boat_t.finish()
         tags = _tags(entries)
-        stock_t = top.sub("stock")
-        given = set(stock_t.data) if stock_t is not None else set()
-        stock = None if stock_t is None else _boat_stock(stock_t, units)
-        output_t = top.sub("output")
+        given = set(data["stock"]) if isinstance(data.get("stock"), dict) else set()
+        stock = _boat_stock(data["stock"], units) if "stock" in data else None
+        output_t = _Table(data["output"], "output", units, schema.OUTPUT) if "output" in data else None
     except InputError as exc:
         raise exc.located(source)
     loaded = []
@@ -178,7 +196,6 @@ def parse_boat(data: dict[str, Any], source: str = "") -> Boat:
         loaded.append((parse_spar(spar_data, str(path)), tag, file, key))
     try:
         output = _output(output_t, units, max(s.length for s, *_ in loaded))
-        top.finish()
     except InputError as exc:
         raise exc.located(source)
     spars = []

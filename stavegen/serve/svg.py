@@ -24,6 +24,7 @@ from ..pipeline import Design
 from ..section.properties import Section, bore_ring
 from ..section.staves import placed_ring
 from ..stations.evaluate import Station
+from ..render.figures import Figures
 from ..units import format_length
 
 ROUND_QUADS = 90  # segments per quarter circle of the drawn round (drawing only; figures are exact)
@@ -109,14 +110,15 @@ def section_svg(spar: Spar, station: Station) -> str:
     body.append(f'<circle class="plan" cx="0" cy="0" r="{_num(plan_r)}" fill="none" stroke="#2563eb" '
                 f'stroke-width="{_num(line)}" stroke-dasharray="{_num(line * 6)} {_num(line * 4)}"/>')
     size = extent * 0.075
-    words = (f"{n} staves, OD {format_length(2 * sec.radius, units)}, wall {format_length(sec.thickness, units)}"
+    fig = Figures(spar)
+    words = (f"{n} staves, OD {fig.dress(2 * sec.radius)}, wall {fig.dress(station.wall)}"
              + (", plugged" if plug else ""))
     body.append(_text(0, extent + size * 1.3, words, size))
     body.append(_text(0, extent + size * 2.6, f"plan (dashed): OD {format_length(station.plan_diameter, units)}",
                       size * 0.85, fill="#2563eb"))
     title = f"Section at {format_length(station.z, units, tape=True)} from the heel"
     return _svg((-extent, -extent, 2 * extent, 2 * extent + size * 3.2), body, title, "section-svg",
-                {"staves": str(n), "od-mm": _num(2 * sec.radius), "wall-mm": _num(sec.thickness),
+                {"staves": str(n), "od-mm": _num(2 * sec.radius), "wall-mm": _num(station.wall),
                  "z-mm": _num(station.z)})
 
 
@@ -140,7 +142,7 @@ def _dimension(x1: float, y1: float, x2: float, y2: float, words: str, size: flo
 def stave_svg(spar: Spar, sec: Section) -> str:
     """One stave's cross-section at the station, outer face up: the engine's polygon, the wood left after
     rounding shaded, and its width, thickness and notch dimensioned."""
-    units = spar.units
+    fig = Figures(spar)
     frame = sec.frame
     polygon = sec.stave_polygon()
     disc = Point(0.0, 0.0).buffer(sec.radius, quad_segs=ROUND_QUADS)
@@ -155,17 +157,17 @@ def stave_svg(spar: Spar, sec: Section) -> str:
             f'<path class="finished" d="{_path(finished)}" fill="{FINISHED_FILL[0]}" stroke="none"/>']
     below = -miny + size * 1.2
     body += _dimension(frame.x_notch_edge, below, frame.x_square_edge, below,
-                       f"width {format_length(sec.stave_width, units)}", size, line, (0, size * 1.3))
+                       f"width {fig.mark_width(sec.stave_width)}", size, line, (0, size * 1.3))
     right = maxx + size * 0.8
     body += _dimension(right, -frame.inner, right, -frame.outer,
-                       f"{format_length(sec.thickness, units)}", size, line, (size * 0.4, size * 0.35))
+                       f"{fig.dress(sec.thickness)}", size, line, (size * 0.4, size * 0.35))
     body[-1] = body[-1].replace('text-anchor="middle"', 'text-anchor="start"')
     if sec.notch is not None and frame.apex is not None:
         ax, ay = frame.apex
         body.append(f'<circle cx="{_num(ax)}" cy="{_num(-ay)}" r="{_num(line * 2.5)}" fill="#c2410c"/>')
         body.append(_text(frame.x_notch_edge, -frame.outer - size * 0.6,
-                          f"notch {format_length(sec.notch.depth, units)} deep, apex "
-                          f"{format_length(sec.notch.apex_height, units)} up", size * 0.9, anchor="start",
+                          f"notch {fig.notch_depth(sec.notch.depth)} deep, apex "
+                          f"{fig.apex_height(sec.notch.apex_height)} up", size * 0.9, anchor="start",
                           fill="#c2410c"))
     else:
         body.append(_text((minx + maxx) / 2, -frame.outer - size * 0.6,

@@ -14,8 +14,8 @@ from rich.text import Text
 
 from ..pipeline import Design
 from ..render import console
-from ..render.figures import Figures
 from ..render.wording import board_feet_words, board_length, board_words, cutter_rows, dressed_size, order_words
+from ..render.figures import Figures
 from ..units import format_length
 from . import svg
 
@@ -86,7 +86,7 @@ def section_view(design: Design, check) -> dict[str, Any]:
 
     spar = design.spar
     station = check.station
-    kerf = spar.stock.kerf if spar.stock is not None else (3.175 if spar.units == "in" else 3.0)  # as `section`
+    kerf = spar.stock.kerf if spar.stock is not None else (3.175 if spar.units == "in" else 3.0)
     settings = cutter_settings(station.section, kerf)
     return {
         "z_mm": station.z,
