@@ -74,15 +74,15 @@ units = "in"
 length = "11 ft"
 
 [plan]
-wood = "sitka-spruce"
+wood = "douglas-fir-coast"
 stations = [[0, 2.25], ["4 ft", 2.75], ["11 ft", 2.25]]
 
 [hollow]
-wood = "sitka-spruce"
+wood = "port-orford-cedar"
 staves = 8
 joint = "birdsmouth-flush"
-wall = "9/16"
-stations = [[0, 2.625], ["4 ft", 3.125], ["11 ft", 2.625]]
+wall = "1/2"
+stations = [[0, "2 15/16"], ["4 ft", "3 9/16"], ["11 ft", "2 15/16"]]
 margin = 0.0
 
 [[hollow.plug]]                   # gooseneck
@@ -112,15 +112,15 @@ units = "mm"
 length = 3300
 
 [plan]
-wood = "sitka-spruce"
+wood = "douglas-fir-coast"
 stations = [[0, 58], [1200, 70], [3300, 58]]
 
 [hollow]
-wood = "sitka-spruce"
+wood = "port-orford-cedar"
 staves = 8
 joint = "birdsmouth-flush"
-wall = 14
-stations = [[0, 68], [1200, 80], [3300, 68]]
+wall = 13
+stations = [[0, 75], [1200, 91], [3300, 75]]
 margin = 0.0
 
 [[hollow.plug]]                   # gooseneck
