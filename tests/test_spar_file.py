@@ -319,8 +319,8 @@ def test_write_back_keeps_every_other_byte(tmp_path):
     text = text.replace("\n", "\r\n")  # a file saved on Windows keeps its line ends
     original = parse_spar(tomllib.loads(text), "t.toml")
     # A hand-made solution (the write-back does not care how it was found): wall and diameters along the spar.
-    hollow = dataclasses.replace(original.hollow, staves=10, wall=Profile((0.0, 6096.0), (22.0, 19.31)),
-                                 diameter=Profile((0.0, 3048.0, 6096.0), (130.0, 128.2, 80.0)))
+    hollow = dataclasses.replace(original.hollow, staves=10, wall=Profile((0.0, 5181.6), (18.0, 15.31)),
+                                 diameter=Profile((0.0, 2590.8, 5181.6), (130.0, 128.2, 80.0)))
     solved = dataclasses.replace(original, hollow=hollow)
     out = with_solved_values(text, original, solved)
     before, after = text.splitlines(keepends=True), out.splitlines(keepends=True)
@@ -331,7 +331,7 @@ def test_write_back_keeps_every_other_byte(tmp_path):
         assert a.split("#")[1] == b.split("#")[1] and b.endswith("\r\n")
     read = tomllib.loads(out)["hollow"]
     assert read["staves"] == 10
-    assert read["wall"] == [[0, "7/8"], [240, "25/32"]]  # 22 mm and 19.31 mm rounded up to 32nds
-    assert read["stations"] == [[0, "5 1/8"], [120, "5 1/16"], [240, "3 5/32"]]
+    assert read["wall"] == [[0, "23/32"], [204, "5/8"]]  # 18 mm and 15.31 mm rounded up to 32nds
+    assert read["stations"] == [[0, "5 1/8"], [102, "5 1/16"], [204, "3 5/32"]]
     reloaded = parse_spar(tomllib.loads(out), "t.toml")
-    assert reloaded.hollow.staves == 10 and reloaded.hollow.wall.value[0] >= 22.0
+    assert reloaded.hollow.staves == 10 and reloaded.hollow.wall.value[0] >= 18.0
