@@ -12,6 +12,7 @@ from typing import Optional
 
 import typer
 from rich.console import Console
+from rich.text import Text
 
 from .boat_build import is_boat_file, run_boat_build
 from .errors import InputError
@@ -25,8 +26,10 @@ def check_boat(path: Path, json_out: bool, console: Console) -> None:
     """``check BOAT``: each spar's check and the boat's table; exit 1 if any spar misses its target."""
     from .boat import design_boat
     from .model.boat import load_boat
+    from .render.progress import steps
 
-    result = design_boat(load_boat(path))
+    with steps("reading the boat file") as tell:
+        result = design_boat(load_boat(path), step=tell)
     if json_out:
         from .render.boat_papers import to_boat_json
 
@@ -45,18 +48,21 @@ def size_boat(path: Path, write: Optional[Path], console: Console) -> None:
 
     from .model.boat import load_boat
     from .render.console import candidate_notes, candidates_table
+    from .render.fit import Prose, fit
+    from .render.progress import counting
     from .sizing.count import compare_stave_counts
 
     if write is not None:
         raise InputError("takes a spar file; to write a spar back, run size on that spar's own file", "--write")
     for bs in load_boat(path).spars:
         model = bs.spar
-        console.rule(f"{bs.tag}: {model.name} ({bs.file})")
-        comparison = compare_stave_counts(replace(model, hollow=replace(model.hollow, staves="auto")))
-        console.print(candidates_table(model, comparison))
+        console.rule(Text(f"{bs.tag}: {model.name} ({bs.file})"))
+        with counting(f"{bs.tag}: sizing and laying out every stave count") as tell:
+            comparison = compare_stave_counts(replace(model, hollow=replace(model.hollow, staves="auto")), tell)
+        console.print(fit(candidates_table(model, comparison)))
         for line in candidate_notes(comparison):
-            console.print(f"[dim]{line}[/]")
-        console.print(f"[bold]choice:[/] {comparison.reason}")
+            console.print(Prose(line, style="dim"))
+        console.print(Prose(Text("choice: ", style="bold") + Text(comparison.reason)))
 
 
 def init_boat(path: Path, units: str, force: bool, console: Console) -> None:

@@ -12,6 +12,7 @@ from typing import Callable, Optional
 import typer
 from rich.console import Console
 from rich.markup import escape
+from rich.text import Text
 
 from .errors import InputError
 
@@ -80,11 +81,14 @@ def check(
 ) -> None:
     """Stiffness, strength and weight against the plan, station by station (every spar of a boat)."""
     from .boat_commands import check_boat, is_boat_file
-    from .pipeline import design_file
+    from .model.loader import load_spar
+    from .pipeline import design
+    from .render.progress import steps
 
     if is_boat_file(spar):
         return check_boat(spar, json_out, _console())
-    result = design_file(spar)
+    with steps("reading the spar file") as tell:
+        result = design(load_spar(spar), step=tell)
     if json_out:
         from .render.json_doc import to_json
 
@@ -110,6 +114,8 @@ def section(
     from .model.loader import load_spar
     from .pipeline import resolve
     from .render.console import machining_table, section_table
+    from .render.progress import steps
+    from .render.fit import fit
     from .stations.evaluate import evaluate_stations
     from .stations.grid import StationMark
     from .units import UnitError, parse_length
@@ -118,7 +124,8 @@ def section(
 
     if is_boat_file(spar):
         raise InputError("is a boat file; give one of the spar files it lists", source=str(spar))
-    model, solved = resolve(load_spar(spar))
+    with steps("solving what the spar file leaves to stavegen"):
+        model, solved = resolve(load_spar(spar))
     try:
         z = parse_length(at, model.units)
     except UnitError as exc:
@@ -131,17 +138,19 @@ def section(
         console.print(f"[cyan]solved:[/] {line}")
     for line in model.notices:
         console.print(f"[bold yellow]warning:[/] {escape(line)}")
-    console.print(section_table(model, check_station(model, station)))
+    console.print(fit(section_table(model, check_station(model, station)), keys=0))
     kerf = model.stock.kerf if model.stock is not None else (3.175 if model.units == "in" else 3.0)
-    console.print(machining_table(model, cutter_settings(station.section, kerf)))
+    console.print(fit(machining_table(model, cutter_settings(station.section, kerf)), keys=0))
 
 
 @app.command()
 @reports_errors
 def size(
     spar: Path = typer.Argument(..., help="The spar file, or a boat file (TOML).", show_default=False),
-    write: Optional[Path] = typer.Option(None, "--write", help="Write the chosen spar, solved values filled in, "
-                                                                "to this file (comments kept).", show_default=False),
+    write: Optional[Path] = typer.Option(None, "--write", help='Write the spar file to this file with what it leaves '
+                                                                '"auto" filled in (comments kept).', show_default=False),
+    set_staves: bool = typer.Option(False, "--set-staves", help="With --write, also replace the file's stave count "
+                                                                "with the chosen one."),
 ) -> None:
     """Compare every stave count (4 to 24) and show why one is chosen; solve the wall where it is "auto"
     (every spar of a boat)."""
@@ -152,31 +161,59 @@ def size(
     if is_boat_file(spar):
         return size_boat(spar, write, _console())
     from .model.loader import load_spar, read_spar_text
-    from .model.rewrite import with_solved_values
+    from .model.rewrite import solved_values, with_solved_values
     from .outputs import OutputSet
     from .render.console import candidate_notes, candidates_table
+    from .render.fit import Prose, fit
+    from .render.progress import counting
     from .sizing.count import compare_stave_counts
 
     model = load_spar(spar)
-    comparison = compare_stave_counts(_replace(model, hollow=_replace(model.hollow, staves="auto")))
+    with counting("sizing and laying out every stave count") as tell:
+        comparison = compare_stave_counts(_replace(model, hollow=_replace(model.hollow, staves="auto")), tell)
     console = _console()
     for line in model.notices:
-        console.print(f"[bold yellow]warning:[/] {escape(line)}")
-    console.print(candidates_table(model, comparison))
+        console.print(Prose(Text("warning: ", style="bold yellow") + Text(line)))
+    console.print(fit(candidates_table(model, comparison)))
     for line in candidate_notes(comparison):
-        console.print(f"[dim]{line}[/]")
-    console.print(f"[bold]choice:[/] {comparison.reason}")
-    if model.hollow.staves != "auto" and model.hollow.staves != comparison.chosen.staves:
-        console.print(f"The file asks for {model.hollow.staves} staves; the comparison prefers "
-                      f"{comparison.chosen.staves}.")
-    if write is not None:
-        chosen = comparison.chosen.spar
-        original = model if model.hollow.staves == "auto" else _replace(model, hollow=_replace(model.hollow, staves="auto"))
-        text = with_solved_values(read_spar_text(spar), original, chosen)
-        with OutputSet(write.parent if str(write.parent) else Path(".")) as out:
-            out.add_text(write.name, text)
-            out.commit()
-        console.print(f"wrote {escape(str(write))}")
+        console.print(Prose(line, style="dim"))
+    console.print(Prose(Text("choice: ", style="bold") + Text(comparison.reason)))
+    asked = model.hollow.staves
+    if asked != "auto" and asked != comparison.chosen.staves:
+        console.print(Prose(f"The file asks for {asked} staves; the comparison prefers {comparison.chosen.staves}."))
+    if write is None:
+        return
+    if asked == "auto" or set_staves:  # the chosen count, and what the file leaves "auto" solved for it
+        original = _replace(model, hollow=_replace(model.hollow, staves="auto"))
+        filled = comparison.chosen.spar
+    else:  # the file's own count, and what it leaves "auto" solved for that count
+        original = model
+        own = next(c for c in comparison.candidates if c.staves == asked)
+        if own.spar is None:
+            raise InputError(f"the file's {asked} staves cannot be built ({own.refused}); pass --set-staves to "
+                             f"write the chosen {comparison.chosen.staves}", "hollow.staves", str(spar))
+        filled = own.spar
+    changes = solved_values(original, filled)
+    if not changes:
+        console.print(Prose(f'nothing written: {spar} leaves nothing "auto" (pass --set-staves to write the chosen '
+                            "stave count)"))
+        return
+    text = with_solved_values(read_spar_text(spar), original, filled)
+    with OutputSet(write.parent if str(write.parent) else Path(".")) as out:
+        out.add_text(write.name, text)
+        out.commit()
+    was = {"staves": model.hollow.staves, "wall": model.hollow.wall, "stations": model.hollow.diameter}
+    said = "; ".join(f"hollow.{key} = {value} (was {_as_written(was[key])})" for key, value in changes)
+    console.print(Prose(f"wrote {write}: {said}"))
+
+
+def _as_written(value: object) -> str:
+    """A value of the spar file as it reads there: "auto" quoted, a number bare, anything else as the file had it."""
+    if isinstance(value, str):
+        return f'"{value}"'
+    if isinstance(value, int):
+        return str(value)
+    return "a given value"
 
 
 @app.command()
@@ -187,10 +224,11 @@ def woods(
     """The built-in wood table, with the source of every figure."""
     from .model.woods import wood_table
     from .render.console import woods_table
+    from .render.fit import fit
 
     if units not in ("in", "mm"):
         raise InputError(f'{units!r} is not "in" or "mm"', "--units")
-    _console().print(woods_table(list(wood_table().values()), units))
+    _console().print(fit(woods_table(list(wood_table().values()), units)))
 
 
 @app.command()

@@ -54,16 +54,24 @@ def _replace(table, key: str, toml_value: str) -> None:
     table[key] = new
 
 
+def solved_values(original: Spar, solved: Spar) -> list[tuple[str, str]]:
+    """(key of [hollow], TOML value) for each value ``original`` leaves "auto", as ``solved`` fills it in."""
+    h, s = original.hollow, solved.hollow
+    units = original.units
+    out = []
+    if h.staves == AUTO:
+        out.append(("staves", str(s.staves)))
+    if isinstance(h.wall, str) and h.wall in WALL_SOLVES:
+        out.append(("wall", _profile(s.wall, units)))
+    if h.diameter == AUTO:
+        out.append(("stations", _profile(s.diameter, units, pairs=True)))
+    return out
+
+
 def with_solved_values(text: str, original: Spar, solved: Spar) -> str:
     """``text`` (the spar file) with the values ``original`` left "auto" filled in from ``solved``."""
     doc = tomlkit.parse(text)
     hollow = doc["hollow"]
-    h, s = original.hollow, solved.hollow
-    units = original.units
-    if h.staves == AUTO:
-        _replace(hollow, "staves", str(s.staves))
-    if isinstance(h.wall, str) and h.wall in WALL_SOLVES:
-        _replace(hollow, "wall", _profile(s.wall, units))
-    if h.diameter == AUTO:
-        _replace(hollow, "stations", _profile(s.diameter, units, pairs=True))
+    for key, value in solved_values(original, solved):
+        _replace(hollow, key, value)
     return tomlkit.dumps(doc)

@@ -9,6 +9,7 @@ from rich.text import Text
 from ..boat import BoatDesign
 from ..units import format_mass
 from . import console as single
+from .fit import Prose, fit
 from .wording import board_feet_words, order_words
 
 
@@ -16,11 +17,11 @@ def spar_rows(bd: BoatDesign) -> Table:
     """One row per spar: its verdict (its check's), least ratios, weights and the board feet bought alone."""
     units = bd.boat.units
     table = Table(title=f"{bd.boat.name}: {len(bd.designs)} spars", title_justify="left")
-    for name, right in (("spar", False), ("verdict", False), ("least EI ratio", True),
-                        ("least strength ratio", True), ("plan", True), ("hollow", True), ("saved", True)):
-        table.add_column(name, justify="right" if right else "left")
+    for name, right in (("spar", False), ("verdict", False), ("least EI\nratio", True),
+                        ("least\nstrength\nratio", True), ("plan", True), ("hollow", True), ("saved", True)):
+        table.add_column(name, justify="right" if right else "left", no_wrap=right)
     if bd.order is not None:
-        table.add_column("board feet bought alone", justify="right")
+        table.add_column("board feet\nbought\nalone", justify="right", no_wrap=True)
     for bs, d in bd.spars:
         a = d.assessment
         saved = a.plan.mass.mass - a.hollow.mass.mass
@@ -46,17 +47,17 @@ def print_boat_check(console: Console, bd: BoatDesign) -> None:
     """Each spar's station table and verdict, then the boat's table, verdict and the cautions once."""
     for bs, d in bd.spars:
         console.rule(Text(f"{bs.tag}: {d.spar.name} ({bs.file})"))
-        console.print(single._headline(d.spar))
+        console.print(Prose(Text.from_markup(single._headline(d.spar))))
         for line in d.solved:
-            console.print(f"[cyan]solved:[/] {line}")
-        console.print(single.station_table(d))
-        console.print(single.spar_table(d))
+            console.print(Prose(Text("solved: ", style="cyan") + Text(line)))
+        console.print(fit(single.station_table(d)))
+        console.print(fit(single.spar_table(d)))
         for line in d.warnings:
-            console.print(Text("warning: ", style="bold yellow") + Text(line))
-        console.print(single.verdict(d))
+            console.print(Prose(Text("warning: ", style="bold yellow") + Text(line)))
+        console.print(Prose(single.verdict(d)))
     console.rule(Text(bd.boat.name))
-    console.print(spar_rows(bd))
-    console.print(boat_verdict(bd))
+    console.print(fit(spar_rows(bd)))
+    console.print(Prose(boat_verdict(bd)))
     console.print(single.cautions_panel())
 
 
@@ -64,11 +65,11 @@ def print_boat_build_summary(console: Console, bd: BoatDesign, written: list) ->
     """The lines a boat build ends with: the spars, the boards to buy together and apart, the files."""
     for bs, d in bd.spars:
         for line in d.solved:
-            console.print(f"[cyan]solved ({bs.tag}):[/] {line}")
+            console.print(Prose(Text(f"solved ({bs.tag}): ", style="cyan") + Text(line)))
         for line in d.warnings:
-            console.print(Text(f"warning ({bs.tag}): ", style="bold yellow") + Text(line))
-    console.print(spar_rows(bd))
-    console.print(boat_verdict(bd))
+            console.print(Prose(Text(f"warning ({bs.tag}): ", style="bold yellow") + Text(line)))
+    console.print(fit(spar_rows(bd)))
+    console.print(Prose(boat_verdict(bd)))
     table = Table(show_header=False, box=None, pad_edge=False, padding=(0, 2, 0, 2))
     table.add_column("", style="bold", no_wrap=True)
     table.add_column("")
@@ -76,12 +77,12 @@ def print_boat_build_summary(console: Console, bd: BoatDesign, written: list) ->
     units = bd.boat.units
     if order is not None and order.boards:
         apart = bd.separate_board_feet
-        table.add_row("boards to buy", order_words(order, units))
-        table.add_row("together / apart", f"{board_feet_words(order.to_buy_board_feet)} board feet ordered "
-                                          f"together against {board_feet_words(apart)} for the spars bought "
-                                          f"alone: {board_feet_words(apart - order.to_buy_board_feet)} saved")
+        table.add_row("boards to buy", Prose(order_words(order, units)))
+        table.add_row("together / apart", Prose(f"{board_feet_words(order.to_buy_board_feet)} board feet ordered "
+                                                f"together against {board_feet_words(apart)} for the spars bought "
+                                                f"alone: {board_feet_words(apart - order.to_buy_board_feet)} saved"))
     if written:
-        table.add_row("written", f"{len(written)} files into {written[0].parent}: "
-                                 f"{', '.join(p.name for p in written)}")
+        table.add_row("written", Prose(f"{len(written)} files into {written[0].parent}: "
+                                       f"{', '.join(p.name for p in written)}"))
     console.print(table)
     console.print(Text("Before cutting, read the safety notes on page 1 of the report.", style="bold red"))

@@ -20,7 +20,7 @@ from reportlab.platypus import PageBreak, Paragraph, SimpleDocTemplate, Spacer, 
 from ..boat import BoatDesign
 from ..units import format_mass
 from . import pdf_report as parts
-from .pdf_common import BOLD, FONT, MM, PAPER, build_date, plain
+from .pdf_common import BOLD, FONT, MM, PAPER, build_date
 from .wording import board_feet_words, order_words, volume_words
 
 # The spar's own pages in the boat report, in order (the board order is the boat's, on the pages before).
@@ -68,7 +68,7 @@ def boat_page(bd: BoatDesign, r: parts.Report) -> list:
                  board_feet_words(bd.separate_board_feet) if bd.order is not None else "-"])
     widths = [10, 40, 14, 16, 20, 20, 16, 26, 20]
     scale = r.width / (sum(widths) * MM)
-    table = parts._table([[plain(c) for c in row] for row in rows], widths=[w * MM * scale for w in widths],
+    table = parts._table([list(row) for row in rows], widths=[w * MM * scale for w in widths],
                          align_right_from=3)
     style = [("FONT", (0, -1), (-1, -1), BOLD, 7.5), ("LINEABOVE", (0, -1), (-1, -1), 0.6, colors.black)]
     for i, ok in enumerate(verdicts, start=1):
@@ -126,7 +126,7 @@ def write_boat_report(bd: BoatDesign, path: str | Path) -> None:
         story += [PageBreak()] + parts.board_order(parts.Report(design=bd.order_view(), styles=styles, width=width))
     for i in range(len(bd.designs)):
         story += _spar_pages(bd, i, styles, width)
-    left_words = plain(f"{boat.name}  |  {Path(boat.source).name if boat.source else ''}  |  built {build_date()}")
+    left_words = f"{boat.name}  |  {Path(boat.source).name if boat.source else ''}  |  built {build_date()}"
 
     def footer(c: Canvas, number: int, total: int) -> None:
         c.saveState()

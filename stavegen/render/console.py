@@ -18,6 +18,7 @@ from ..pipeline import Design
 from ..section.properties import Section
 from ..units import KG_M3_PER_LB_FT3, format_force, format_length, format_mass, stress_in
 from .figures import Figures
+from .fit import Prose, fit
 from .wording import FENCE_NOTE, GUARD_NOTE, aimed_words, cutter_rows, order_words, steps_words
 
 
@@ -53,7 +54,7 @@ def station_table(design: Design) -> Table:
     for col, justify in (("from\nheel", "right"), ("plan\nOD", "right"), ("\nOD", "right"), ("\nwall", "right"),
                          ("stave\nwidth", "right"), ("notch\ndepth", "right"), ("EI\nratio", "right"),
                          ("strength\nratio", "right"), ("\nplug", "center"), ("", "left")):
-        table.add_column(col, justify=justify, no_wrap=True)
+        table.add_column(col, justify=justify, no_wrap=bool(col))  # the notes may wrap, never a figure
     for c in result.stations:
         s = c.station
         sec = s.section
@@ -76,9 +77,9 @@ def spar_table(design: Design) -> Table:
     fig = Figures(spar)
     table = Table(title="The whole spar", header_style="bold", title_justify="left", box=box.SIMPLE_HEAD)
     table.add_column("")
-    table.add_column("plan (solid)", justify="right")
-    table.add_column("hollow", justify="right")
-    table.add_column("hollow / plan", justify="right")
+    table.add_column("plan (solid)", justify="right", no_wrap=True)
+    table.add_column("hollow", justify="right", no_wrap=True)
+    table.add_column("hollow / plan", justify="right", no_wrap=True)
     stiff = "lbf/in" if spar.units == "in" else "N/mm"
     per = 25.4 / 4.4482216152605 if spar.units == "in" else 1.0
     rows = [
@@ -132,9 +133,9 @@ def print_build_summary(console: Console, design: Design, written: list) -> None
     """The few lines a build ends with: pass or fail, boards to buy, scarfs, weight saved, files written."""
     spar, r, lay = design.spar, design.assessment, design.layout
     for line in design.solved:
-        console.print(f"[cyan]solved:[/] {line}")
+        console.print(Prose(Text("solved: ", style="cyan") + Text(line)))
     for line in design.warnings:
-        console.print(Text("warning: ", style="bold yellow") + Text(line))
+        console.print(Prose(Text("warning: ", style="bold yellow") + Text(line)))
     w = r.weakest_stiffness
     if r.passed:
         head = Text("PASS ", style="bold green")
@@ -144,47 +145,49 @@ def print_build_summary(console: Console, design: Design, written: list) -> None
     else:
         head = Text("FAIL ", style="bold red")
         head.append(" ".join(r.shortfalls()) + ". Do not build it as drawn.")
-    console.print(head)
+    console.print(Prose(head))
     table = Table(show_header=False, box=None, pad_edge=False, padding=(0, 2, 0, 2))
     table.add_column("", style="bold", no_wrap=True)
     table.add_column("")
     if lay is not None and lay.lumber is not None and lay.lumber.boards:
-        table.add_row("boards to buy", order_words(lay.lumber, spar.units))
+        table.add_row("boards to buy", Prose(order_words(lay.lumber, spar.units)))
     fig = Figures(spar)
     if lay is not None:
-        table.add_row("scarfs", (f"{lay.scarfs.count}, each {fig.cut_length(lay.scarfs.length)} long"
-                                 + aimed_words(lay.scarf_aim)) if lay.scarfs.count else "none: every stave is one piece")
+        table.add_row("scarfs", Prose((f"{lay.scarfs.count}, each {fig.cut_length(lay.scarfs.length)} long"
+                                       + aimed_words(lay.scarf_aim)) if lay.scarfs.count
+                                      else "none: every stave is one piece"))
     saved = r.weight_saved
-    table.add_row("weight saved", f"{format_mass(saved, spar.units)}, {100 * r.weight_saved_share:.0f} % "
-                                  f"({format_mass(r.hollow.mass.mass, spar.units)} hollow against "
-                                  f"{format_mass(r.plan.mass.mass, spar.units)} solid)"
-                  if saved >= 0 else f"none: {format_mass(-saved, spar.units)} heavier than the solid spar")
+    table.add_row("weight saved", Prose(f"{format_mass(saved, spar.units)}, {100 * r.weight_saved_share:.0f} % "
+                                        f"({format_mass(r.hollow.mass.mass, spar.units)} hollow against "
+                                        f"{format_mass(r.plan.mass.mass, spar.units)} solid)"
+                                        if saved >= 0 else
+                                        f"none: {format_mass(-saved, spar.units)} heavier than the solid spar"))
     if written:
         names = [p.name for p in written]
         stem = spar.slug
         short = [names[0]] + [n[len(stem):] if n.startswith(stem + "-") else n for n in names[1:]]
-        table.add_row("written", f"{len(names)} files into {escape(str(written[0].parent))}: {', '.join(short)}")
+        table.add_row("written", Prose(f"{len(names)} files into {written[0].parent}: {', '.join(short)}"))
     console.print(table)
     if lay is not None:
         console.print(Text("Order of operations", style="bold"))
         for line in steps_words(fig, lay.machining.steps):
-            console.print(Text(line), overflow="fold")
+            console.print(Prose(line))
         for note in lay.machining.notes:
-            console.print(Text("note: ", style="bold yellow") + Text(note))
+            console.print(Prose(Text("note: ", style="bold yellow") + Text(note)))
     if not r.passed:
         console.print(Text("The templates and cut list are marked: this design fails its target.", style="bold red"))
     console.print(Text("Before cutting, read the safety notes on page 1 of the report.", style="bold red"))
 
 
 def print_check(console: Console, design: Design) -> None:
-    console.print(_headline(design.spar))
+    console.print(Prose(Text.from_markup(_headline(design.spar))))
     for line in design.solved:
-        console.print(f"[cyan]solved:[/] {line}")
-    console.print(station_table(design))
-    console.print(spar_table(design))
+        console.print(Prose(Text("solved: ", style="cyan") + Text(line)))
+    console.print(fit(station_table(design)))
+    console.print(fit(spar_table(design)))
     for line in design.warnings:
-        console.print(Text("warning: ", style="bold yellow") + Text(line))
-    console.print(verdict(design))
+        console.print(Prose(Text("warning: ", style="bold yellow") + Text(line)))
+    console.print(Prose(verdict(design)))
     console.print(cautions_panel())
 
 
@@ -195,7 +198,7 @@ def section_table(spar: Spar, check: StationCheck) -> Table:
     table = Table(title=f"Section at {length(spar, s.z, True)} from the heel", show_header=False,
                   title_justify="left")
     table.add_column("", style="bold")
-    table.add_column("", justify="right")
+    table.add_column("", justify="right", no_wrap=True)
     rows: list[tuple[str, str]] = [
         ("staves, joint", f"{sec.staves}, {sec.joint}"),
         ("finished diameter (plan)", f"{fig.dress(s.diameter)} ({fig.describe(s.plan_diameter)})"),
@@ -238,7 +241,7 @@ def machining_table(spar: Spar, settings: CutterSettings) -> Table:
     table = Table(title="Cutter settings", show_header=False, title_justify="left",
                   caption=f"{FENCE_NOTE} {GUARD_NOTE}", caption_justify="left")
     table.add_column("", style="bold")
-    table.add_column("", justify="right")
+    table.add_column("", justify="right", no_wrap=True)
     for row in cutter_rows(Figures(spar), settings):
         if row.heading:
             table.add_section()
@@ -274,7 +277,7 @@ def candidates_table(spar: Spar, comparison) -> Table:
     heads = ("\nN", "least\nEI", "\nwall", "widest\nstave", "least\nw / t", "rips per\nboard",
              "board ft\nto buy", "planed\noff", "glue\narea", "\ncuts", "V-bit\n1 pass", "")
     for head in heads:
-        table.add_column(head, justify="right", no_wrap=True)
+        table.add_column(head, justify="right", no_wrap=bool(head))  # the verdict may wrap, never a figure
     for c in comparison.candidates:
         chosen = c is comparison.chosen
         if c.refused:

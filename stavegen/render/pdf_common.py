@@ -11,6 +11,8 @@ import os
 from pathlib import Path
 
 from reportlab.lib.pagesizes import A4, letter
+from reportlab.pdfbase import pdfmetrics
+from reportlab.pdfbase.ttfonts import TTFont
 
 from ..model.spar import Spar
 from ..units import MM_PER_INCH
@@ -18,26 +20,39 @@ from ..units import MM_PER_INCH
 MM = 72.0 / MM_PER_INCH  # points per millimetre: 100 mm = 283.46 pt, 1 in = 72 pt
 PAPER = {"letter": letter, "a4": A4}  # portrait (width, height) in points
 
-FONT = "Helvetica"
-BOLD = "Helvetica-Bold"
-ITALIC = "Helvetica-Oblique"
+# The PDFs' fonts: Liberation Sans (regular, bold, italic), which has Helvetica's metrics, shipped in fonts/
+# with its licence (the SIL Open Font License: free to bundle and redistribute) and embedded, subset, in every
+# PDF, so that text in Latin, Greek (polytonic too) or Cyrillic script (a spar's name, a wood's) prints as
+# written, and so do the signs the papers use (≥ ≤ ⁴ φ • → ≈ √ π). CJK scripts are not in the font: their
+# characters would print as empty boxes (see :func:`lacks_glyphs`).
+FONT = "LiberationSans"
+BOLD = "LiberationSans-Bold"
+ITALIC = "LiberationSans-Italic"
+_FONT_FILES = {FONT: "LiberationSans-Regular.ttf", BOLD: "LiberationSans-Bold.ttf", ITALIC: "LiberationSans-Italic.ttf"}
 
-# Characters the standard PDF fonts (WinAnsi) cannot show, with what to print instead.
-_PLAIN = {"≥": ">=", "≤": "<=", "⁴": "^4", "φ": "phi", "●": "*", "→": "->", "←": "<-", "≈": "~",
-          "√": "sqrt", "π": "pi", "\u2009": " ", "\u202f": " "}
+
+def _register_fonts() -> None:
+    registered = set(pdfmetrics.getRegisteredFontNames())
+    folder = Path(__file__).resolve().parent / "fonts"
+    for name, file in _FONT_FILES.items():
+        if name not in registered:
+            pdfmetrics.registerFont(TTFont(name, str(folder / file)))
+    pdfmetrics.registerFontFamily(FONT, normal=FONT, bold=BOLD, italic=ITALIC, boldItalic=BOLD)
 
 
-def plain(text: str) -> str:
-    """``text`` with every character the standard fonts lack replaced by a plain spelling."""
-    out = []
-    for ch in text:
-        ch = _PLAIN.get(ch, ch)
-        try:
-            ch.encode("cp1252")
-        except UnicodeEncodeError:
-            ch = "?"
-        out.append(ch)
-    return "".join(out)
+_register_fonts()
+
+
+def lacks_glyphs(text: str, font: str = FONT) -> str:
+    """The characters of ``text`` the PDFs' font has no glyph for (they would print as empty boxes)."""
+    face = pdfmetrics.getFont(font).face
+    return "".join(dict.fromkeys(ch for ch in text if ord(ch) not in face.charToGlyph and not ch.isspace()))
+
+
+def ask_actual_size(canvas) -> None:
+    """Ask PDF viewers to print the document at actual size (the viewer preference PrintScaling /None):
+    the templates are full size and the report's drawings carry a scale."""
+    canvas.setViewerPreference("PrintScaling", "None")
 
 
 def paper_size(spar: Spar, landscape: bool = False) -> tuple[float, float]:

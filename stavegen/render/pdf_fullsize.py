@@ -33,7 +33,7 @@ from ..pipeline import Design
 from ..units import MM_PER_INCH, format_length
 from .csv_cutlist import fails_line
 from .figures import Figures
-from .pdf_common import BOLD, FONT, MM, build_date, draw_scale_bar, paper_size, plain, source_name, \
+from .pdf_common import BOLD, FONT, MM, ask_actual_size, build_date, draw_scale_bar, paper_size, source_name, \
     scale_bar_length
 
 # Page furniture, mm. Margins keep everything inside what an ordinary printer prints.
@@ -291,7 +291,7 @@ class _Painter:
         px, py = self.pt(x, y)
         c.setFont(font, size)
         c.setFillGray(gray)
-        {"left": c.drawString, "right": c.drawRightString, "centre": c.drawCentredString}[align](px, py, plain(s))
+        {"left": c.drawString, "right": c.drawRightString, "centre": c.drawCentredString}[align](px, py, s)
         c.setFillGray(0)
 
 
@@ -328,7 +328,7 @@ def _draw_template(p: _Painter, design: Design, place: Placement) -> None:
     # The name, repeated along the piece between station lines, just inside the notch edge (or above the
     # centre line), so that every page shows it whole at least once.
     edge = "centre line dash-dot, both edges tapered" if symmetric else "notch edge: this edge, straight"
-    name = plain(f"{_template_name(t)}   |   {edge}   |   head end >")
+    name = f"{_template_name(t)}   |   {edge}   |   head end >"
     size = 7
     long = p.c.stringWidth(name, BOLD, size) / MM
     y_text = 1.2 if symmetric else lo + 2.2
@@ -374,23 +374,23 @@ def _header(c, design: Design, sheet_: Sheet, title: str, right: str, detail: st
     x0, _, x1, y1 = sheet_.printable
     c.setFillGray(0)
     c.setFont(BOLD, 11)
-    c.drawString(x0, y1 - 11, plain(title))
+    c.drawString(x0, y1 - 11, title)
     c.setFont(FONT, 6.5)
-    c.drawString(x0, y1 - 20, plain(detail))
-    c.drawString(x0, y1 - 28, plain(f"{spar.name}  |  {source_name(spar)}  |  built {build_date()}"))
+    c.drawString(x0, y1 - 20, detail)
+    c.drawString(x0, y1 - 28, f"{spar.name}  |  {source_name(spar)}  |  built {build_date()}")
     if not design.passed:
         c.setFillColorRGB(0.75, 0.08, 0.08)
         c.setFont(BOLD, 7.5)
-        c.drawString(x0, y1 - 38, plain(fails_line(design))[:150])
+        c.drawString(x0, y1 - 38, fails_line(design)[:150])
         c.setFillGray(0)
     c.setFont(BOLD, 18)
     c.drawRightString(x1, y1 - 18, right)
     bar, words, _ = scale_bar_length(spar)
     bx = x1 - 84 - bar
     c.setFont(BOLD, 6.5)
-    c.drawString(bx, y1 - 9, plain("PRINT AT ACTUAL SIZE (100 %, no scaling, not 'fit to page')."))
+    c.drawString(bx, y1 - 9, "PRINT AT ACTUAL SIZE (100 %, no scaling, not 'fit to page').")
     c.setFont(FONT, 6.5)
-    c.drawString(bx, y1 - 17, plain(f"This bar must measure exactly {words}; if it does not, do not cut to these pages."))
+    c.drawString(bx, y1 - 17, f"This bar must measure exactly {words}; if it does not, do not cut to these pages.")
     draw_scale_bar(c, bx, y1 - 28, spar, height=5)
 
 
@@ -474,7 +474,7 @@ def _map_page(c, design: Design, sheet_: Sheet, total: int) -> None:
     y = y1 - HEADER * MM - 4
     for i, s in enumerate(steps, start=1):
         for j, line in enumerate(_wrap(c, f"{i}. {s}", x1 - x0, FONT, 8)):
-            c.drawString(x0 + (0 if j == 0 else 9), y, plain(line))
+            c.drawString(x0 + (0 if j == 0 else 9), y, line)
             y -= 10
         y -= 2
     # The map: every row of pages as a strip of rectangles, the templates drawn small inside.
@@ -502,8 +502,8 @@ def _map_page(c, design: Design, sheet_: Sheet, total: int) -> None:
             c.setFont(BOLD, 7.5)
             c.setFillGray(0)
             names = ", ".join(p.template.labels[0] for p in (here if separate else sheet_.placements))
-            c.drawString(cx, cy + 4, plain(f"Row {r}, top to bottom: template{'s' if len(here) > 1 else ''} {names}"
-                                           if separate else f"Rows 1 to {rows}, top to bottom: templates {names}"))
+            c.drawString(cx, cy + 4, f"Row {r}, top to bottom: template{'s' if len(here) > 1 else ''} {names}"
+                                     if separate else f"Rows 1 to {rows}, top to bottom: templates {names}")
     for t in sheet_.tiles:
         ax, ay = m(t.x, t.y + t.height - 1e-6)
         ay -= 1e-6 * k
@@ -563,9 +563,9 @@ def _template_table(c, design: Design, sheet_: Sheet, x: float, y: float) -> Non
         for (_, dx), cell in zip(cols, cells):
             if cell is cells[1]:
                 for i, line in enumerate(serves):
-                    c.drawString(x + dx, y - 9 * i, plain(line))
+                    c.drawString(x + dx, y - 9 * i, line)
             else:
-                c.drawString(x + dx, y, plain(cell))
+                c.drawString(x + dx, y, cell)
         y -= 9 * (len(serves) - 1)
 
 
@@ -573,7 +573,7 @@ def _wrap(c, text: str, width: float, font: str, size: float) -> list[str]:
     words, lines, line = text.split(), [], ""
     for w in words:
         trial = f"{line} {w}".strip()
-        if c.stringWidth(plain(trial), font, size) > width and line:
+        if c.stringWidth(trial, font, size) > width and line:
             lines.append(line)
             line = w
         else:
@@ -587,9 +587,10 @@ def write_fullsize(design: Design, path: str | Path) -> None:
         raise ValueError("the full-size templates need the layout: design(spar, layout=True)")
     sheet_ = sheet(design)
     total = 1 + len(sheet_.tiles)
-    c = pdfcanvas.Canvas(str(path), pagesize=sheet_.page_size)
+    c = pdfcanvas.Canvas(str(path), pagesize=sheet_.page_size, initialFontName=FONT)
     c.setTitle(f"{design.spar.name} - full-size stave templates")
     c.setAuthor("stavegen")
+    ask_actual_size(c)
     c.setSubject(f"1:1 templates from {source_name(design.spar)}")
     _map_page(c, design, sheet_, total)
     c.showPage()

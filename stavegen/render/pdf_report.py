@@ -36,7 +36,7 @@ from ..stations.grid import MERGE_TOLERANCE
 from ..units import MM_PER_FOOT, MM_PER_INCH, N_PER_LBF, format_force, format_mass
 from .csv_cutlist import FAILS_WORD, cutlist_rows
 from .figures import Figures
-from .pdf_common import BOLD, FONT, ITALIC, MM, build_date, paper_size, plain, source_name
+from .pdf_common import BOLD, FONT, ITALIC, MM, ask_actual_size, build_date, paper_size, source_name
 from .wording import (FENCE_NOTE, GUARD_NOTE, aimed_words, board_feet_words, board_length, board_words, cutter_rows,
                       dressed_size, nominal_size, order_words, steps_words, volume_words)
 
@@ -54,7 +54,7 @@ FAIL_WORD = "FAIL"
 
 
 def _styles() -> dict[str, ParagraphStyle]:
-    base = ParagraphStyle("body", fontName=FONT, fontSize=9, leading=11.5, alignment=TA_LEFT)
+    base = ParagraphStyle("body", fontName=FONT, bulletFontName=FONT, fontSize=9, leading=11.5, alignment=TA_LEFT)
     return {
         "body": base,
         "small": ParagraphStyle("small", parent=base, fontSize=7.5, leading=9.5),
@@ -116,10 +116,10 @@ class Report:
 
     def p(self, text: str, style: str = "body") -> Paragraph:
         """A paragraph of plain text (escaped), or of markup when the text is already ``<b>``-tagged."""
-        return Paragraph(plain(text), self.styles[style])
+        return Paragraph(text, self.styles[style])
 
     def t(self, text: str) -> str:
-        return escape(plain(text))
+        return escape(text)
 
     def h2(self, text: str) -> Paragraph:
         return Paragraph(self.t(text), self.styles["h2"])
@@ -274,7 +274,7 @@ def summary(r: Report) -> list:
     load_note += ("; deflection grows in proportion to it, so the hollow / plan ratios and the head stiffness do "
                   "not depend on it.")
     out = [r.h2("Summary"), facts, Spacer(1, 6),
-           _table([[plain(c) for c in row] for row in whole], widths=[78 * MM, 30 * MM, 30 * MM, 22 * MM]),
+           _table([list(row) for row in whole], widths=[78 * MM, 30 * MM, 30 * MM, 22 * MM]),
            Spacer(1, 3), r.p(r.t(saving)), r.p(r.t(load_note), "small")]
     notes = [f"solved: {line}" for line in r.design.solved] + [f"warning: {line}" for line in r.design.warnings]
     for note in notes:
@@ -328,7 +328,7 @@ def station_table(r: Report) -> list:
             marks.append((i, not c.ok))
     widths = [18, 14, 15, 13, 17, 17, 14, 14, 12, 14, 9, 24]
     scale = r.width / (sum(widths) * MM)
-    table = _table([[plain(x) for x in row] for row in rows], widths=[w * MM * scale for w in widths])
+    table = _table([list(row) for row in rows], widths=[w * MM * scale for w in widths])
     table.setStyle(TableStyle([("ALIGN", (10, 0), (-1, -1), "LEFT"), ("LEFTPADDING", (11, 0), (11, -1), 6)]))
     for i, short in marks:
         table.setStyle(TableStyle([("FONT", (0, i), (-1, i), BOLD, 7.5)] +
@@ -384,7 +384,7 @@ def _dim(d: Drawing, p1: tuple[float, float], p2: tuple[float, float], text: str
     d.add(Line(x1, y1, x2, y2, strokeWidth=0.5))
     _arrow(d, x2, y2, ux, uy)
     _arrow(d, x1, y1, -ux, -uy)
-    d.add(String(text_at[0], text_at[1], plain(text), fontName=FONT, fontSize=size, textAnchor=anchor))
+    d.add(String(text_at[0], text_at[1], text, fontName=FONT, fontSize=size, textAnchor=anchor))
 
 
 def _ext(d: Drawing, x1: float, y1: float, x2: float, y2: float) -> None:
@@ -582,14 +582,14 @@ def _plot(r: Report, series: list[tuple[list[tuple[float, float]], colors.Color,
                      textAnchor="middle", fillColor=colors.Color(0.4, 0.4, 0.4)))
     d.add(lp)
     d.add(String(lp.x + lp.width / 2, 6, x_words, fontName=FONT, fontSize=7.5, textAnchor="middle"))
-    d.add(String(lp.x - 4, lp.y + lp.height + 6, plain(y_words), fontName=BOLD, fontSize=7.5, textAnchor="start"))
+    d.add(String(lp.x - 4, lp.y + lp.height + 6, y_words, fontName=BOLD, fontSize=7.5, textAnchor="start"))
     lx = lp.x + lp.width
     for words, colour, dash in reversed(list(legend)):
-        d.add(String(lx, lp.y + lp.height + 6, plain(words), fontName=FONT, fontSize=7.5,
+        d.add(String(lx, lp.y + lp.height + 6, words, fontName=FONT, fontSize=7.5,
                      textAnchor="end"))
         from reportlab.pdfbase.pdfmetrics import stringWidth
 
-        lx -= stringWidth(plain(words), FONT, 7.5) + 4
+        lx -= stringWidth(words, FONT, 7.5) + 4
         line = Line(lx - 18, lp.y + lp.height + 8.5, lx, lp.y + lp.height + 8.5, strokeColor=colour, strokeWidth=1.4)
         if dash:
             line.strokeDashArray = dash
@@ -648,7 +648,7 @@ def cut_list(r: Report) -> list:
     table_rows = [head] + [[row[i] for i in columns] for row in body]
     widths = [12, 17, 17, 18, 13, 13, 12, 13, 13, 13, 16, 16] + ([10] if r.layout.lumber is not None else [])
     scale = r.width / (sum(widths) * MM)
-    table = _table([[plain(c) for c in row] for row in table_rows], widths=[w * MM * scale for w in widths])
+    table = _table([list(row) for row in table_rows], widths=[w * MM * scale for w in widths])
     lay = r.layout
     first_rows = [i for i, row in enumerate(body, start=1) if row[1] == "1"]
     table.setStyle(TableStyle([("LINEABOVE", (0, i), (-1, i), 0.4, RULE) for i in first_rows[1:]] +
@@ -725,7 +725,7 @@ def scarf_map(r: Report) -> list:
         spans = [(nxt.start, prev.end) for prev, nxt in zip(segs, segs[1:])]
         rows.append([f"S{k}", ";  ".join(f"{r.where(c)} ({r.where(a)} to {r.where(b)})"
                                          for c, (a, b) in zip(centres, spans)) or "none: one piece"])
-    table = _table([[plain(c) for c in row] for row in rows], widths=[16 * MM, r.width - 16 * MM],
+    table = _table([list(row) for row in rows], widths=[16 * MM, r.width - 16 * MM],
                    align_right_from=9)
     return [CondPageBreak(height + 80), r.h2("Scarf map"),
             r.p(r.t(f"Each bar is one stave, heel to head with its end allowances; the black blocks are the scarfs "
@@ -751,7 +751,7 @@ def plugs(r: Report) -> list:
                      r.cell(p.head.across_corners, "dress"), format_mass(p.mass, units)])
     widths = [10, 18, 16, 18, 26, 20, 20, 20, 20, 13]
     scale = r.width / (sum(widths) * MM)
-    table = _table([[plain(c) for c in row] for row in rows], widths=[w * MM * scale for w in widths])
+    table = _table([list(row) for row in rows], widths=[w * MM * scale for w in widths])
     table.setStyle(TableStyle([("ALIGN", (4, 0), (4, -1), "LEFT")]))
     return [CondPageBreak(90), r.h2("Plugs (solid blocking)"),
             r.p(r.t(f"Each plug is a tapered {n}-sided block filling the bore; the sizes are the bore's at each end, "
@@ -777,7 +777,7 @@ def _order_table(r: Report) -> Table:
     rows.append(["total", "", "", "", str(sum(c.count for c in order.used)), str(sum(c.count for c in order.to_buy)),
                  board_feet_words(order.to_buy_board_feet)] + ([f"{order.to_buy_volume_m3:.3f}"] if metric else []))
     widths = [28, 18, 28, 18, 20, 16, 20] + ([16] if metric else [])
-    table = _table([[plain(c) for c in row] for row in rows], widths=[w * MM for w in widths], align_right_from=3)
+    table = _table([list(row) for row in rows], widths=[w * MM for w in widths], align_right_from=3)
     table.setStyle(TableStyle([("FONT", (0, -1), (-1, -1), BOLD, 7.5),
                                ("LINEABOVE", (0, -1), (-1, -1), 0.6, colors.black)]))
     return table
@@ -845,7 +845,7 @@ def diagram_scales(r: Report) -> tuple[float, float]:
 def _fit(text: str, size: float, room: float) -> bool:
     from reportlab.pdfbase.pdfmetrics import stringWidth
 
-    return stringWidth(plain(text), FONT, size) <= room
+    return stringWidth(text, FONT, size) <= room
 
 
 def _board_drawing(r: Report, board, b_len: float, b_wid: float) -> Drawing:
@@ -858,8 +858,8 @@ def _board_drawing(r: Report, board, b_len: float, b_wid: float) -> Drawing:
     d = Drawing(r.width, height)
     top = height - caption_h
     labels = ", ".join(c.piece.label for rip in board.rips for c in rip.cuts)
-    d.add(String(0, top + 3, plain(f"{board.id}:  {board_words(board.size, units)}  (dressed "
-                                   f"{dressed_size(board.size, units)})  -  {labels}"),
+    d.add(String(0, top + 3, f"{board.id}:  {board_words(board.size, units)}  (dressed "
+                                   f"{dressed_size(board.size, units)})  -  {labels}",
                  fontName=BOLD, fontSize=7.5))
     d.add(Rect(0, top - w_pt, l_pt, w_pt, fillColor=colors.Color(0.86, 0.86, 0.86), strokeColor=colors.black,
                strokeWidth=0.8))
@@ -877,9 +877,9 @@ def _board_drawing(r: Report, board, b_len: float, b_wid: float) -> Drawing:
             size = min(7.0, 0.6 * piece.width * ky)
             if not _fit(words, size, x1 - x0 - 4):
                 words = piece.label
-            d.add(String((x0 + x1) / 2, y1 - piece.width * ky / 2 - size * 0.35, plain(words), fontName=FONT,
+            d.add(String((x0 + x1) / 2, y1 - piece.width * ky / 2 - size * 0.35, words, fontName=FONT,
                          fontSize=size, textAnchor="middle"))
-        d.add(String(l_pt + 4, (y0 + y1) / 2 - 2.3, plain(f"rip {k}: {r.fig.dress(rip.width)}"), fontName=FONT,
+        d.add(String(l_pt + 4, (y0 + y1) / 2 - 2.3, f"rip {k}: {r.fig.dress(rip.width)}", fontName=FONT,
                      fontSize=6.5))
     return d
 
@@ -977,7 +977,7 @@ def cutter_settings(r: Report) -> list:
                          r.cell(p.router.bit_height, "blade")])
         out += [r.p(r.t("The notch station by station, for a CNC router with a 90° V-bit (tip from the outer face "
                         "and above the notched edge, along the bit's axis):"), "small"),
-                _table([[plain(c) for c in row] for row in rows]), Spacer(1, 6)]
+                _table([list(row) for row in rows]), Spacer(1, 6)]
     return out
 
 
@@ -994,8 +994,10 @@ def _numbered_canvas(footer: Callable[[Canvas, int, int], None]):
 
     class NumberedCanvas(Canvas):
         def __init__(self, *args, **kwargs):
+            kwargs["initialFontName"] = kwargs.get("initialFontName") or FONT
             super().__init__(*args, **kwargs)
             self._held: list[dict] = []
+            ask_actual_size(self)
 
         def showPage(self):
             self._held.append(dict(self.__dict__))
@@ -1024,7 +1026,7 @@ def write_report(design: Design, path: str | Path) -> None:
     for part in SECTIONS:
         story += part(report)
     date = build_date()
-    left_words = plain(f"{spar.name}  |  {source_name(spar)}  |  built {date}")
+    left_words = f"{spar.name}  |  {source_name(spar)}  |  built {date}"
 
     def footer(c: Canvas, number: int, total: int) -> None:
         c.saveState()

@@ -17,6 +17,7 @@ rounding and bends poorly to the glue-up.
 from __future__ import annotations
 
 from dataclasses import dataclass, replace
+from typing import Callable
 
 from ..checks.assess import Assessment, assess
 from ..errors import DesignError, InputError
@@ -27,6 +28,7 @@ from ..stations.grid import intervals
 
 WORKABLE_WIDTH_OVER_THICKNESS = (1.0, 5.0)  # common practice (no source): see the module's note
 BOARD_FEET_TIE = 1e-6
+Progress = Callable[[int, int, str], None]  # (done, total, words): told as each count's result comes in
 
 
 @dataclass(frozen=True)
@@ -159,12 +161,22 @@ def _evaluate(spar: Spar, staves: int) -> Candidate:
                      v_bit_one_pass=bool(router and router.one_pass_flat))
 
 
-def compare_stave_counts(spar: Spar) -> Comparison:
-    """Lay out every stave count and choose one; InputError on hollow.staves when none will do."""
+def compare_stave_counts(spar: Spar, progress: Progress | None = None) -> Comparison:
+    """Lay out every stave count and choose one; InputError on hollow.staves when none will do.
+
+    ``progress``, if given, is told (counts done, counts in all, words) as each count's result comes in.
+    """
     if spar.stock is None:
         raise InputError('staves = "auto" needs a [stock] table: the choice is by the wood to buy', "hollow.staves")
     first = MIN_STAVES if spar.hollow.joint.kind == "bevel" else MIN_STAVES + 1
-    candidates = tuple(_evaluate(spar, n) for n in range(first, MAX_STAVES + 1))
+    tell = progress or (lambda done, total, words="": None)
+    counts = range(first, MAX_STAVES + 1)
+    results = []
+    tell(0, len(counts), f"sizing and laying out {first} to {MAX_STAVES} staves")
+    for n in counts:
+        results.append(_evaluate(spar, n))
+        tell(len(results), len(counts), f"sizing and laying out {first} to {MAX_STAVES} staves: {n} done")
+    candidates = tuple(results)
     eligible = [c for c in candidates if c.eligible]
     if not eligible:
         reasons = sorted({c.why_not() for c in candidates})
