@@ -94,7 +94,7 @@ def _relocated(exc: InputError, boat: Boat, spar: BoatSpar) -> InputError:
     root, _, rest = exc.key.partition(".")
     name = rest.split("[")[0]
     if root == "stock" and boat.stock is not None and name in BOARD_KEYS:
-        return InputError(f"{spar.spar.name} ({spar.file}): {exc.problem}", exc.key, boat.source)
+        return InputError(f"{spar.spar.name} ({spar.file}): {exc.in_units(boat.units).problem}", exc.key, boat.source)
     return exc
 
 

@@ -107,6 +107,8 @@ def section(
     spar: Path = typer.Argument(..., help="The spar file (TOML).", show_default=False),
     at: str = typer.Option(..., "--at", help='Position from the heel: "7 ft 6 in", "2300 mm", or a bare '
                                              "number in the file's unit.", show_default=False),
+    si: bool = typer.Option(False, "--si", help="Areas, second moments and moduli in mm², mm⁴ and mm³ whatever "
+                                                "the file's units."),
 ) -> None:
     """One cross-section in detail: stave width, notch, cutter settings, wall after rounding, voids, I."""
     from .checks.ratios import check_station
@@ -114,8 +116,9 @@ def section(
     from .model.loader import load_spar
     from .pipeline import resolve
     from .render.console import machining_table, section_table
+    from .errors import position, shown
+    from .render.fit import Prose, fit
     from .render.progress import steps
-    from .render.fit import fit
     from .stations.evaluate import evaluate_stations
     from .stations.grid import StationMark
     from .units import UnitError, parse_length
@@ -131,14 +134,18 @@ def section(
     except UnitError as exc:
         raise InputError(str(exc), "--at") from None
     if not 0 <= z <= model.length:
-        raise InputError(f"{at!r} is not on the spar (0 to {model.length:.0f} mm)", "--at")
-    station = evaluate_stations(model, (StationMark(z, ("asked",)),))[0]
+        raise InputError(f"{shown(at)} is not on the spar ({{heel}} to {{head}} from the heel)", "--at",
+                         figures={"heel": position(0.0), "head": position(model.length)}, units=model.units)
+    try:
+        station = evaluate_stations(model, (StationMark(z, ("asked",)),))[0]
+    except InputError as exc:
+        raise exc.in_units(model.units)
     console = _console()
     for line in solved:
-        console.print(f"[cyan]solved:[/] {line}")
+        console.print(Prose(Text("solved: ", style="cyan") + Text(line)))
     for line in model.notices:
-        console.print(f"[bold yellow]warning:[/] {escape(line)}")
-    console.print(fit(section_table(model, check_station(model, station)), keys=0))
+        console.print(Prose(Text("warning: ", style="bold yellow") + Text(line)))
+    console.print(fit(section_table(model, check_station(model, station), si=si), keys=0))
     kerf = model.stock.kerf if model.stock is not None else (3.175 if model.units == "in" else 3.0)
     console.print(fit(machining_table(model, cutter_settings(station.section, kerf)), keys=0))
 
@@ -147,8 +154,9 @@ def section(
 @reports_errors
 def size(
     spar: Path = typer.Argument(..., help="The spar file, or a boat file (TOML).", show_default=False),
-    write: Optional[Path] = typer.Option(None, "--write", help='Write the spar file to this file with what it leaves '
-                                                                '"auto" filled in (comments kept).', show_default=False),
+    write: Optional[Path] = typer.Option(None, "--write", show_default=False,
+                                         help='Write the spar file to this file with what it leaves "auto" filled '
+                                              "in (comments kept)."),
     set_staves: bool = typer.Option(False, "--set-staves", help="With --write, also replace the file's stave count "
                                                                 "with the chosen one."),
 ) -> None:

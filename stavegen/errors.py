@@ -10,6 +10,7 @@ from __future__ import annotations
 
 import re
 import unicodedata
+from dataclasses import dataclass
 from typing import Any
 
 # Characters that steer a terminal or reorder text: C0 and C1 controls, DEL, and the bidirectional overrides.
@@ -72,25 +73,95 @@ def key_text(name: str) -> str:
     return '"' + printable(escaped) + '"'
 
 
+@dataclass(frozen=True)
+class Figure:
+    """A figure an error carries as the model holds it (mm, mm², mm⁴, mm³, N, N/mm², kg/m³) and its kind,
+    worded in the file's units only when the error is printed (``UnitSystem.said`` names the kinds)."""
+
+    value: float
+    kind: str = "length"
+
+
+def length(mm: float) -> Figure:
+    return Figure(mm, "length")
+
+
+def position(mm: float) -> Figure:
+    return Figure(mm, "position")
+
+
+def area(mm2: float) -> Figure:
+    return Figure(mm2, "area")
+
+
+def stress(mpa: float) -> Figure:
+    return Figure(mpa, "stress")
+
+
+def density(kg_m3: float) -> Figure:
+    return Figure(kg_m3, "density")
+
+
+_PLACE = re.compile(r"\{(\w+)\}")
+
+
 class InputError(Exception):
     """Bad input, reported as one line and exit code 2.
 
     ``source`` is the file (or a label such as ``--at``), ``key`` the dotted
     table path of the offending entry (``hollow.plug[2].from``), ``problem``
-    what is wrong with it, in plain words.
+    what is wrong with it, in plain words. A problem that quotes figures holds
+    ``{name}`` where each goes and carries them in ``figures`` (SI, see
+    :class:`Figure`); they are worded in ``units`` ("in" or "mm", the file's,
+    set where the error is raised or on its way out with :meth:`in_units`),
+    millimetres while no unit system is known.
     """
 
-    def __init__(self, problem: str, key: str = "", source: str = "") -> None:
+    def __init__(self, problem: str, key: str = "", source: str = "", figures: dict[str, Figure] | None = None,
+                 units: str = "") -> None:
         super().__init__(problem)
-        self.problem = problem
+        self.template = problem
+        self.figures = dict(figures or {})
         self.key = key
         self.source = source
+        self.units = units
 
-    def located(self, source: str) -> "InputError":
-        """The same error, naming ``source`` if it named no file yet."""
+    def __reduce__(self):  # whole across processes: key, file, figures and units too
+        return (self.__class__, (self.template, self.key, self.source, self.figures, self.units))
+
+    def __str__(self) -> str:
+        return self.problem
+
+    @property
+    def problem(self) -> str:
+        """What is wrong, its figures worded in the error's unit system."""
+        return self.worded(self.units or "mm")
+
+    def worded(self, units: str) -> str:
+        """The problem with its figures worded in ``units`` ("in" or "mm")."""
+        if not self.figures:
+            return self.template
+        from .units import system
+
+        words = system(units)
+
+        def figure(match: re.Match) -> str:
+            f = self.figures.get(match.group(1))
+            return match.group(0) if f is None else words.said(f.value, f.kind)
+
+        return _PLACE.sub(figure, self.template)
+
+    def in_units(self, units: str) -> "InputError":
+        """The same error, wording its figures in ``units`` if no unit system was set yet."""
+        if not self.units and units in ("in", "mm"):
+            self.units = units
+        return self
+
+    def located(self, source: str, units: str = "") -> "InputError":
+        """The same error, naming ``source`` if it named no file yet (and taking ``units`` if it had none)."""
         if not self.source:
             self.source = source
-        return self
+        return self.in_units(units)
 
     def one_line(self) -> str:
         """``file: key: problem`` on one line, control characters escaped, each part of a sensible length."""

@@ -38,7 +38,7 @@ def resolve(spar: Spar) -> tuple[Spar, tuple[str, ...]]:
     try:
         return size_spar(spar)
     except InputError as exc:
-        raise exc.located(spar.source)
+        raise exc.located(spar.source, spar.units)
 
 
 def design(spar: Spar, layout: bool = False, step: Callable[[str], None] | None = None) -> Design:
@@ -60,7 +60,7 @@ def design(spar: Spar, layout: bool = False, step: Callable[[str], None] | None 
             tell("laying out the staves, scarfs and plugs")
             shop = lay_out(spar, step=tell)
     except InputError as exc:
-        raise exc.located(spar.source)
+        raise exc.located(spar.source, spar.units)
     warnings = tuple(spar.notices) + tuple(warnings_for(result))  # the loader's first: they concern the figures
     return Design(spar=spar, assessment=result, warnings=warnings, layout=shop, solved=solved)
 

@@ -367,6 +367,50 @@ class UnitSystem:
     def force(self, newtons: float) -> str:
         return format_force(newtons, self.key)
 
+    # Areas, second moments, section moduli, stresses and densities: in², in⁴, in³, psi and lb/ft³ for an
+    # inch file, mm², mm⁴, mm³, MPa and kg/m³ for a millimetre file (``si`` forces the latter).
+
+    def area(self, mm2: float, si: bool = False) -> str:
+        if si or not self.imperial:
+            return _grouped(mm2, "mm²", 2 if abs(mm2) < 100 else 1)
+        return _significant(mm2 / MM_PER_INCH**2, "in²")
+
+    def second_moment(self, mm4: float, si: bool = False) -> str:
+        return _grouped(mm4, "mm⁴", 0) if si or not self.imperial else _significant(mm4 / MM_PER_INCH**4, "in⁴")
+
+    def section_modulus(self, mm3: float, si: bool = False) -> str:
+        return _grouped(mm3, "mm³", 0) if si or not self.imperial else _significant(mm3 / MM_PER_INCH**3, "in³")
+
+    def stress(self, mpa: float) -> str:
+        return f"{mpa / MPA_PER_PSI:,.0f} psi" if self.imperial else f"{mpa:,.0f} MPa"
+
+    def density(self, kg_m3: float) -> str:
+        return f"{kg_m3 / KG_M3_PER_LB_FT3:.1f} lb/ft³" if self.imperial else f"{kg_m3:,.0f} kg/m³"
+
+    def said(self, value: float, kind: str) -> str:
+        """A figure of a message, by its kind: "length" (on the grid; a small one that would read 0 to four
+        places), "position" (feet and inches along the spar), "area", "second_moment", "section_modulus",
+        "force", "stress" or "density"; the value in mm, N and kg."""
+        if kind == "length":
+            if value and abs(self.on_grid(value)) < self.step / 2:
+                return self.exact(value)
+            return self.length(value)
+        if kind == "position":
+            return self.length(value, tape=True)
+        return getattr(self, kind)(value)
+
+
+def _significant(value: float, unit: str) -> str:
+    """Three significant figures (at least one decimal), grouped: ``5.51 in²``, ``1,234.5 in⁴``."""
+    if value == 0:
+        return f"0 {unit}"
+    decimals = max(1, 2 - math.floor(math.log10(abs(value))))
+    return f"{value:,.{decimals}f} {unit}"
+
+
+def _grouped(value: float, unit: str, decimals: int) -> str:
+    return f"{value:,.{decimals}f} {unit}"
+
 
 def _decimals(step: float) -> int:
     return max(0, -math.floor(math.log10(step) + 1e-9))

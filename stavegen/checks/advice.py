@@ -3,7 +3,7 @@
 from __future__ import annotations
 
 from ..stations.evaluate import where
-from ..units import Way, format_length
+from ..units import Way, format_length, system
 from .assess import Assessment
 
 # Common practice (no source): scarf slope at least 8:1; end allowance 2 to 4 in per stave end.
@@ -21,7 +21,8 @@ def warnings_for(result: Assessment) -> list[str]:
         worst = max(voided, key=lambda c: c.station.section.void_area)
         out.append(
             f"The {hollow.joint.kind} notch leaves open voids inside the round "
-            f"({worst.station.section.void_area:.1f} mm² at {where(spar, worst.station.z)}): the square edge "
+            f"({system(spar.units).area(worst.station.section.void_area)} at {where(spar, worst.station.z)}): the "
+            "square edge "
             "does not fill the V. The flush birdsmouth closes with none; consider joint = \"birdsmouth-flush\".")
     if hollow.min_corner_wall is not None:
         thin = min(result.stations, key=lambda c: c.station.section.least_wall)

@@ -193,7 +193,8 @@ def machining(spar: Spar, plan: StavePlan, staves: tuple[tuple[Segment, ...], ..
         worst = max(bent, key=lambda b: b[1])
         if worst[1] > STRAIGHT_EDGE:
             notes.append(f"With taper = \"symmetric\" the notched edge of segment {worst[0]} bends by "
-                         f"{worst[1]:.2f} mm at the stations inside it: no fence follows it. Use taper = "
+                         f"{system(spar.units).said(worst[1], 'length')} at the stations inside it: no fence "
+                         "follows it. Use taper = "
                          "\"square-edge\" (the notched edge straight) to cut the notch with one setting.")
     result = Machining(method=method, stave_thickness=found[0].section.thickness if one_setting else None,
                        kerf=kerf, widest=found[0], narrowest=found[1], segments=tuple(segments),

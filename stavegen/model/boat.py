@@ -36,7 +36,7 @@ from pathlib import Path
 from types import SimpleNamespace
 from typing import Any
 
-from ..errors import InputError
+from ..errors import InputError, length
 from . import schema
 from .loader import _Table, _kind, _output, _stock, parse_spar, read_toml
 from .schema import UNSET, Key, Table, Words
@@ -163,14 +163,16 @@ def _in_boat(spar: Spar, stock: Stock | None, given: set[str], output: OutputOpt
     differ = own is not None and any(getattr(own, f) != getattr(merged, f) for f in BOARD_KEYS)
     wall = spar.hollow.wall
     if isinstance(wall, Profile) and wall.largest > merged.thickness + 1e-9:
-        raise InputError(f"boards {merged.thickness:.1f} mm thick are thinner than the wall of {spar.name} "
-                         f"({wall.largest:.1f} mm, {spar.source})", "stock.thickness", boat_source)
+        raise InputError(f"boards {{boards}} thick are thinner than the wall of {spar.name} ({{wall}}, {spar.source})",
+                         "stock.thickness", boat_source,
+                         figures={"boards": length(merged.thickness), "wall": length(wall.largest)})
     return replace(spar, stock=merged, output=output), differ
 
 
 def parse_boat(data: dict[str, Any], source: str = "") -> Boat:
     """A validated :class:`Boat` from parsed TOML (spar files read relative to ``source``'s folder)."""
     folder = Path(source).parent if source else Path(".")
+    units = ""
     try:
         _Table(data, "", "in", BOAT_TOP)  # refuses a key the boat file does not declare
         boat_t = _Table(data["boat"], "boat", "in", BOAT) if "boat" in data else None
@@ -184,7 +186,7 @@ def parse_boat(data: dict[str, Any], source: str = "") -> Boat:
         stock = _boat_stock(data["stock"], units) if "stock" in data else None
         output_t = _Table(data["output"], "output", units, schema.OUTPUT) if "output" in data else None
     except InputError as exc:
-        raise exc.located(source)
+        raise exc.located(source, units)
     loaded = []
     for (file, _, key), tag in zip(entries, tags):
         path = folder / file
@@ -197,7 +199,7 @@ def parse_boat(data: dict[str, Any], source: str = "") -> Boat:
     try:
         output = _output(output_t, units, max(s.length for s, *_ in loaded))
     except InputError as exc:
-        raise exc.located(source)
+        raise exc.located(source, units)
     spars = []
     slugs: dict[str, str] = {}
     for spar, tag, file, key in loaded:
@@ -205,7 +207,10 @@ def parse_boat(data: dict[str, Any], source: str = "") -> Boat:
             raise InputError(f"the spar {spar.name!r} ({file}) would write files of the same name as the spar "
                              f"{slugs[spar.slug]}; give each spar a name of its own", key, source)
         slugs[spar.slug] = repr(spar.name)
-        merged, differ = _in_boat(spar, stock, given, output, source)
+        try:
+            merged, differ = _in_boat(spar, stock, given, output, source)
+        except InputError as exc:
+            raise exc.in_units(units)
         spars.append(BoatSpar(spar=merged, tag=tag, file=file, own_boards_differ=differ))
     return Boat(name=name, units=units, spars=tuple(spars), stock=stock, output=output, source=source)
 

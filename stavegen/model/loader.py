@@ -19,6 +19,10 @@ from pathlib import Path
 from typing import Any
 
 from ..errors import InputError, is_control, key_text, printable, shown
+from ..errors import density as density_figure
+from ..errors import length as length_figure
+from ..errors import position as position_figure
+from ..errors import stress as stress_figure
 from ..units import (
     MM_PER_INCH,
     UnitError,
@@ -177,8 +181,10 @@ def _length(value: Any, units: str, key: str, minimum: float | None = 0.0, stric
     except UnitError as exc:
         raise InputError(str(exc), key) from None
     if minimum is not None and (mm < minimum or (strict and mm <= minimum)):
-        word = "positive" if minimum == 0 and strict else f"at least {minimum:g} mm"
-        raise InputError(f"must be {word}, got {shown(value)}", key)
+        if minimum == 0:
+            raise InputError(f"must be {'positive' if strict else 'zero or more'}, got {shown(value)}", key)
+        raise InputError(f"must be at least {{least}}, got {shown(value)}", key, units=units,
+                         figures={"least": length_figure(minimum)})
     return mm
 
 
@@ -284,10 +290,14 @@ def _wood(value: Any, units: str, key: str) -> Wood:
         moe, mor, density = t.get("moe"), t.get("mor"), t.get("density")
         source = t.get("source")
         if not 1000 <= moe <= 40000:
-            raise InputError(f"modulus {moe:.0f} MPa is outside the range of woods (1,000 to 40,000 MPa); "
-                             "psi for inch files, MPa for mm files, or write the unit", t.key("moe"))
+            raise InputError("modulus {moe} is outside the range of woods ({low} to {high}); psi for inch files, "
+                             "MPa for mm files, or write the unit", t.key("moe"), units=units,
+                             figures={"moe": stress_figure(moe), "low": stress_figure(1000),
+                                      "high": stress_figure(40000)})
         if not 100 <= density <= 1400:
-            raise InputError(f"density {density:.0f} kg/m³ is outside the range of woods", t.key("density"))
+            raise InputError("density {density} is outside the range of woods ({low} to {high})", t.key("density"),
+                             units=units, figures={"density": density_figure(density), "low": density_figure(100),
+                                      "high": density_figure(1400)})
         if mor >= moe:
             raise InputError("modulus of rupture must be far below the modulus of elasticity", t.key("mor"))
         return Wood(key=re.sub(r"[^a-z0-9]+", "-", name.lower()).strip("-"), name=name, moe=moe, mor=mor,
@@ -381,8 +391,10 @@ def _hollow(t: _Table, units: str, length: float, plan: Plan) -> Hollow:
         for z, thick in zip(wall.z, wall.value):
             radius = float(diameter.at(z)) / 2
             if thick >= radius:
-                raise InputError(f"wall {thick:.1f} mm is as thick as the spar's radius ({radius:.1f} mm) at "
-                                 f"{z:.0f} mm from the heel: there is no bore", "hollow.wall")
+                raise InputError("wall {wall} is as thick as the spar's radius ({radius}) at {z} from the heel: "
+                                 "there is no bore", "hollow.wall", units=units,
+                                 figures={"wall": length_figure(thick), "radius": length_figure(radius),
+                                          "z": position_figure(z)})
     if joint.kind == "birdsmouth-custom" and joint.apex_height is not None and isinstance(wall, Profile):
         if joint.apex_height >= wall.smallest:
             raise InputError("apex_height must be less than the wall thickness", "hollow.notch.apex_height")
@@ -452,8 +464,8 @@ def _stock(t: _Table, units: str, length: float, hollow: Hollow) -> Stock:
     stock = Stock(thickness=thickness, nominal_thickness=nominal, widths=widths, nominal_widths=nominal_widths,
                   lengths=lengths, no_scarf=no_scarf, **fields)
     if isinstance(hollow.wall, Profile) and hollow.wall.largest > thickness + 1e-9:
-        raise InputError(f"boards {thickness:.1f} mm thick are thinner than the wall "
-                         f"({hollow.wall.largest:.1f} mm)", "stock.thickness")
+        raise InputError("boards {boards} thick are thinner than the wall ({wall})", "stock.thickness", units=units,
+                         figures={"boards": length_figure(thickness), "wall": length_figure(hollow.wall.largest)})
     return stock
 
 
@@ -540,6 +552,7 @@ def _plausibility(spar: Spar) -> tuple[str, ...]:
 
 def parse_spar(data: dict[str, Any], source: str = "") -> Spar:
     """A validated :class:`Spar` from parsed TOML; raises InputError naming the key."""
+    units = ""
     try:
         _check_all_names(data, "", schema.TOP)
         top = _Table(data, "", "in", schema.TOP)
@@ -563,7 +576,7 @@ def parse_spar(data: dict[str, Any], source: str = "") -> Spar:
                     source=source, head_load=head_load)
         notices = _plausibility(spar)
     except InputError as exc:
-        raise exc.located(source)
+        raise exc.located(source, units)
     return Spar(name=name, units=units, length=length, plan=plan, hollow=hollow, stock=stock, output=output,
                 source=source, head_load=head_load, head_load_given=spar_t.has("head_load"), notices=notices)
 

@@ -191,7 +191,8 @@ def print_check(console: Console, design: Design) -> None:
     console.print(cautions_panel())
 
 
-def section_table(spar: Spar, check: StationCheck) -> Table:
+def section_table(spar: Spar, check: StationCheck, si: bool = False) -> Table:
+    """One section's figures; areas, the second moment and the modulus in the file's units (mm with ``si``)."""
     s = check.station
     sec: Section = s.section
     fig = Figures(spar)
@@ -220,11 +221,11 @@ def section_table(spar: Spar, check: StationCheck) -> Table:
         ("bore across flats", fig.describe(2 * sec.inner_apothem)),
         ("wall after rounding, mid-stave", fig.least(sec.flat_wall)),
         ("least wall after rounding, over bore and voids", fig.least(sec.least_wall)),
-        ("voids inside the round", f"{sec.void_area:.2f} mm²"),
+        ("voids inside the round", fig.units.area(sec.void_area, si)),
         ("glue line per joint", fig.describe(sec.glue_line)),
-        ("wood area", f"{sec.area:,.1f} mm²"),
-        ("I of the wall", f"{sec.inertia:,.0f} mm⁴"),
-        ("section modulus I/R", f"{sec.modulus:,.0f} mm³"),
+        ("wood area", fig.units.area(sec.area, si)),
+        ("I of the wall", fig.units.second_moment(sec.inertia, si)),
+        ("section modulus I/R", fig.units.section_modulus(sec.modulus, si)),
         ("plug", escape(s.plug.wood.name) if s.plug else "none"),
         ("EI ratio / strength ratio", f"{check.ei_ratio:.3f} / {check.strength_ratio:.3f}"),
         ("form factor, hollow / plan", f"{check.hollow.form_factor:.3f} / {check.plan.form_factor:.3f}"),

@@ -22,9 +22,9 @@ PAPER = {"letter": letter, "a4": A4}  # portrait (width, height) in points
 
 # The PDFs' fonts: Liberation Sans (regular, bold, italic), which has Helvetica's metrics, shipped in fonts/
 # with its licence (the SIL Open Font License: free to bundle and redistribute) and embedded, subset, in every
-# PDF, so that text in Latin, Greek (polytonic too) or Cyrillic script (a spar's name, a wood's) prints as
-# written, and so do the signs the papers use (≥ ≤ ⁴ φ • → ≈ √ π). CJK scripts are not in the font: their
-# characters would print as empty boxes (see :func:`lacks_glyphs`).
+# PDF, so that text in Latin, Greek (polytonic too) or Cyrillic script (a spar's name, a wood's) prints
+# as written, and so do the signs the papers use (≥ ≤ ⁴ φ • → ≈ √ π). CJK scripts are not in the font:
+# their characters would print as empty boxes (see :func:`lacks_glyphs`).
 FONT = "LiberationSans"
 BOLD = "LiberationSans-Bold"
 ITALIC = "LiberationSans-Italic"

@@ -17,7 +17,7 @@ from shapely.affinity import rotate
 from shapely.geometry import Polygon, box
 from shapely.geometry.polygon import orient
 
-from ..errors import DesignError
+from ..errors import DesignError, area, length
 from .notch import Notch
 
 INTERFERENCE_TOLERANCE = 1e-9  # of one stave's area
@@ -78,14 +78,10 @@ def stave_polygon(staves: int, frame: StaveFrame, notch: Notch | None, key: str 
     cut = rect.difference(_v_wedge(staves, frame))
     if cut.geom_type != "Polygon" or cut.is_empty:
         pieces = len(getattr(cut, "geoms", [])) or 0
-        raise DesignError(
-            f"the notch (depth {_mm(frame.apex[0] - frame.x_notch_edge)}, apex {_mm(frame.apex[1] - frame.inner)}"
-            f" up) cuts the stave into {pieces} pieces", key)
+        raise DesignError(f"the notch (depth {{depth}}, apex {{apex}} up) cuts the stave into {pieces} pieces", key,
+                          figures={"depth": length(frame.apex[0] - frame.x_notch_edge),
+                                   "apex": length(frame.apex[1] - frame.inner)})
     return orient(cut, 1.0)
-
-
-def _mm(v: float) -> str:
-    return f"{v:.2f} mm"
 
 
 def placed(polygon: Polygon, staves: int, index: int) -> Polygon:
@@ -114,8 +110,8 @@ def check_interference(polygon: Polygon, staves: int, where: str, key: str = "ho
     """Raise when staves overlap by more than 1e-9 of a stave's area; return the overlap (mm²)."""
     overlap = interference(polygon, staves)
     if overlap > INTERFERENCE_TOLERANCE * polygon.area:
-        raise DesignError(f"staves overlap by {overlap:.3g} mm² {where}: the notch does not fit its neighbour",
-                          key)
+        raise DesignError(f"staves overlap by {{overlap}} {where}: the notch does not fit its neighbour", key,
+                          figures={"overlap": area(overlap)})
     return overlap
 
 

@@ -24,7 +24,7 @@ from dataclasses import replace
 from pathlib import Path
 from typing import Any, Callable
 
-from ..errors import InputError
+from ..errors import InputError, position, shown
 from ..model.loader import spar_from_bytes
 from ..model.spar import Spar
 from ..pipeline import Design, design
@@ -88,11 +88,12 @@ def section(raw: bytes, name: str, at: str, layout: bool = False) -> dict[str, A
     except UnitError as exc:
         raise InputError(str(exc), "at", name) from None
     if not 0 <= z <= model.length:
-        raise InputError(f"{at!r} is not on the spar (0 to {model.length:.0f} mm)", "at", name)
+        raise InputError(f"{shown(at)} is not on the spar ({{heel}} to {{head}} from the heel)", "at", name,
+                         figures={"heel": position(0.0), "head": position(model.length)}, units=model.units)
     try:
         station = evaluate_stations(model, (StationMark(z, ("asked",)),))[0]
     except InputError as exc:
-        raise exc.located(name)
+        raise exc.located(name, model.units)
     return section_view(result, check_station(model, station))
 
 

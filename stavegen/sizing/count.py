@@ -130,7 +130,7 @@ def _evaluate(spar: Spar, staves: int) -> Candidate:
         trial, solved = size_spar(trial) if not trial.resolved else (trial, ())
         result = assess(trial)
     except DesignError as exc:
-        return Candidate(staves=staves, refused=exc.problem)
+        return Candidate(staves=staves, refused=exc.in_units(spar.units).problem)
     cache = SectionCache(trial)
     stations = [c.station for c in result.stations]
     ratios = [s.section.stave_width / s.section.thickness for s in stations]
@@ -146,7 +146,7 @@ def _evaluate(spar: Spar, staves: int) -> Candidate:
     try:
         layout = lay_out(trial, cache)
     except InputError as exc:
-        return Candidate(**base, stock_problem=exc.problem)
+        return Candidate(**base, stock_problem=exc.in_units(spar.units).problem)
     stock = trial.stock
     rough = max(seg.rough_width for seg in layout.segments)
     rips = int((max(stock.widths) + stock.kerf) // (rough + stock.kerf))
