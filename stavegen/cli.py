@@ -58,6 +58,12 @@ def reports_errors(func: Callable) -> Callable:
             if os.environ.get("STAVEGEN_DEBUG"):
                 raise
             _fail(f"internal error ({type(exc).__name__}: {exc}); rerun with STAVEGEN_DEBUG=1 and report it", 3)
+        except BaseException as exc:
+            from .outputs import Stopped
+
+            if isinstance(exc, Stopped):
+                _fail(f"stopped by {exc.name}; no output was changed", exc.exit_code)
+            raise
 
     return wrapper
 
@@ -130,17 +136,23 @@ def size(
     spar: Path = typer.Argument(..., help="The spar file (TOML).", show_default=False),
     write: Optional[Path] = typer.Option(None, "--write", help="Write the chosen spar, solved values filled in, "
                                                                 "to this file (comments kept).", show_default=False),
+    force: bool = typer.Option(False, "--force", help="Let --write overwrite an existing file."),
 ) -> None:
     """Compare every stave count (4 to 24) and show why one is chosen; solve the wall where it is "auto"."""
     from dataclasses import replace as _replace
 
     from .model.loader import load_spar
     from .model.rewrite import with_solved_values
-    from .outputs import OutputSet
+    from .outputs import not_replaceable, write_file
     from .render.console import candidate_notes, candidates_table
     from .sizing.count import compare_stave_counts
 
     model = load_spar(spar)
+    if write is not None:  # refused before the comparison's seconds of work, not after
+        why = not_replaceable(write) or (None if force or not write.exists() else
+                                         "already exists; pass --force to overwrite it")
+        if why:
+            raise InputError(why, "--write", str(write))
     comparison = compare_stave_counts(_replace(model, hollow=_replace(model.hollow, staves="auto")))
     console = _console()
     console.print(candidates_table(model, comparison))
@@ -154,9 +166,7 @@ def size(
         chosen = comparison.chosen.spar
         original = model if model.hollow.staves == "auto" else _replace(model, hollow=_replace(model.hollow, staves="auto"))
         text = with_solved_values(spar.read_text(encoding="utf-8"), original, chosen)
-        with OutputSet(write.parent if str(write.parent) else Path(".")) as out:
-            out.add_text(write.name, text)
-            out.commit()
+        write_file(write, text, force=force, key="--write")
         console.print(f"wrote {write}")
 
 
@@ -183,15 +193,11 @@ def init(
 ) -> None:
     """Write a commented starter spar file to edit."""
     from .model.starter import starter_text
-    from .outputs import OutputSet
+    from .outputs import write_file
 
     if units not in ("in", "mm"):
         raise InputError(f'{units!r} is not "in" or "mm"', "--units")
-    if path.exists() and not force:
-        raise InputError("already exists; pass --force to overwrite it", source=str(path))
-    with OutputSet(path.parent if str(path.parent) else Path(".")) as out:
-        out.add_text(path.name, starter_text(units))
-        out.commit()
+    write_file(path, starter_text(units), force=force)
     _console().print(f"wrote {path}: edit it, then run [bold]stavegen check {path}[/]")
 
 
@@ -212,5 +218,47 @@ def build(
         raise typer.Exit(EXIT_MISSED)
 
 
+class _ClosedPipeGuard:
+    """sys.stdout that survives a reader going away (``stavegen check ... | head -1``).
+
+    When the pipe is closed, further output goes to the null device, so the
+    command finishes and exits with its own code (0 or 1), not a traceback.
+    """
+
+    def __init__(self, stream) -> None:
+        self._stream = stream
+
+    def _silence(self) -> None:
+        try:
+            null = os.open(os.devnull, os.O_WRONLY)
+            os.dup2(null, self._stream.fileno())
+            os.close(null)
+        except (OSError, ValueError):
+            pass
+
+    def write(self, text: str) -> int:
+        try:
+            return self._stream.write(text)
+        except BrokenPipeError:
+            self._silence()
+            return len(text)
+
+    def flush(self) -> None:
+        try:
+            self._stream.flush()
+        except BrokenPipeError:
+            self._silence()
+
+    def __getattr__(self, name: str):
+        return getattr(self._stream, name)
+
+
 def main() -> None:  # console-script entry point
-    app()
+    sys.stdout = _ClosedPipeGuard(sys.stdout)
+    try:
+        app()
+    finally:
+        try:
+            sys.stdout.flush()
+        except (OSError, ValueError):
+            pass
