@@ -11,6 +11,7 @@ from .checks.assess import Assessment, assess
 from .errors import InputError
 from .model.loader import load_spar
 from .model.spar import Spar
+from .stations.evaluate import SectionCache
 
 
 @dataclass(frozen=True)
@@ -52,13 +53,14 @@ def design(spar: Spar, layout: bool = False, step: Callable[[str], None] | None 
             tell("solving what the spar file leaves to stavegen")
         spar, solved = resolve(spar)
         tell("checking the sections against the plan")
-        result = assess(spar)
+        cache = SectionCache(spar)  # one set of sections for the check and the layout
+        result = assess(spar, cache=cache)
         shop = None
         if layout:
             from .layout.plan import lay_out
 
             tell("laying out the staves, scarfs and plugs")
-            shop = lay_out(spar, step=tell)
+            shop = lay_out(spar, cache, step=tell)
     except InputError as exc:
         raise exc.located(spar.source)
     return Design(spar=spar, assessment=result, warnings=tuple(warnings_for(result)), layout=shop, solved=solved)

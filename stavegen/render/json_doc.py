@@ -6,16 +6,18 @@ import json
 import math
 
 import numpy as np
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 from .. import __version__
 from ..cautions import CAUTIONS
 from ..checks.ratios import StationCheck
 from ..model.woods import Wood
-from ..layout.lumber import BoardSize, LumberOrder
-from ..layout.plan import Layout, Machining, StationSettings
-from ..layout.segments import Segment
 from ..pipeline import Design
+
+if TYPE_CHECKING:  # for annotations only: the layout loads scipy.optimize, which `check --json` never needs
+    from ..layout.lumber import BoardSize, LumberOrder
+    from ..layout.plan import Layout, Machining, StationSettings
+    from ..layout.segments import Segment
 
 SCHEMA_VERSION = 1
 
