@@ -24,8 +24,9 @@ from dataclasses import dataclass
 from ..errors import DesignError
 from ..model.spar import Profile, Spar
 from ..units import format_exact, format_length
-from .roots import Miss, Window, window
-from .targets import Criterion, Point, check_at, criteria_of, place, points_of, ratio_text
+from .roots import Miss, Window, common_windows, window
+from .targets import (Criterion, Point, check_at, closed_form_applies, closed_form_check_at, criteria_of, place,
+                      points_of, ratio_text)
 from .wall import BORE_CLEARANCE, BORE_CORNERS, CORNER_MINIMUM
 
 KEY = "hollow.stations"
@@ -62,7 +63,25 @@ def scale_window(spar: Spar, point: Point, criteria: tuple[Criterion, ...]) -> W
     if lo >= hi:
         return Window(lo, hi, lo_by, hi_by)
     t = float(spar.hollow.wall.at(point.z))
-    return window(lambda k: check_at(spar, point, k * point.plan_diameter / 2, t), criteria, lo, hi, lo_by, hi_by)
+    quick = ((lambda k: closed_form_check_at(spar, point, k * point.plan_diameter / 2, t))
+             if closed_form_applies(spar) else None)
+    return window(lambda k: check_at(spar, point, k * point.plan_diameter / 2, t), criteria, lo, hi, lo_by, hi_by,
+                  quick)
+
+
+def meets_scale(spar: Spar, point: Point, criteria: tuple[Criterion, ...], k: float) -> bool:
+    """Whether the scale factor ``k`` meets every criterion at ``point`` within the range the wall allows there
+    (closed form for flush and bevel joints; every solved size is checked again on the exact section)."""
+    lo, _, hi, _ = scale_range(spar, point)
+    if not lo <= k <= hi:
+        return False
+    t = float(spar.hollow.wall.at(point.z))
+    radius = k * point.plan_diameter / 2
+    try:
+        check = (closed_form_check_at if closed_form_applies(spar) else check_at)(spar, point, radius, t)
+    except DesignError:
+        return False
+    return all(c.ratio(check) >= c.target for c in criteria)
 
 
 def _low_reason(spar: Spar, point: Point, by: str, k: float, criteria: tuple[Criterion, ...]) -> str:
@@ -98,26 +117,29 @@ def _conflict(spar: Spar, point: Point, low: Window, capped: Point, high: Window
                        f", but {cap}; use a thicker wall", KEY)
 
 
-def _windows(spar: Spar, criteria: tuple[Criterion, ...]) -> list[tuple[Point, Window]]:
-    out = []
-    for point in points_of(spar):
-        found = scale_window(spar, point, criteria)
-        if isinstance(found, Miss):
-            c = found.criterion
-            raise DesignError(f"no diameter reaches {c.name} {c.target:.3f} at {place(spar, point)}: the largest "
-                              f"round the wall allows (× {found.best_size:.4f}) gives only "
-                              f"{ratio_text(found.best, c.target)} before it breaks into the bore; use a thicker wall",
-                              KEY)
-        if found.empty:
-            raise _conflict(spar, point, found, point, found, criteria)
-        out.append((point, found))
-    return out
+def _window_at(spar: Spar, point: Point, criteria: tuple[Criterion, ...]) -> Window:
+    """The point's window of scale factors; DesignError when none reaches the target there or none fits."""
+    found = scale_window(spar, point, criteria)
+    if isinstance(found, Miss):
+        c = found.criterion
+        raise DesignError(f"no diameter reaches {c.name} {c.target:.3f} at {place(spar, point)}: the largest "
+                          f"round the wall allows (× {found.best_size:.4f}) gives only "
+                          f"{ratio_text(found.best, c.target)} before it breaks into the bore; use a thicker wall",
+                          KEY)
+    if found.empty:
+        raise _conflict(spar, point, found, point, found, criteria)
+    return found
 
 
-def solve_diameter_scale(spar: Spar) -> DiameterSolution:
-    """The least scale factor k ≥ 1 on the plan's diameters that meets the target, with the wall as given."""
+def solve_diameter_scale(spar: Spar, skip: bool = True) -> DiameterSolution:
+    """The least scale factor k ≥ 1 on the plan's diameters that meets the target, with the wall as given.
+
+    ``skip``: points the factor found so far already meets get no root search of their own
+    (:func:`~.roots.common_windows`).
+    """
     criteria = criteria_of(spar)
-    windows = _windows(spar, criteria)
+    meets = (lambda p, k: meets_scale(spar, p, criteria, k)) if skip else None
+    windows = common_windows(points_of(spar), lambda p: _window_at(spar, p, criteria), meets)
     point, low = max(windows, key=lambda pw: pw[1].lower)
     capped, high = min(windows, key=lambda pw: pw[1].upper)
     if low.lower > high.upper:
