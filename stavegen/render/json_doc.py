@@ -254,3 +254,11 @@ def _clean(value: Any) -> Any:
 
 def to_json(design: Design) -> str:
     return json.dumps(_clean(document(design)), indent=2, ensure_ascii=False) + "\n"
+
+
+def write_json(design: Design, path) -> None:
+    """:func:`to_json` into the file at ``path``, the same bytes, written as it is encoded (a long spar's
+    JSON is never held whole in memory)."""
+    with open(path, "w", encoding="utf-8") as out:
+        json.dump(_clean(document(design)), out, indent=2, ensure_ascii=False)
+        out.write("\n")

@@ -27,18 +27,20 @@ machine, loaded or not.
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass, field, replace
+from dataclasses import dataclass, replace
 
 from ..checks.assess import Assessment, assess
 from ..errors import DesignError, InputError
 from ..layout.plan import Layout, lay_out
 from ..model.spar import MAX_STAVES, MIN_STAVES, Spar
+from ..section.integrals import ring_moments
 from ..stations.evaluate import SectionCache
-from ..stations.grid import intervals
+from ..stations.grid import intervals, refuse_too_many
 from .parallel import Pool
 
 WORKABLE_WIDTH_OVER_THICKNESS = (1.0, 5.0)  # common practice (no source): see the module's note
 BOARD_FEET_TIE = 1e-6
+MOST_STATIONS_COMPARED = 1_000  # every count's check is kept: 20 of them stay under 300 MB up to here
 BOARD_FOOT_MM3 = 144 * 25.4**3  # 144 in³ (North American lumber grading rules)
 
 
@@ -63,7 +65,6 @@ class Candidate:
     v_bit_one_pass: bool = False
     floor: float = 0.0  # board feet no order for this count can go below (:func:`board_feet_floor`)
     outbid: bool = False  # not laid out: its floor is above the two smallest orders of other counts
-    sections: SectionCache | None = field(default=None, compare=False, repr=False)
 
     @property
     def meets_target(self) -> bool:
@@ -175,8 +176,9 @@ def board_feet_floor(spar: Spar, result: Assessment) -> float:
     return (1 + stock.waste) * spar.hollow.staves * area / BOARD_FOOT_MM3 - 1e-6
 
 
-def _assessed(spar: Spar, staves: int) -> Candidate:
-    """Stave count ``staves``: solved, checked and measured, not yet laid out."""
+def _assessed(spar: Spar, staves: int) -> tuple[Candidate, SectionCache | None]:
+    """Stave count ``staves``: solved, checked and measured, not yet laid out; with its sections when it
+    is one to lay out."""
     from .solve import Solved, solve
 
     trial = replace(spar, hollow=replace(spar.hollow, staves=staves))
@@ -186,24 +188,25 @@ def _assessed(spar: Spar, staves: int) -> Candidate:
         cache = solved.sections or SectionCache(trial)
         result = assess(trial, cache=cache)
     except DesignError as exc:
-        return Candidate(staves=staves, refused=exc.problem)
+        return Candidate(staves=staves, refused=exc.problem), None
     stations = [c.station for c in result.stations]
     ratios = [s.section.stave_width / s.section.thickness for s in stations]
     widths = [s.section.stave_width for s in stations]
-    planed = _integral(trial, cache, lambda sec: staves * sec.stave_polygon().area - sec.area)
+    planed = _integral(trial, cache, lambda sec: staves * abs(ring_moments(sec.stave_outline).area) - sec.area)
     glue = _integral(trial, cache, lambda sec: staves * sec.glue_line)
     low, high = WORKABLE_WIDTH_OVER_THICKNESS
     layable = result.passed and low <= min(ratios) and max(ratios) <= high
-    return Candidate(staves=staves, spar=trial, solved=solved.lines, assessment=result, widest=max(widths),
-                     narrowest=min(widths), width_over_thickness=(min(ratios), max(ratios)), planed_away=planed,
-                     glue_area=glue, floor=board_feet_floor(trial, result) if layable else 0.0, sections=cache)
+    candidate = Candidate(staves=staves, spar=trial, solved=solved.lines, assessment=result, widest=max(widths),
+                          narrowest=min(widths), width_over_thickness=(min(ratios), max(ratios)),
+                          planed_away=planed, glue_area=glue, floor=board_feet_floor(trial, result) if layable else 0.0)
+    return candidate, (cache if layable else None)
 
 
-def _laid_out(candidate: Candidate) -> Candidate:
+def _laid_out(candidate: Candidate, sections: SectionCache) -> Candidate:
     """The candidate with its layout and lumber order (or the stock's reason it has none)."""
     trial = candidate.spar
     try:
-        layout = lay_out(trial, candidate.sections)
+        layout = lay_out(trial, sections)
     except InputError as exc:
         return replace(candidate, stock_problem=exc.problem)
     stock = trial.stock
@@ -233,19 +236,27 @@ def compare_stave_counts(spar: Spar, pool: Pool | None = None) -> Comparison:
         raise InputError('staves = "auto" needs a [stock] table: the choice is by the wood to buy', "hollow.staves")
     first = MIN_STAVES if spar.hollow.joint.kind == "bevel" else MIN_STAVES + 1
     counts = list(range(first, MAX_STAVES + 1))
+    refuse_too_many(spar, MOST_STATIONS_COMPARED, f" when it compares the {len(counts)} stave counts")
     with (pool or Pool()) as workers:
-        candidates = workers.map(_assessed, [(spar, n) for n in counts])
-        waiting = sorted((c for c in candidates if c.floor > 0), key=lambda c: (c.floor, c.staves))
+        assessed = workers.map(_assessed, [(spar, n) for n in counts])
+        candidates = [c for c, _ in assessed]
+        sections = {c.staves: cache for c, cache in assessed if cache is not None}
+        del assessed
+        waiting = sorted((c for c in candidates if c.staves in sections), key=lambda c: (c.floor, c.staves))
         done: list[Candidate] = []
         while waiting:
             limit = _runner_up_limit(done)
+            for c in waiting:
+                if c.floor > limit:
+                    del sections[c.staves]
             waiting = [c for c in waiting if c.floor <= limit]
             batch, waiting = waiting[:workers.size], waiting[workers.size:]
-            done += workers.map(_laid_out, [(c,) for c in batch])
+            done += workers.map(_laid_out, [(c, sections.pop(c.staves)) for c in batch])
+        sections.clear()
     laid = {c.staves: c for c in done}
     limit = _runner_up_limit(done)
-    candidates = [laid.get(c.staves) or (replace(c, outbid=True) if c.floor > limit else c) for c in candidates]
-    candidates = tuple(replace(c, sections=None) for c in candidates)
+    candidates = tuple(laid.get(c.staves) or (replace(c, outbid=True) if c.floor > limit else c)
+                       for c in candidates)
     eligible = [c for c in candidates if c.eligible]
     if not eligible:
         reasons = sorted({c.why_not() for c in candidates})

@@ -98,13 +98,17 @@ def _first_buildable(check: Callable[[float], StationCheck], lo: float, hi: floa
 
 
 def window(check: Callable[[float], StationCheck], criteria: tuple[Criterion, ...], lo: float, hi: float,
-           lo_by: str, hi_by: str, quick: Callable[[float], StationCheck] | None = None) -> Window | Miss:
+           lo_by: str, hi_by: str, quick: Callable[[float], StationCheck] | None = None,
+           trust_quick: bool = False) -> Window | Miss:
     """Where in [lo, hi] the point meets every criterion, or the first criterion no size there reaches.
 
     ``check(size)`` gives the point's check at a trial size; it may raise
     DesignError where the joint cannot be built (only at small sizes).
     ``quick(size)``, if given, is the same check in closed form: the searches
-    use it once it agrees with ``check`` at the least buildable size.
+    use it once it agrees with ``check`` at the least buildable size, or
+    from the start with ``trust_quick`` (the caller has it agree elsewhere on
+    the spar and checks the solution on the exact section: where the joint
+    cannot be built at the size found, it searches again without).
     """
     cache: dict[float, StationCheck] = {}
 
@@ -113,11 +117,12 @@ def window(check: Callable[[float], StationCheck], criteria: tuple[Criterion, ..
             cache[x] = check(x)
         return cache[x]
 
-    start = _first_buildable(at, lo, hi)
-    if start > lo:
-        lo, lo_by = start, NOTCH
+    if not (trust_quick and quick is not None):
+        start = _first_buildable(at, lo, hi)
+        if start > lo:
+            lo, lo_by = start, NOTCH
     ratios = at
-    if quick is not None and agrees(at(lo), quick(lo), criteria):
+    if quick is not None and (trust_quick or agrees(at(lo), quick(lo), criteria)):
         quick_cache: dict[float, StationCheck] = {}
 
         def ratios(x: float) -> StationCheck:

@@ -116,24 +116,38 @@ def _diameter_line(spar: Spar, solution, least: str) -> str:
     return f"{head}; {least}"
 
 
-def _solve_size(spar: Spar, skip: bool) -> tuple[Spar, object]:
-    """The spar with its auto wall or diameters solved (``skip``: no root search where the size found so far
-    already holds), and the solution."""
+def _solve_size(spar: Spar, skip: bool, trust: bool) -> tuple[Spar, object]:
+    """The spar with its auto wall or diameters solved, and the solution (``skip``, ``trust``: see
+    :func:`~.wall.solve_constant_wall`)."""
     h = spar.hollow
     if h.diameter == AUTO:
-        solution = solve_diameter_scale(spar, skip=skip)
+        solution = solve_diameter_scale(spar, skip=skip, trust=trust)
         return replace(spar, hollow=replace(h, diameter=solution.diameter, diameter_given=True)), solution
-    solution = solve_constant_wall(spar, skip=skip) if h.wall == AUTO else solve_tapered_wall(spar, skip=skip)
+    solver = solve_constant_wall if h.wall == AUTO else solve_tapered_wall
+    solution = solver(spar, skip=skip, trust=trust)
     return replace(spar, hollow=replace(h, wall=solution.wall)), solution
+
+
+# How sizes are searched, quickest first: (skip points the size found so far meets, trust the closed form).
+SEARCHES = ((True, True), (True, False), (False, False))
 
 
 def solve(spar: Spar) -> Solved:
     """Fill what the spar leaves ``auto``; see :class:`Solved`.
 
-    Sizes are searched with points skipped where the size found so far already holds and, for flush and
-    bevel joints, on the closed-form section; the solved spar is then checked at every point on the exact
-    section. Should that find a shortfall or a section that cannot be built (roundoff at the edge of a
-    range), the size is searched again at every point, on the exact section's terms, and checked again.
+    The first search skips points the size found so far already meets and,
+    for flush and bevel joints, runs on the closed-form section once it
+    agrees with the exact one on this spar; the solved spar is then checked
+    at every point on the exact section (the sections kept for the check
+    and the layout). Should the joint prove unbuildable at a size the closed
+    form chose, or that check find a shortfall (roundoff at the edge of a
+    range), the search is made again on the exact section's terms
+    (:data:`SEARCHES`), the last as every point's own full search. So the
+    answer and every message are those of the full search, with one gain:
+    the full search can give up on a point whose range of walls holds a
+    section the joint cannot build (a centred notch's voids opening), even
+    where the size that binds elsewhere holds there; the quick one answers,
+    checked on the exact section at every point.
     """
     h = spar.hollow
     if h.staves == AUTO:
@@ -141,27 +155,34 @@ def solve(spar: Spar) -> Solved:
 
         comparison = compare_stave_counts(spar)
         chosen = comparison.chosen
-        return Solved(chosen.spar, chosen.solved + (f"staves chosen: {comparison.reason}",), chosen.sections,
-                      comparison)
+        return Solved(chosen.spar, chosen.solved + (f"staves chosen: {comparison.reason}",), None, comparison)
     if not isinstance(h.wall, Profile) and not isinstance(h.diameter, Profile):
         raise InputError(f'wall = "{h.wall}" and stations = "auto" leave two unknowns; give the wall to solve '
                          "the diameters, or the diameters (or none: the plan's) to solve the wall",
                          "hollow.stations")
     if h.diameter != AUTO and h.wall not in (AUTO, AUTO_TAPERED):
         return Solved(spar, ())
-    resolved, solution = _solve_size(spar, skip=True)
-    sections = SectionCache(resolved)
-    try:
-        least = _least(resolved, sections)
-    except (DesignError, Shortfall):
-        resolved, solution = _solve_size(spar, skip=False)
-        sections = None
-        least = _least(resolved)
+    for i, (skip, trust) in enumerate(SEARCHES):
+        last = i == len(SEARCHES) - 1
+        try:
+            resolved, solution = _solve_size(spar, skip, trust)
+        except DesignError:
+            if trust:  # the closed form may have searched where the joint cannot be built
+                continue
+            raise
+        sections = None if last else SectionCache(resolved)
+        try:
+            least = _least(resolved, sections)
+        except (DesignError, Shortfall):
+            if last:
+                raise
+            continue
+        break
     if h.diameter == AUTO:
         line = _diameter_line(resolved, solution, least)
     else:
         line = _wall_line(spar, solution, resolved, least)
-    return Solved(resolved, (line,), sections if sections is not None else SectionCache(resolved))
+    return Solved(resolved, (line,), sections or SectionCache(resolved))
 
 
 def size_spar(spar: Spar) -> tuple[Spar, tuple[str, ...]]:

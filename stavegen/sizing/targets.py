@@ -19,8 +19,10 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
+from typing import Callable
 
-from ..checks.ratios import StationCheck, check_station
+from ..checks.ratios import StationCheck, check_station, hollow_round, solid_round
+from ..errors import DesignError
 from ..model.spar import Plug, Spar
 from ..section.integrals import Moments
 from ..section.properties import evaluate_section
@@ -140,14 +142,39 @@ def rounded_ring(staves: int, radius: float, wall: float, planing_allowance: flo
                        bore=Moments(bore_area, 0.0, 0.0, bore_i, bore_i, 0.0))
 
 
-def closed_form_check_at(spar: Spar, point: Point, radius: float, wall: float) -> StationCheck:
-    """:func:`check_at` in closed form; only for :data:`CLOSED_FORM_JOINTS`, inside the range where the
-    section can be built (the caller has the exact section say so)."""
+def closed_form_checker(spar: Spar, point: Point) -> Callable[[float, float], StationCheck]:
+    """:func:`check_at` in closed form at ``point``, as a function of (radius, wall) (mm): only for
+    :data:`CLOSED_FORM_JOINTS`, inside the range where the section can be built. What does not change with
+    the trial size (the plan's round there) is worked out once."""
     h = spar.hollow
-    section = rounded_ring(h.staves, radius, wall, h.planing_allowance)
-    station = Station(z=point.z, reasons=point.reasons, plan_diameter=point.plan_diameter, diameter=2 * radius,
-                      wall=wall, plug=point.plug, section=section)  # type: ignore[arg-type]
-    return check_station(spar, station)
+    plan = solid_round(spar, point.plan_diameter)
+
+    def check(radius: float, wall: float) -> StationCheck:
+        section = rounded_ring(h.staves, radius, wall, h.planing_allowance)
+        station = Station(z=point.z, reasons=point.reasons, plan_diameter=point.plan_diameter,
+                          diameter=2 * radius, wall=wall, plug=point.plug, section=section)  # type: ignore[arg-type]
+        return StationCheck(station=station, plan=plan, hollow=hollow_round(spar, section, point.plug))
+
+    return check
+
+
+def closed_form_check_at(spar: Spar, point: Point, radius: float, wall: float) -> StationCheck:
+    """:func:`check_at` in closed form (see :func:`closed_form_checker`)."""
+    return closed_form_checker(spar, point)(radius, wall)
+
+
+def closed_form_trusted(spar: Spar, point: Point, criteria: tuple[Criterion, ...], radius: float,
+                        wall: float) -> bool:
+    """Whether the closed form may stand in for the exact section on this spar: its joint has one, and at
+    ``point`` with this radius and wall (mm) the two agree (:func:`agrees`). Solutions found with it are
+    checked on the exact section at every point all the same."""
+    if not closed_form_applies(spar):
+        return False
+    try:
+        exact = check_at(spar, point, radius, wall)
+    except DesignError:
+        return False
+    return agrees(exact, closed_form_check_at(spar, point, radius, wall), criteria)
 
 
 def closed_form_applies(spar: Spar) -> bool:
