@@ -58,12 +58,6 @@ def reports_errors(func: Callable) -> Callable:
             if os.environ.get("STAVEGEN_DEBUG"):
                 raise
             _fail(f"internal error ({type(exc).__name__}: {exc}); rerun with STAVEGEN_DEBUG=1 and report it", 3)
-        except BaseException as exc:
-            from .outputs import Stopped
-
-            if isinstance(exc, Stopped):
-                _fail(f"stopped by {exc.name}; no output was changed", exc.exit_code)
-            raise
 
     return wrapper
 
@@ -127,7 +121,8 @@ def section(
     for line in solved:
         console.print(f"[cyan]solved:[/] {line}")
     console.print(section_table(model, check_station(model, station)))
-    console.print(machining_table(model, cutter_settings(station.section)))
+    kerf = model.stock.kerf if model.stock is not None else (3.175 if model.units == "in" else 3.0)
+    console.print(machining_table(model, cutter_settings(station.section, kerf)))
 
 
 @app.command()
@@ -216,6 +211,22 @@ def build(
     result = run_build(path, out, console)
     if not result.passed:
         raise typer.Exit(EXIT_MISSED)
+
+
+@app.command()
+@reports_errors
+def serve(
+    spar: Optional[Path] = typer.Argument(None, help="The spar file (TOML) to open; none opens the bundled example.",
+                                          show_default=False),
+    port: int = typer.Option(8471, "--port", help="Port to serve on (0: any free port)."),
+    host: str = typer.Option("127.0.0.1", "--host", help="Address to serve on; anything but the loopback "
+                                                         "address lets other machines reach the page."),
+    no_browser: bool = typer.Option(False, "--no-browser", help="Do not open the browser."),
+) -> None:
+    """The builder's page: edit the spar in a browser, watch the check and the section, download the papers."""
+    from .serve.run import serve as run_server
+
+    run_server(spar, bundled_sample(), host=host, port=port, open_browser=not no_browser)
 
 
 class _ClosedPipeGuard:

@@ -26,7 +26,8 @@ being committed (or was, by a run that was killed) and is whole again once
 the next run into the folder has read the journal.
 
 SIGTERM and SIGHUP while a set is being written remove its temporaries
-(and a folder made for it) before the process ends (exit 128 + the signal).
+(and a folder made for it), and the process ends with one line and exit
+code 128 + the signal's number.
 Only regular files are ever replaced: a device, a folder, a fifo or a link
 in a file's place is refused, as bad input.
 """
@@ -57,22 +58,6 @@ _LEFTOVER = re.compile(r"^\..+\.[a-z0-9_]{8}(\.stavegen\.part|\.stavegen\.old|\.
 _JOURNAL = re.compile(r"^" + re.escape(JOURNAL_PREFIX) + r"[a-z0-9_]{8}" + re.escape(JOURNAL_SUFFIX) + "$")
 _STOP_SIGNALS = tuple(s for s in (getattr(signal, "SIGTERM", None), getattr(signal, "SIGHUP", None)) if s)
 _BLOCKED_IN_COMMIT = _STOP_SIGNALS + (signal.SIGINT,)
-
-
-class Stopped(BaseException):
-    """SIGTERM or SIGHUP arrived while files were being written: the temporaries are gone, no file changed."""
-
-    def __init__(self, signum: int) -> None:
-        super().__init__(signum)
-        self.signum = signum
-
-    @property
-    def exit_code(self) -> int:
-        return 128 + self.signum
-
-    @property
-    def name(self) -> str:
-        return signal.Signals(self.signum).name
 
 
 # Plain words for the OS errors a user can act on (the rest keep the system's own words).
@@ -267,8 +252,16 @@ def recover(folder: Path) -> list[str]:
     return finished
 
 
+STOPPED = "stopped by {name}; no output was changed"
+_LIVE: list["OutputSet"] = []  # sets being written, for the signal handler
+
+
 class _SignalGuard:
-    """While files are being written, SIGTERM and SIGHUP raise :class:`Stopped` (main thread only)."""
+    """While files are being written (main thread only), SIGTERM and SIGHUP remove every temporary of the
+    sets being written, and any folder made for them, say so in one line and end the process with
+    128 + the signal's number. The handler ends the process itself rather than raise: an exception
+    raised at any line of a renderer can be caught and rewrapped by a library's bare ``except``.
+    During a commit the signals wait (:class:`_SignalsHeld`), so a set is never left half renamed."""
 
     def __init__(self) -> None:
         self.previous: dict[int, object] = {}
@@ -282,7 +275,13 @@ class _SignalGuard:
 
     @staticmethod
     def _stop(signum, frame) -> None:
-        raise Stopped(signum)
+        for out in list(_LIVE):
+            out._abandon()
+        name = signal.Signals(signum).name
+        try:
+            os.write(2, f"stavegen: {STOPPED.format(name=name)}\n".encode())
+        finally:
+            os._exit(128 + signum)
 
     def restore(self) -> None:
         for signum, handler in self.previous.items():
@@ -322,6 +321,7 @@ class OutputSet:
         self._made = _missing_folders(folder)
         self._pending: list[tuple[Path, Path]] = []
         self._lock: _FolderLock | None = None
+        _LIVE.append(self)
         self._signals = _SignalGuard()
         try:
             self.folder = prepare_folder(folder)
@@ -340,13 +340,14 @@ class OutputSet:
     def add(self, name: str, writer: Writer) -> Path:
         final = self.folder / name
         self._refuse_odd(final)
-        try:
-            fd, temp = tempfile.mkstemp(prefix=f".{name}.", suffix=TEMP_SUFFIX, dir=self.folder)
-            os.close(fd)
-        except OSError as exc:
-            raise write_failure(exc, f"{name} into {self.folder}", self.key) from None
-        temp_path = Path(temp)
-        self._pending.append((temp_path, final))
+        with _SignalsHeld():  # the temporary is listed for removal the moment it exists
+            try:
+                fd, temp = tempfile.mkstemp(prefix=f".{name}.", suffix=TEMP_SUFFIX, dir=self.folder)
+                os.close(fd)
+            except OSError as exc:
+                raise write_failure(exc, f"{name} into {self.folder}", self.key) from None
+            temp_path = Path(temp)
+            self._pending.append((temp_path, final))
         try:
             writer(temp_path)
             _fsync(temp_path)
@@ -393,6 +394,7 @@ class OutputSet:
                 raise failure from None
             done = [final for _, final in self._pending]
             self._pending.clear()
+            _LIVE.remove(self)
             # A signal that came during the commit now takes its usual course: the set is in place.
             self._signals.restore()
         self._close()
@@ -409,23 +411,29 @@ class OutputSet:
             pass
 
     def discard(self) -> None:
+        self._abandon()
+        self._close()
+
+    def _abandon(self) -> None:
+        """Remove the temporaries written so far, and the folders made for the set if left empty."""
         for temp, _ in self._pending:
             try:
                 temp.unlink()
             except FileNotFoundError:
                 pass
         self._pending.clear()
-        for made in self._made:  # a folder made for this set, left empty
+        for made in self._made:
             try:
                 made.rmdir()
             except OSError:
                 break
-        self._close()
 
     def _close(self) -> None:
         if self._lock is not None:
             self._lock.release()
         self._signals.restore()
+        if self in _LIVE:
+            _LIVE.remove(self)
 
     def __enter__(self) -> "OutputSet":
         return self

@@ -11,6 +11,8 @@ from __future__ import annotations
 
 import math
 import re
+from dataclasses import dataclass
+from enum import Enum
 from fractions import Fraction
 
 MM_PER_INCH = 25.4
@@ -189,6 +191,7 @@ def format_plain(mm: float, units: str) -> str:
 
 # Stresses (moduli and strengths) and densities -----------------------------
 
+_FORCE_N = {"n": 1.0, "kn": 1000.0, "lbf": 4.4482216152605, "kgf": 9.80665}
 _STRESS_MPA = {"psi": MPA_PER_PSI, "ksi": 1000 * MPA_PER_PSI, "mpa": 1.0, "gpa": 1000.0, "n/mm2": 1.0}
 _DENSITY = {"kg/m3": 1.0, "lb/ft3": KG_M3_PER_LB_FT3, "pcf": KG_M3_PER_LB_FT3}
 _QUANTITY = re.compile(r"^\s*([-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?)\s*([A-Za-z/0-9³²]+)?\s*$")
@@ -220,6 +223,11 @@ def parse_density(value: object, units: str) -> float:
     return _parse_quantity(value, _DENSITY, "lb/ft3" if units == "in" else "kg/m3", "a density")
 
 
+def parse_force(value: object, units: str) -> float:
+    """Newtons from a number (lbf for "in" files, N for "mm") or "225 lbf", "1 kN", "1000 N"."""
+    return _parse_quantity(value, _FORCE_N, "lbf" if units == "in" else "n", "a force")
+
+
 def stress_in(mpa: float, system: str) -> float:
     """A stress from N/mm² into psi ("psi") or MPa ("mpa")."""
     return mpa / MPA_PER_PSI if system == "psi" else mpa
@@ -239,3 +247,102 @@ def format_mass(kg: float, units: str) -> str:
 def format_force(newtons: float, units: str) -> str:
     """``1,234 lbf`` for inch files, ``5,490 N`` for mm files."""
     return f"{newtons / N_PER_LBF:,.0f} lbf" if units == "in" else f"{newtons:,.0f} N"
+
+
+# The unit system of a spar file, and rounding the safe way -------------------------------------
+
+
+class Way(Enum):
+    """Which way a printed length is rounded onto the builder's grid (docs/conventions.md)."""
+
+    NEAREST = "nearest"  # a position or a figure that only describes
+    UP = "up"  # never less than the exact figure: a thickness to dress to, a length to cut, "at least"
+    DOWN = "down"  # never more: a least wall, a depth not to pass, a setting that must leave wood
+
+
+@dataclass(frozen=True)
+class UnitSystem:
+    """How one unit system reads and prints: the spar file's ``units`` ("in" or "mm").
+
+    ``step`` is the finest length a builder reads off a tape in this system (mm):
+    1/32 in, or 0.1 mm. Every printed length goes through :meth:`on_grid`, which
+    rounds it onto that grid in the :class:`Way` the figure calls for.
+    """
+
+    key: str
+    step: float
+    length_word: str  # "in" or "mm": the unit of bare lengths in this system's files and tables
+    position_word: str  # "ft-in" or "mm": how positions along the spar are printed
+
+    @property
+    def imperial(self) -> bool:
+        return self.key == "in"
+
+    def on_grid(self, mm: float, way: Way = Way.NEAREST, step: float | None = None) -> float:
+        """``mm`` rounded onto the grid (``step`` mm, default this system's) the way asked; exact grid points stay."""
+        g = step or self.step
+        k = mm / g
+        if way is Way.UP:
+            n = math.ceil(k - 1e-9)
+        elif way is Way.DOWN:
+            n = math.floor(k + 1e-9)
+        else:
+            n = round(k)
+        return n * g
+
+    def fine_step(self, limit: float) -> float:
+        """The coarsest grid step, 1/32 in halved down to 1/128 in (or 0.1 mm), not coarser than ``limit`` mm."""
+        g = self.step
+        while g > limit and self.imperial and g > MM_PER_INCH / 128 + 1e-12:
+            g /= 2
+        return g
+
+    def length(self, mm: float | None, way: Way = Way.NEAREST, tape: bool = False, step: float | None = None) -> str:
+        """A length for people, on the grid: ``3 7/16"`` (feet too with ``tape``) or ``87.3 mm``."""
+        if mm is None:
+            return "—"
+        value = self.on_grid(mm, way, step)
+        if self.imperial:
+            den = round(MM_PER_INCH / (step or self.step))
+            return format_tape(value, den) if tape else format_inches(value, denominator=den)
+        return format_mm(value, _decimals(step or self.step))
+
+    def plain(self, mm: float | None, way: Way = Way.NEAREST, step: float | None = None) -> str:
+        """A length without a unit mark, for tables and spreadsheets: ``3 7/16`` or ``87.3``."""
+        if mm is None:
+            return ""
+        value = self.on_grid(mm, way, step)
+        if self.imperial:
+            return format_inches(value, mark=False, denominator=round(MM_PER_INCH / (step or self.step)))
+        return f"{value:.{_decimals(step or self.step)}f}"
+
+    def decimal(self, mm: float | None, way: Way = Way.NEAREST, step: float | None = None) -> str:
+        """The same grid value as a decimal number in this system's unit (inches to 5 places, or mm)."""
+        if mm is None:
+            return ""
+        value = self.on_grid(mm, way, step)
+        return f"{value / MM_PER_INCH:.5f}" if self.imperial else f"{value:.{_decimals(step or self.step)}f}"
+
+    def exact(self, mm: float) -> str:
+        """Unrounded: inches to 4 decimals (``0.8134"``) or mm to 3 (``20.662 mm``)."""
+        return format_exact(mm, self.key)
+
+    def mass(self, kg: float) -> str:
+        return format_mass(kg, self.key)
+
+    def force(self, newtons: float) -> str:
+        return format_force(newtons, self.key)
+
+
+def _decimals(step: float) -> int:
+    return max(0, -math.floor(math.log10(step) + 1e-9))
+
+
+IMPERIAL = UnitSystem("in", MM_PER_INCH / 32, "in", "ft-in")
+METRIC = UnitSystem("mm", 0.1, "mm", "mm")
+SYSTEMS = {"in": IMPERIAL, "mm": METRIC}
+
+
+def system(units: str) -> UnitSystem:
+    """The :class:`UnitSystem` of a spar file's ``units``."""
+    return SYSTEMS[units]

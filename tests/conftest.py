@@ -49,3 +49,21 @@ def run():
         return runner.invoke(app, [str(a) for a in args], **kw)
 
     return _run
+
+
+def cut_list(text: str) -> tuple[list[str], list[dict[str, str]], list[list[str]]]:
+    """The cut list CSV read as a builder's spreadsheet would: (warning lines, segment rows, the steps block).
+
+    A failing design's first row is its warning; the segment table ends at the first empty row, after
+    which come the order of operations and any notes.
+    """
+    import csv
+    import io
+
+    rows = list(csv.reader(io.StringIO(text)))
+    warnings = []
+    while rows and len(rows[0]) == 1:
+        warnings.append(rows.pop(0)[0])
+    end = rows.index([])
+    header, body = rows[0], rows[1:end]
+    return warnings, [dict(zip(header, r)) for r in body], rows[end + 1:]

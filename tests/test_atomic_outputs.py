@@ -188,7 +188,7 @@ def test_a_signal_while_writing_removes_the_temporaries(tmp_path, old_set, signu
         time.sleep(0.02)
     child.send_signal(signum)
     _, err = child.communicate(timeout=60)
-    assert child.returncode == 128 + signum
+    assert child.returncode == 128 + signum, err
     assert err.strip() == f"stavegen: stopped by {signal.Signals(signum).name}; no output was changed"
     assert _files(out) == before
 

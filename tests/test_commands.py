@@ -133,7 +133,13 @@ def test_build_ends_with_a_short_summary(run, tmp_path):
         assert f"weight saved {format_mass(doc['mass']['saved_kg'], units)}" in text
         assert f"{len(list(out.iterdir()))} files into" in text
         assert "safety notes" in text
-        assert len(result.stdout.strip().splitlines()) <= 12
+        summary = result.stdout.split("Order of operations")[0]
+        assert len(summary.strip().splitlines()) <= 12
+        # The order of operations follows, the same steps the JSON (and so the report and CSV) give.
+        for step in doc["machining"]["steps"]:
+            assert f"{step['step']}. {' '.join(step['text'].split())}" in text
+        if word == "FAIL":
+            assert "marked: this design fails its target" in text
 
 
 def test_build_steps_are_reported_in_order(tmp_path):

@@ -28,6 +28,7 @@ from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 from shapely.geometry import LineString, LinearRing, Polygon, box
 
+from stavegen.errors import DesignError
 from stavegen.build import output_names, write_outputs
 from stavegen.model.loader import load_spar, parse_spar
 from stavegen.pipeline import design
@@ -305,7 +306,11 @@ def random_spar(units: str, length: float, diameter: float, taper: float, staves
        wall=st.floats(0.18, 0.24), board=st.floats(1800, 3000), edge=st.sampled_from(["square-edge", "symmetric"]))
 def test_random_spars_read_back_whole(tmp_path, units, length, diameter, taper, staves, joint, wall, board, edge):
     spar = random_spar(units, length, diameter, taper, staves, joint, wall, board, edge)
-    result = design(spar, layout=True)
+    try:
+        result = design(spar, layout=True)
+    except DesignError as exc:  # a centred notch the section model refuses (voids or grooves rounding opens)
+        assert joint == "birdsmouth-centered" and exc.key == "hollow.joint", exc.one_line()
+        return
     path, dxf = templates_of(result, tmp_path)
     check_templates(result, path, dxf)
 

@@ -33,7 +33,8 @@ from stavegen.render.pdf_fullsize import crosses, pages_of, sheet, write_fullsiz
 from stavegen.render.pdf_report import write_report
 from stavegen.units import format_length, format_mass
 
-from conftest import SAMPLES, make_spar
+from stavegen.render.figures import Figures
+from conftest import SAMPLES, cut_list, make_spar
 
 PT_PER_MM = 72 / 25.4
 SCALE_BAR_PT = {"in": 288.0, "mm": 283.46}  # 4 in; 100 mm
@@ -99,20 +100,24 @@ def test_every_report_page_names_the_spar_file_date_and_page(built):
 
 
 def test_report_cut_list_matches_the_csv_and_json(built):
+    from stavegen.render.pdf_report import _BOARD_COLUMN, _CUT_COLUMNS
+
     d = built["design"]
-    rows = list(csv.DictReader(io.StringIO(to_csv(d))))
+    _, rows, _ = cut_list(to_csv(d))
     header = list(rows[0])
-    shown = header[2:14]  # label through board, as the CSV spells them
+    shown = [next(h for h in header if h.startswith(w) and "decimal" not in h) for w in _CUT_COLUMNS + (_BOARD_COLUMN,)]
     lines = [line for page in built["report_lines"] for line in page]
     doc = json.loads(to_json(d))
     lengths = {seg["label"]: seg["length_mm"] for stave in doc["staves"] for seg in stave["segments"]}
     assert len(rows) == len(lengths) == len(d.layout.segments)
+    fig = Figures(d.spar)
     for row in rows:
         expected = " ".join(row[k] for k in shown)
         found = [line for line in lines if line.startswith(row["label"] + " ")]
         assert expected in found, (expected, found)
         length_col = next(k for k in header if k.startswith("length along face"))
-        assert row[length_col] == format_length(lengths[row["label"]], built["units"], tape=True)
+        # A length to cut, rounded up: never shorter than the segment.
+        assert row[length_col] == fig.cell("cut-length", lengths[row["label"]])
 
 
 def test_report_station_table_matches_the_json(built):
@@ -205,7 +210,7 @@ def test_report_cutting_diagrams_draw_every_board_to_the_stated_scales(built):
     at its rip and offset (rip widths from the CSV), labelled inside."""
     d = built["design"]
     stock = json.loads(to_json(d))["stock"]
-    rip_width = {row["label"]: float(row["rip_width_mm"]) for row in csv.DictReader(io.StringIO(to_csv(d)))}
+    rip_width = {row["label"]: float(row["rip_width_mm"]) for row in cut_list(to_csv(d))[1]}
     text = _flat(" ".join(built["report_pages"]))
     found = re.search(r"lengths at 1:([\d.]+), widths at 1:([\d.]+)", text)
     assert found, "no scales stated"
@@ -254,8 +259,10 @@ def test_report_cutting_diagrams_draw_every_board_to_the_stated_scales(built):
 
 
 def test_report_cutter_settings_match_the_json(built):
-    """Both stations' table-saw passes and router set-up, as the JSON ``machining`` gives them."""
+    """Both stations' table-saw passes and router set-up, as the JSON ``machining`` gives them, each rounded
+    the way that leaves wood (the report, the section command and the steps word them alike)."""
     units = built["units"]
+    fig = Figures(built["design"].spar)
     m = json.loads(to_json(built["design"]))["machining"]
     text = _flat(" ".join(_section_lines(built, "Cutter settings", "Plugs")))
     for what in ("widest", "narrowest"):
@@ -263,16 +270,29 @@ def test_report_cutter_settings_match_the_json(built):
         assert f"at the {what} stave, {format_length(at['z_mm'], units, tape=True)} from the heel" in text
         for p in at["table_saw"]:
             assert f"makes the {p['makes']}" in text
-            for key in ("fence_distance_mm", "depth_along_blade_mm", "height_mm"):
-                assert format_length(p[key], units) in text, (what, key)
+            assert fig.fence(p["fence_distance_mm"], nearer=p["stave_side"] == "far side") in text
+            for key in ("depth_along_blade_mm", "height_mm"):
+                assert fig.blade(p[key]) in text, (what, key)
             assert f"{p['tilt_deg']:.2f}°" in text
         if at["router"]:
-            for key in ("bit_height_mm", "fence_to_tip_mm", "least_bit_diameter_mm"):
-                assert format_length(at["router"][key], units) in text, (what, key)
+            assert fig.blade(at["router"]["bit_height_mm"]) in text
+            assert fig.describe(at["router"]["fence_to_tip_mm"]) in text
+            assert fig.at_least(at["router"]["least_bit_diameter_mm"]) in text
         if at["notch_depth_mm"] is not None:
-            assert format_length(at["notch_depth_mm"], units) + " / " + format_length(at["apex_height_mm"], units) \
-                in text
-    assert ("The notch changes along the spar" in text) == m["notch_varies"]
+            assert fig.notch_depth(at["notch_depth_mm"]) + " / " + fig.apex_height(at["apex_height_mm"]) in text
+    assert ("The notch changes along the stave" in text) == m["notch_varies"]
+
+
+def test_report_order_of_operations_matches_the_json_and_csv(built):
+    """The same order of operations in the report, the JSON and the CSV cut list."""
+    d = built["design"]
+    steps = json.loads(to_json(d))["machining"]["steps"]
+    text = _flat(" ".join(_section_lines(built, "Order of operations", "Cutter settings")))
+    _, _, block = cut_list(to_csv(d))
+    assert block[0] == ["order of operations"]
+    for step, row in zip(steps, block[1:]):
+        assert _flat(step["text"]) in text
+        assert row == [str(step["step"]), step["text"]]
 
 
 # The full-size templates ---------------------------------------------------------------------------------

@@ -10,16 +10,19 @@ from ..stations.grid import StationMark, intervals
 from .beam import MassFigures, euler_load, mass_and_centre, tip_deflection
 from .ratios import StationCheck, Stiffness, check_station, hollow_round, solid_round
 
-REFERENCE_HEAD_LOAD = 1000.0  # N: a lateral head load for comparing deflections (1 kN)
-
-
 @dataclass(frozen=True)
 class SparFigures:
-    """Mass (kg), centre of gravity (mm from heel), head deflection under 1 kN (mm), Euler load (N)."""
+    """Mass (kg), centre of gravity (mm from heel), head deflection under the head load (mm), Euler load (N)."""
 
     mass: MassFigures
     tip_deflection: float
     euler_load: float
+    head_load: float
+
+    @property
+    def head_stiffness(self) -> float:
+        """Sideways load at the head per unit deflection there, heel held (N/mm): independent of the load."""
+        return self.head_load / self.tip_deflection
 
 
 @dataclass(frozen=True)
@@ -30,11 +33,36 @@ class Assessment:
     stations: tuple[StationCheck, ...]
     plan: SparFigures
     hollow: SparFigures
-    head_load: float = REFERENCE_HEAD_LOAD
+
+    @property
+    def head_load(self) -> float:
+        """The sideways head load the deflections are compared under (N): the file's, or the 1 kN default."""
+        return self.spar.head_load
 
     @property
     def ei_target(self) -> float:
         return 1.0 + self.spar.hollow.margin
+
+    @property
+    def strength_target(self) -> float:
+        return self.spar.hollow.min_strength_ratio
+
+    @property
+    def weight_saved(self) -> float:
+        """kg the hollow spar weighs less than the plan's solid spar (negative when heavier)."""
+        return self.plan.mass.mass - self.hollow.mass.mass
+
+    @property
+    def weight_saved_share(self) -> float:
+        """The weight saved as a share of the plan's weight."""
+        return self.weight_saved / self.plan.mass.mass if self.plan.mass.mass > 0 else 0.0
+
+    def compared(self, name: str) -> float:
+        """Hollow over plan for a whole-spar figure: "mass", "centre", "deflection", "euler", "head_stiffness"."""
+        pick = {"mass": lambda f: f.mass.mass, "centre": lambda f: f.mass.centre,
+                "deflection": lambda f: f.tip_deflection, "euler": lambda f: f.euler_load,
+                "head_stiffness": lambda f: f.head_stiffness}[name]
+        return pick(self.hollow) / pick(self.plan)
 
     @property
     def weakest_stiffness(self) -> StationCheck:
@@ -46,12 +74,16 @@ class Assessment:
 
     @property
     def stiffness_met(self) -> bool:
-        return self.weakest_stiffness.ei_ratio >= self.ei_target - 1e-12
+        return all(c.ei_ok for c in self.stations)
 
     @property
     def strength_met(self) -> bool:
-        target = self.spar.hollow.min_strength_ratio
-        return target is None or self.weakest_strength.strength_ratio >= target - 1e-12
+        return all(c.strength_ok for c in self.stations)
+
+    @property
+    def strength_accepted_below_plan(self) -> bool:
+        """True when the spar file accepts a hollow spar weaker than the plan (strength target below 1)."""
+        return self.strength_target < 1.0
 
     @property
     def passed(self) -> bool:
@@ -64,15 +96,20 @@ class Assessment:
             s = self.weakest_stiffness
             out.append(f"EI ratio {s.ei_ratio:.3f} at {where(self.spar, s.station.z)} is below the target "
                        f"{self.ei_target:.3f} (short by {100 * (1 - s.ei_ratio / self.ei_target):.1f} %)")
-            below = [c for c in self.stations if c.ei_ratio < self.ei_target - 1e-12]
+            below = [c for c in self.stations if not c.ei_ok]
             if len(below) > 1:
                 out[-1] += (f"; {len(below)} stations fall short, from {where(self.spar, below[0].station.z)}"
                             f" to {where(self.spar, below[-1].station.z)}")
         if not self.strength_met:
             s = self.weakest_strength
-            target = self.spar.hollow.min_strength_ratio
-            out.append(f"strength ratio {s.strength_ratio:.3f} at {where(self.spar, s.station.z)} is below the "
-                       f"asked minimum {target:.3f} (short by {100 * (1 - s.strength_ratio / target):.1f} %)")
+            target = self.strength_target
+            asked = "the plan's strength" if target == 1.0 else f"the least the spar file accepts, {target:.3f}"
+            out.append(f"strength ratio {s.strength_ratio:.3f} at {where(self.spar, s.station.z)} is below "
+                       f"{asked} (short by {100 * (1 - s.strength_ratio / target):.1f} %)")
+            below = [c for c in self.stations if not c.strength_ok]
+            if len(below) > 1:
+                out[-1] += (f"; {len(below)} stations fall short, from {where(self.spar, below[0].station.z)}"
+                            f" to {where(self.spar, below[-1].station.z)}")
         return out
 
 
@@ -96,6 +133,7 @@ def _figures(spar: Spar, stretches, stiffness, load: float) -> SparFigures:
         mass=mass_and_centre(stretches, mass),
         tip_deflection=tip_deflection(stretches, ei, spar.length, load),
         euler_load=euler_load(stretches, ei, spar.length),
+        head_load=load,
     )
 
 
@@ -109,6 +147,6 @@ def assess(spar: Spar, marks: tuple[StationMark, ...] | None = None, cache: Sect
     return Assessment(
         spar=spar,
         stations=checks,
-        plan=_figures(spar, stretches, plan, REFERENCE_HEAD_LOAD),
-        hollow=_figures(spar, stretches, hollow, REFERENCE_HEAD_LOAD),
+        plan=_figures(spar, stretches, plan, spar.head_load),
+        hollow=_figures(spar, stretches, hollow, spar.head_load),
     )

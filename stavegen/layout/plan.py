@@ -11,33 +11,11 @@ from ..section.properties import Section
 from ..stations.evaluate import SectionCache
 from ..stations.grid import station_marks
 from .lumber import LumberOrder, Piece, order_lumber
-from .machining import CutterSettings, cutter_settings
+from .operations import Machining, StationSettings, machining  # noqa: F401  (re-exported)
 from .plugs import PlugBlock, plug_blocks
 from .scarfs import ScarfPlan, ScarfRules, place_scarfs, segment_bounds
 from .segments import Segment, make_segment
 from .staves import StavePlan, stave_plan
-
-
-@dataclass(frozen=True)
-class StationSettings:
-    """Cutter settings for the stave section at one position z (mm from the heel)."""
-
-    z: float
-    section: Section
-    settings: CutterSettings
-
-
-@dataclass(frozen=True)
-class Machining:
-    """Cutter settings at the widest and the narrowest stave stations (the same when the notch is)."""
-
-    widest: StationSettings
-    narrowest: StationSettings
-
-    @property
-    def notch_varies(self) -> bool:
-        a, b = self.widest.settings, self.narrowest.settings
-        return (a.notch_depth, a.apex_height) != (b.notch_depth, b.apex_height)
 
 
 @dataclass(frozen=True)
@@ -109,22 +87,15 @@ def lay_out(spar: Spar, cache: SectionCache | None = None, step: Callable[[str],
             make_segment(plan, k, i + 1, a, b, scarf_at_start=i > 0, scarf_at_end=i < last,
                          scarf_length=rules.length)
             for i, (a, b) in enumerate(stave_bounds)))
-    if step is not None:
-        step("ordering lumber")
-    pieces = [Piece(label=seg.label, stave=seg.stave, segment=seg.index, length=seg.length,
-                    width=seg.rough_width, volume=seg.volume) for stave in staves for seg in stave]
-    lumber = order_lumber(pieces, spar.stock, units=spar.units, time_budget=lumber_budget)
+    staves = tuple(staves)
     if step is not None:
         step("working out the cutter settings")
-    return Layout(plan=plan, scarfs=scarfs, staves=tuple(staves), plugs=plug_blocks(spar, cache),
-                  machining=machining_at_extremes(spar, plan, cache), lumber=lumber)
-
-
-def machining_at_extremes(spar: Spar, plan: StavePlan, cache: SectionCache) -> Machining:
-    """Cutter settings where the stave is widest and narrowest on the finished spar."""
-    inside = [st for st in plan.stations if 0 <= st.z <= spar.length]
-    found = []
-    for station in (max(inside, key=lambda st: st.width), min(inside, key=lambda st: st.width)):
-        section = cache.at(station.z)
-        found.append(StationSettings(z=station.z, section=section, settings=cutter_settings(section)))
-    return Machining(widest=found[0], narrowest=found[1])
+    shop = machining(spar, plan, staves, cache)
+    if step is not None:
+        step("ordering lumber")
+    rough = {s.label: s.rough_width for s in shop.segments}
+    pieces = [Piece(label=seg.label, stave=seg.stave, segment=seg.index, length=seg.length,
+                    width=rough[seg.label], volume=seg.volume) for stave in staves for seg in stave]
+    lumber = order_lumber(pieces, spar.stock, units=spar.units, time_budget=lumber_budget)
+    return Layout(plan=plan, scarfs=scarfs, staves=staves, plugs=plug_blocks(spar, cache),
+                  machining=shop, lumber=lumber)

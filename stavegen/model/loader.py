@@ -13,11 +13,14 @@ from pathlib import Path
 from typing import Any
 
 from ..errors import InputError
-from ..units import UnitError, parse_density, parse_length, parse_stress
+from ..units import UnitError, parse_density, parse_force, parse_length, parse_stress
 from .spar import (
     AUTO,
+    DEFAULT_HEAD_LOAD,
+    DEFAULT_STRENGTH_TARGET,
     JOINTS,
     MAX_STAVES,
+    NOTCH_CUTS,
     MIN_STAVES,
     PAPERS,
     TAPERS,
@@ -310,11 +313,14 @@ def _hollow(t: _Table, units: str, length: float, plan: Plan) -> Hollow:
         diameter_given=given,
         lamination_factor=t.number("lamination_factor", 1.0, low=0.0, high=2.0, low_open=True),
         margin=t.number("margin", 0.0, low=0.0, high=5.0),
-        min_strength_ratio=t.number("min_strength_ratio", None, low=0.0, high=10.0, low_open=True),
+        min_strength_ratio=t.number("min_strength_ratio", DEFAULT_STRENGTH_TARGET, low=0.0, high=10.0,
+                                    low_open=True),
+        strength_target_given=t.has("min_strength_ratio"),
         min_corner_wall=t.length("min_corner_wall", None),
         planing_allowance=t.length("planing_allowance", 1.5875 if imperial else 1.5, strict=False),
         end_allowance=t.length("end_allowance", 76.2 if imperial else 75.0, strict=False),
         taper=t.string("taper", "square-edge", TAPERS),
+        notch_cut=t.string("notch_cut", "thickest-wall", NOTCH_CUTS),
         plugs=plugs,
     )
     t.finish()
@@ -422,6 +428,15 @@ def parse_spar(data: dict[str, Any], source: str = "") -> Spar:
         top.units = units
         name = spar_t.string("name")
         length = spar_t.length("length")
+        head_load = DEFAULT_HEAD_LOAD
+        if spar_t.has("head_load"):
+            try:
+                head_load = parse_force(spar_t.raw("head_load"), units)
+            except UnitError as exc:
+                raise spar_t.fail("head_load", str(exc)) from None
+            if not head_load > 0:
+                raise spar_t.fail("head_load", f"must be a positive force, got {spar_t.raw('head_load')!r}")
+        spar_t.used.add("head_load")
         spar_t.finish()
         plan_t = top.sub("plan", required=True)
         plan = Plan(
@@ -438,7 +453,7 @@ def parse_spar(data: dict[str, Any], source: str = "") -> Spar:
     except InputError as exc:
         raise exc.located(source)
     return Spar(name=name, units=units, length=length, plan=plan, hollow=hollow, stock=stock, output=output,
-                source=source)
+                source=source, head_load=head_load, head_load_given=spar_t.has("head_load"))
 
 
 def load_spar(path: str | Path) -> Spar:

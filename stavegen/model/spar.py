@@ -19,6 +19,11 @@ AUTO_TAPERED = "auto-tapered"
 WALL_SOLVES = (AUTO, AUTO_TAPERED)  # hollow.wall strings the sizing step solves for
 JOINTS = ("birdsmouth-flush", "birdsmouth-centered", "birdsmouth-custom", "bevel")
 TAPERS = ("square-edge", "symmetric")
+# How the notch is cut when the wall tapers: once, on staves of the thickest wall ("thickest-wall"), or
+# following the wall station by station ("follow-wall": thickness tapered first, a CNC router's job).
+NOTCH_CUTS = ("thickest-wall", "follow-wall")
+DEFAULT_STRENGTH_TARGET = 1.0  # the hollow spar at least as strong as the plan unless the file accepts less
+DEFAULT_HEAD_LOAD = 1000.0  # N: the reference sideways head load for comparing deflections (1 kN)
 PAPERS = ("letter", "a4")
 MIN_STAVES, MAX_STAVES = 4, 24
 
@@ -113,11 +118,13 @@ class Hollow:
     diameter: Union[Profile, Literal["auto"]]
     lamination_factor: float = 1.0
     margin: float = 0.0
-    min_strength_ratio: float | None = None
+    min_strength_ratio: float = DEFAULT_STRENGTH_TARGET
+    strength_target_given: bool = False
     min_corner_wall: float | None = None
     planing_allowance: float = 1.5875
     end_allowance: float = 76.2
     taper: str = "square-edge"
+    notch_cut: str = "thickest-wall"
     plugs: tuple[Plug, ...] = ()
     diameter_given: bool = False
 
@@ -166,6 +173,8 @@ class Spar:
     stock: Stock | None
     output: OutputOptions = field(default_factory=OutputOptions)
     source: str = ""
+    head_load: float = DEFAULT_HEAD_LOAD
+    head_load_given: bool = False
 
     @property
     def slug(self) -> str:

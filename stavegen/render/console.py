@@ -15,8 +15,9 @@ from ..model.spar import Spar
 from ..model.woods import Wood
 from ..pipeline import Design
 from ..section.properties import Section
-from ..units import KG_M3_PER_LB_FT3, format_force, format_length, format_length_up, format_mass, format_tape, stress_in
-from .wording import FENCE_NOTE, GUARD_NOTE, cutter_rows, order_words
+from ..units import KG_M3_PER_LB_FT3, format_force, format_length, format_mass, stress_in
+from .figures import Figures
+from .wording import FENCE_NOTE, GUARD_NOTE, cutter_rows, order_words, steps_words
 
 
 def length(spar: Spar, mm: float | None, tape: bool = False) -> str:
@@ -33,9 +34,10 @@ def cautions_panel() -> Panel:
 def _headline(spar: Spar) -> str:
     h = spar.hollow
     wall = h.wall
-    wall_text = (length(spar, wall.largest) if wall.is_constant
-                 else f"{length(spar, wall.smallest)} to {length(spar, wall.largest)}")
-    return (f"[bold]{spar.name}[/]  {length(spar, spar.length, tape=True)} long\n"
+    fig = Figures(spar)
+    wall_text = (fig.dress(wall.largest) if wall.is_constant
+                 else f"{fig.dress(wall.smallest)} to {fig.dress(wall.largest)}")
+    return (f"[bold]{spar.name}[/]  {fig.position(spar.length)} long\n"
             f"plan: solid {spar.plan.wood.name}   hollow: {h.staves} staves of {h.wood.name}, "
             f"{h.joint.kind}, wall {wall_text}")
 
@@ -43,8 +45,8 @@ def _headline(spar: Spar) -> str:
 def station_table(design: Design) -> Table:
     spar = design.spar
     result = design.assessment
+    fig = Figures(spar)
     weakest = result.weakest_stiffness
-    target = result.ei_target
     table = Table(title="Station by station against the plan", header_style="bold", title_justify="left",
                   box=box.SIMPLE_HEAD, pad_edge=False)
     for col, justify in (("from\nheel", "right"), ("plan\nOD", "right"), ("\nOD", "right"), ("\nwall", "right"),
@@ -54,14 +56,14 @@ def station_table(design: Design) -> Table:
     for c in result.stations:
         s = c.station
         sec = s.section
-        ok = c.ei_ratio >= target - 1e-12
-        style = "bold yellow" if c is weakest else ("red" if not ok else None)
+        short = [w for w, ok in (("EI", c.ei_ok), ("strength", c.strength_ok)) if not ok]
+        style = "red" if short else ("bold yellow" if c is weakest else None)
         table.add_row(
-            format_tape(s.z) if spar.units == "in" else f"{s.z:.0f} mm",
-            length(spar, s.plan_diameter), length(spar, s.diameter), length(spar, s.wall),
-            length(spar, sec.stave_width), length(spar, sec.notch.depth if sec.notch else None),
+            fig.position(s.z) if spar.units == "in" else f"{s.z:.0f} mm",
+            fig.describe(s.plan_diameter), fig.dress(s.diameter), fig.dress(s.wall),
+            fig.mark_width(sec.stave_width), fig.notch_depth(sec.notch.depth if sec.notch else None),
             f"{c.ei_ratio:.3f}", f"{c.strength_ratio:.3f}", "●" if s.plug else "",
-            ("least" if c is weakest else "ok") if ok else "SHORT",
+            ("SHORT: " + " and ".join(short)) if short else ("least EI" if c is weakest else "ok"),
             style=style,
         )
     return table
@@ -70,38 +72,55 @@ def station_table(design: Design) -> Table:
 def spar_table(design: Design) -> Table:
     spar = design.spar
     r = design.assessment
+    fig = Figures(spar)
     table = Table(title="The whole spar", header_style="bold", title_justify="left", box=box.SIMPLE_HEAD)
     table.add_column("")
     table.add_column("plan (solid)", justify="right")
     table.add_column("hollow", justify="right")
     table.add_column("hollow / plan", justify="right")
+    stiff = "lbf/in" if spar.units == "in" else "N/mm"
+    per = 25.4 / 4.4482216152605 if spar.units == "in" else 1.0
     rows = [
         ("weight", format_mass(r.plan.mass.mass, spar.units), format_mass(r.hollow.mass.mass, spar.units),
-         r.hollow.mass.mass / r.plan.mass.mass),
-        ("centre of gravity from heel", length(spar, r.plan.mass.centre, True),
-         length(spar, r.hollow.mass.centre, True), r.hollow.mass.centre / r.plan.mass.centre),
-        (f"head deflection, {format_force(r.head_load, spar.units)} sideways, heel held",
-         length(spar, r.plan.tip_deflection), length(spar, r.hollow.tip_deflection),
-         r.hollow.tip_deflection / r.plan.tip_deflection),
+         r.compared("mass")),
+        ("centre of gravity from heel", fig.position(r.plan.mass.centre), fig.position(r.hollow.mass.centre),
+         r.compared("centre")),
+        (f"head stiffness, sideways load per {'inch' if spar.units == 'in' else 'mm'} at the head, heel held",
+         f"{r.plan.head_stiffness * per:,.1f} {stiff}", f"{r.hollow.head_stiffness * per:,.1f} {stiff}",
+         r.compared("head_stiffness")),
+        (f"head deflection under {format_force(r.head_load, spar.units)} sideways"
+         + ("" if spar.head_load_given else " (reference load)"),
+         fig.describe(r.plan.tip_deflection), fig.describe(r.hollow.tip_deflection), r.compared("deflection")),
         ("Euler load, heel fixed, head free", format_force(r.plan.euler_load, spar.units),
-         format_force(r.hollow.euler_load, spar.units), r.hollow.euler_load / r.plan.euler_load),
+         format_force(r.hollow.euler_load, spar.units), r.compared("euler")),
     ]
     for label, a, b, ratio in rows:
         table.add_row(label, a, b, f"{ratio:.3f}")
     return table
 
 
+def _saved_words(design: Design) -> str:
+    r, units = design.assessment, design.spar.units
+    if r.weight_saved >= 0:
+        return (f"{format_mass(r.weight_saved, units)} lighter than the plan "
+                f"({100 * r.weight_saved_share:.0f} %)")
+    return f"{format_mass(-r.weight_saved, units)} heavier than the plan"
+
+
 def verdict(design: Design) -> Text:
     r = design.assessment
     spar = design.spar
+    fig = Figures(spar)
     w = r.weakest_stiffness
     s = r.weakest_strength
-    saved = r.plan.mass.mass - r.hollow.mass.mass
     if r.passed:
         text = Text("PASS ", style="bold green")
         text.append(f"EI ratio at least {w.ei_ratio:.3f} (target {r.ei_target:.3f}), least at "
-                    f"{length(spar, w.station.z, True)} from the heel; strength ratio at least {s.strength_ratio:.3f}; "
-                    f"{format_mass(saved, spar.units)} lighter than the plan.")
+                    f"{fig.position(w.station.z)} from the heel; strength ratio at least {s.strength_ratio:.3f} "
+                    f"(target {r.strength_target:.3f}); {_saved_words(design)}.")
+        if r.strength_accepted_below_plan:
+            text.append(f" The spar file accepts a spar weaker than the plan (min_strength_ratio "
+                        f"{r.strength_target:g}).", style="bold yellow")
     else:
         text = Text("FAIL ", style="bold red")
         text.append(" ".join(r.shortfalls()) + ".")
@@ -118,8 +137,9 @@ def print_build_summary(console: Console, design: Design, written: list) -> None
     w = r.weakest_stiffness
     if r.passed:
         head = Text("PASS ", style="bold green")
-        head.append(f"the hollow spar meets its target at every station (least EI ratio {w.ei_ratio:.3f}, "
-                    f"target {r.ei_target:.3f})")
+        head.append(f"the hollow spar meets its targets at every station (least EI ratio {w.ei_ratio:.3f}, "
+                    f"target {r.ei_target:.3f}; least strength ratio {r.weakest_strength.strength_ratio:.3f}, "
+                    f"target {r.strength_target:.3f})")
     else:
         head = Text("FAIL ", style="bold red")
         head.append(" ".join(r.shortfalls()) + ". Do not build it as drawn.")
@@ -129,12 +149,14 @@ def print_build_summary(console: Console, design: Design, written: list) -> None
     table.add_column("")
     if lay is not None and lay.lumber is not None and lay.lumber.boards:
         table.add_row("boards to buy", order_words(lay.lumber, spar.units))
+    fig = Figures(spar)
     if lay is not None:
-        table.add_row("scarfs", f"{lay.scarfs.count}, each {length(spar, lay.scarfs.length)} long"
+        table.add_row("scarfs", f"{lay.scarfs.count}, each {fig.cut_length(lay.scarfs.length)} long"
                       if lay.scarfs.count else "none: every stave is one piece")
-    saved = r.plan.mass.mass - r.hollow.mass.mass
-    table.add_row("weight saved", f"{format_mass(saved, spar.units)} ({format_mass(r.hollow.mass.mass, spar.units)} "
-                                  f"hollow against {format_mass(r.plan.mass.mass, spar.units)} solid)"
+    saved = r.weight_saved
+    table.add_row("weight saved", f"{format_mass(saved, spar.units)}, {100 * r.weight_saved_share:.0f} % "
+                                  f"({format_mass(r.hollow.mass.mass, spar.units)} hollow against "
+                                  f"{format_mass(r.plan.mass.mass, spar.units)} solid)"
                   if saved >= 0 else f"none: {format_mass(-saved, spar.units)} heavier than the solid spar")
     if written:
         names = [p.name for p in written]
@@ -142,6 +164,14 @@ def print_build_summary(console: Console, design: Design, written: list) -> None
         short = [names[0]] + [n[len(stem):] if n.startswith(stem + "-") else n for n in names[1:]]
         table.add_row("written", f"{len(names)} files into {written[0].parent}: {', '.join(short)}")
     console.print(table)
+    if lay is not None:
+        console.print(Text("Order of operations", style="bold"))
+        for line in steps_words(fig, lay.machining.steps):
+            console.print(Text(line), overflow="fold")
+        for note in lay.machining.notes:
+            console.print(Text("note: ", style="bold yellow") + Text(note))
+    if not r.passed:
+        console.print(Text("The templates and cut list are marked: this design fails its target.", style="bold red"))
     console.print(Text("Before cutting, read the safety notes on page 1 of the report.", style="bold red"))
 
 
@@ -160,37 +190,42 @@ def print_check(console: Console, design: Design) -> None:
 def section_table(spar: Spar, check: StationCheck) -> Table:
     s = check.station
     sec: Section = s.section
+    fig = Figures(spar)
     table = Table(title=f"Section at {length(spar, s.z, True)} from the heel", show_header=False,
                   title_justify="left")
     table.add_column("", style="bold")
     table.add_column("", justify="right")
     rows: list[tuple[str, str]] = [
         ("staves, joint", f"{sec.staves}, {sec.joint}"),
-        ("finished diameter (plan)", f"{length(spar, s.diameter)} ({length(spar, s.plan_diameter)})"),
-        ("across flats before rounding", length(spar, sec.across_flats)),
-        ("stave thickness", length(spar, sec.thickness)),
-        ("stave width before the notch", length(spar, sec.stave_width)),
+        ("finished diameter (plan)", f"{fig.dress(s.diameter)} ({fig.describe(s.plan_diameter)})"),
+        ("across flats before rounding", fig.describe(sec.across_flats)),
+        ("wall (the bore's)", fig.dress(s.wall)),
+        ("stave thickness", fig.dress(sec.thickness)),
+        ("stave width before the notch", fig.mark_width(sec.stave_width)),
     ]
     if sec.notch:
         phi, other = sec.v_face_angles
         rows += [
-            ("notch depth (along the width)", length(spar, sec.notch.depth)),
-            ("notch apex above the inner face", length(spar, sec.notch.apex_height)),
+            ("notch depth (along the width)", fig.notch_depth(sec.notch.depth)),
+            ("notch apex above the inner face", fig.apex_height(sec.notch.apex_height)),
             ("V faces to the broad face", f"{phi:.2f}° and {other:.2f}° (a 90° V)"),
         ]
     else:
         rows.append(("edge bevel off square", f"{sec.bevel_angle:.2f}°"))
     rows += [
-        ("bore across flats", length(spar, 2 * sec.inner_apothem)),
-        ("wall after rounding, mid-stave", length(spar, sec.flat_wall)),
-        ("wall after rounding, at bore corners", length(spar, sec.corner_wall)),
+        ("bore across flats", fig.describe(2 * sec.inner_apothem)),
+        ("wall after rounding, mid-stave", fig.least(sec.flat_wall)),
+        ("least wall after rounding, over bore and voids", fig.least(sec.least_wall)),
         ("voids inside the round", f"{sec.void_area:.2f} mm²"),
-        ("glue line per joint", length(spar, sec.glue_line)),
+        ("glue line per joint", fig.describe(sec.glue_line)),
         ("wood area", f"{sec.area:,.1f} mm²"),
         ("I of the wall", f"{sec.inertia:,.0f} mm⁴"),
         ("section modulus I/R", f"{sec.modulus:,.0f} mm³"),
         ("plug", s.plug.wood.name if s.plug else "none"),
         ("EI ratio / strength ratio", f"{check.ei_ratio:.3f} / {check.strength_ratio:.3f}"),
+        ("form factor, hollow / plan", f"{check.hollow.form_factor:.3f} / {check.plan.form_factor:.3f}"),
+        ("meets the targets here", "yes" if check.ok else "NO: " + " and ".join(
+            w for w, ok in (("EI", check.ei_ok), ("strength", check.strength_ok)) if not ok)),
     ]
     for label, value in rows:
         table.add_row(label, value)
@@ -203,7 +238,7 @@ def machining_table(spar: Spar, settings: CutterSettings) -> Table:
                   caption=f"{FENCE_NOTE} {GUARD_NOTE}", caption_justify="left")
     table.add_column("", style="bold")
     table.add_column("", justify="right")
-    for row in cutter_rows(spar.units, settings):
+    for row in cutter_rows(Figures(spar), settings):
         if row.heading:
             table.add_section()
             table.add_row(row.label, row.value, style="cyan")
@@ -245,14 +280,14 @@ def candidates_table(spar: Spar, comparison) -> Table:
             table.add_row(str(c.staves), *["—"] * 10, c.verdict(), style="dim")
             continue
         wall = c.spar.hollow.wall
-        up = format_length_up
-        wall_text = (up(wall.largest, spar.units) if wall.is_constant
-                     else f"{up(wall.smallest, spar.units)}–{up(wall.largest, spar.units)}")
+        fig = Figures(c.spar)
+        wall_text = (fig.dress(wall.largest) if wall.is_constant
+                     else f"{fig.dress(wall.smallest)}–{fig.dress(wall.largest)}")
         volume = (f"{c.planed_away / 16387.064:,.0f} in³" if imperial else f"{c.planed_away / 1e6:,.2f} L")
         glue = (f"{c.glue_area / 92903.04:,.1f} ft²" if imperial else f"{c.glue_area / 1e6:,.2f} m²")
         laid_out = c.fits_stock
         table.add_row(
-            str(c.staves), f"{c.assessment.weakest_stiffness.ei_ratio:.3f}", wall_text, length(spar, c.widest),
+            str(c.staves), f"{c.assessment.weakest_stiffness.ei_ratio:.3f}", wall_text, fig.dress(c.widest),
             f"{c.width_over_thickness[0]:.2f}", str(c.rips_per_board) if laid_out else "—",
             f"{c.board_feet:.1f}" if laid_out else "—", volume, glue, str(c.cuts) if laid_out else "—",
             "yes" if c.v_bit_one_pass else "no", "◀ chosen" if chosen else c.verdict(),

@@ -1,4 +1,11 @@
-"""The cut list as CSV: one row per stave segment, in the spar's units (fractions for inches)."""
+"""The cut list as CSV: one row per stave segment, then the order of operations.
+
+Lengths are in the spar's units, each rounded its safe way (:mod:`.figures`):
+tape fractions for an inch spar, each with a decimal twin column so that a
+spreadsheet cannot read ``7/8`` as a date; millimetres for a metric spar. The
+last columns repeat the figures in mm, unrounded, for scripts. A design that
+misses its target says so in the first row, before the header.
+"""
 
 from __future__ import annotations
 
@@ -6,40 +13,84 @@ import csv
 import io
 
 from ..pipeline import Design
-from ..units import format_length, format_plain
+from .figures import Figures
+from .wording import steps_words
+
+FAILS_WORD = "FAILS ITS TARGET"
+
+
+def fails_line(design: Design) -> str:
+    """The warning every template output of a failing design carries, in one line."""
+    return (f"WARNING: this design {FAILS_WORD} ({'; '.join(design.assessment.shortfalls())}). "
+            "Do not build it as drawn.")
+
+
+def _thickest(plan, seg) -> float:
+    """The segment's thickest point (mm): at its ends or at any station between."""
+    zs = [seg.start, seg.end] + [st.z for st in plan.between(seg.start, seg.end)]
+    return max(plan.thickness_at(z) for z in zs)
 
 
 def cutlist_rows(design: Design) -> list[list[str]]:
-    """Header and one row per segment, heel to head, stave by stave."""
+    """(Warning), header and one row per segment, heel to head, stave by stave; then the steps."""
     spar = design.spar
     layout = design.layout
-    units = spar.units
-    unit_word = "ft-in" if units == "in" else "mm"
-    width_word = "in" if units == "in" else "mm"
+    fig = Figures(spar)
+    imperial = fig.units.imperial
+    pos_word = fig.units.position_word
+    len_word = fig.units.length_word
+    m = layout.machining
+    width_passes = [k for k, p in enumerate(m.widest.settings.saw, start=1) if p.follows_blank_width]
 
-    def pos(mm: float) -> str:
-        return format_length(mm, units, tape=True)
+    columns: list[tuple[str, str, callable]] = []  # (heading, kind, value of a segment)
 
-    def size(mm: float) -> str:
-        return format_plain(mm, units)
+    def col(heading: str, kind: str, value) -> None:
+        columns.append((heading, kind, value))
 
-    header = ["stave", "segment", "label", f"from heel ({unit_word})", f"to ({unit_word})",
-              f"length along face ({unit_word})", f"width at heel end ({width_word})",
-              f"width at head end ({width_word})", f"widest ({width_word})", f"rip width ({width_word})",
-              f"thickness ({width_word})", "heel end", "head end", "board",
-              "from_mm", "to_mm", "length_mm", "rip_width_mm"]
-    rows = [header]
     plan = layout.plan
+    setups = {s.label: s for s in m.segments}
+    col(f"from heel ({pos_word})", "position", lambda seg: seg.start)
+    col(f"to ({pos_word})", "position", lambda seg: seg.end)
+    col(f"length along face, cut ({pos_word})", "cut-length", lambda seg: seg.length)
+    col(f"width at heel end ({len_word})", "mark-width", lambda seg: plan.width_at(seg.start))
+    col(f"width at head end ({len_word})", "mark-width", lambda seg: plan.width_at(seg.end))
+    col(f"widest ({len_word})", "mark-width", lambda seg: seg.widest)
+    col(f"blank width ({len_word})", "dress", lambda seg: setups[seg.label].blank.width)
+    col(f"rip width ({len_word})", "dress", lambda seg: setups[seg.label].rough_width)
+    col(f"thickness ({len_word})", "dress", lambda seg: _thickest(plan, seg))
+    for k in width_passes:
+        p = m.widest.settings.saw[k - 1]
+        kind = "fence-nearer" if p.leaves_wood_when_fence_is == "nearer" else "fence-farther"
+        col(f"pass {k} fence ({len_word})", kind,
+            lambda seg, k=k: setups[seg.label].settings.saw[k - 1].fence_distance)
+
+    header = ["stave", "segment", "label"]
+    for heading, kind, _ in columns:
+        header.append(heading)
+        if imperial:
+            header.append(heading.replace(f"({pos_word})", "(decimal in)").replace(f"({len_word})", "(decimal in)"))
+    header += ["heel end", "head end", "board", "from_mm", "to_mm", "length_mm", "rip_width_mm", "thickness_mm"]
+    rows = [[fails_line(design)]] if not design.passed else []
+    rows.append(header)
     boards = layout.board_of
     for seg in layout.segments:
-        rows.append([
-            str(seg.stave), str(seg.index), seg.label, pos(seg.start), pos(seg.end), pos(seg.length),
-            size(plan.width_at(seg.start)), size(plan.width_at(seg.end)), size(seg.widest), size(seg.rough_width),
-            size(max(plan.thickness_at(seg.start), plan.thickness_at(seg.end))),
-            "scarf" if seg.scarf_at_start else "stave end", "scarf" if seg.scarf_at_end else "stave end",
-            boards.get(seg.label, ""),
-            f"{seg.start:.2f}", f"{seg.end:.2f}", f"{seg.length:.2f}", f"{seg.rough_width:.2f}",
-        ])
+        row = [str(seg.stave), str(seg.index), seg.label]
+        for _, kind, value in columns:
+            v = value(seg)
+            row.append(fig.cell(kind, v))
+            if imperial:
+                row.append(fig.decimal(kind, v))
+        row += ["scarf" if seg.scarf_at_start else "stave end", "scarf" if seg.scarf_at_end else "stave end",
+                boards.get(seg.label, ""), f"{seg.start:.2f}", f"{seg.end:.2f}", f"{seg.length:.2f}",
+                f"{setups[seg.label].rough_width:.2f}", f"{_thickest(plan, seg):.2f}"]
+        rows.append(row)
+    rows.append([])
+    rows.append(["order of operations"])
+    for line in steps_words(fig, m.steps):
+        number, text = line.split(". ", 1)
+        rows.append([number, text])
+    for note in m.notes:
+        rows.append(["note", note])
     return rows
 
 

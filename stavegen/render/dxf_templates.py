@@ -39,7 +39,9 @@ from ..layout.segments import Segment
 from ..pipeline import Design
 from ..section.properties import Section, bore_ring
 from ..section.staves import placed
-from ..units import format_length, to_unit
+from ..units import to_unit
+from .csv_cutlist import fails_line
+from .figures import Figures
 from .wording import board_words, dressed_size
 
 Point = tuple[float, float]
@@ -64,6 +66,7 @@ LAYERS: dict[str, tuple[int, int, str]] = {
     "END-ROUND": (1, 25, "end views: the finished round"),
     "END-PLUG": (34, 25, "end views: plug sections at each plug end"),
     "SHEET-NOTES": (250, 18, "title, notes, captions and the check line"),
+    "SHEET-WARNING": (1, 50, "a design that fails its target says so here: do not cut"),
     "BOARD-OUTLINE": (8, 50, "boards of the lumber order at true size (templates on boards): not to cut"),
     "BOARD-RIPS": (8, 18, "the rip lines along each board (templates on boards): not to cut"),
     "TEXT-BOARDS": (8, 18, "board captions: id, size, the segments on it (templates on boards)"),
@@ -222,6 +225,9 @@ class TemplateSheet:
         self.spar = design.spar
         self.layout: Layout = design.layout
         self.units = self.spar.units
+        self.fig = Figures(self.spar)
+        self.passed = design.passed
+        self.fails = fails_line(design) if not design.passed else ""
         self.style = Style.for_units(self.units)
         self.pen = pen
         self.notched = self.layout.plan.stations[0].notch_depth is not None
@@ -229,10 +235,10 @@ class TemplateSheet:
 
     # Text ------------------------------------------------------------------
     def pos(self, z: float) -> str:
-        return format_length(z, self.units, tape=True)
+        return self.fig.position(z)
 
     def size(self, mm: float) -> str:
-        return format_length(mm, self.units)
+        return self.fig.describe(mm)
 
     def where(self, z: float) -> str:
         """A stave end's position: from the heel, or into an end allowance past the heel or the head."""
@@ -244,13 +250,13 @@ class TemplateSheet:
 
     def station_text(self, tick) -> str:
         why = [STATION_WORDS[r] for r in tick.reasons if r in STATION_WORDS]
-        text = f"{self.pos(tick.z)}  {self.size(tick.width)} wide"
+        text = f"{self.pos(tick.z)}  {self.fig.mark_width(tick.width)} wide"
         return text + (f"  ({', '.join(why)})" if why else "")
 
     def description(self, seg: Segment) -> str:
         count = len(self.layout.staves[seg.stave - 1])
         return (f"{seg.label}: stave {seg.stave} of {len(self.layout.staves)}, segment {seg.index} of {count}, "
-                f"from {self.where(seg.start)} to {self.where(seg.end)}, {self.size(seg.length)} along the "
+                f"from {self.where(seg.start)} to {self.where(seg.end)}, {self.fig.cut_length(seg.length)} along the "
                 f"face; heel end at left")
 
     def edge_names(self) -> tuple[str, str]:
@@ -299,7 +305,7 @@ class TemplateSheet:
             pen.line(at(x, a), at(x, b), "MARK-SCARFS")
             if not part.marks_outside:
                 continue
-            note = f"SCARF {self.size(seg.scarf_length)}: slope from the feather line to a feather edge at this end"
+            note = f"SCARF {self.fig.cut_length(seg.scarf_length)}: slope from the feather line to a feather edge at this end"
             note = f"<-- {note}" if tip < x else f"{note} -->"
             pen.text(note, at((x + tip) / 2, bottom - 1.9 * s.text), s.text, "TEXT-LABELS",
                      align=TextEntityAlignment.MIDDLE_CENTER)
@@ -323,6 +329,9 @@ class TemplateSheet:
         h = min(s.label, 0.45 * (hi - lo))
         pen.text(seg.label, at((g[0] + g[1]) / 2, (lo + hi) / 2), h, "TEXT-LABELS",
                  align=TextEntityAlignment.MIDDLE_CENTER)
+        if self.fails:  # on the part itself, inside its outline: every template of a failing design says so
+            pen.text("FAILS ITS TARGET: DO NOT CUT", at((g[0] + g[1]) / 2, lo + 0.15 * (hi - lo)),
+                     min(s.text, 0.2 * (hi - lo)), "SHEET-WARNING", align=TextEntityAlignment.MIDDLE_CENTER)
 
         g = gap(1)
         lo, hi = room(g)
@@ -359,7 +368,7 @@ class TemplateSheet:
             for y in (rip.offset, rip.offset + rip.width):
                 if 1e-6 < y < width - 1e-6:
                     pen.line((x0, top - y), (x0 + length, top - y), "BOARD-RIPS")
-        rips = "; ".join(f"rip {k} {self.size(rip.width)}: " + ", ".join(c.piece.label for c in rip.cuts)
+        rips = "; ".join(f"rip {k} {self.fig.dress(rip.width)}: " + ", ".join(c.piece.label for c in rip.cuts)
                          for k, rip in enumerate(board.rips, start=1))
         pen.text(f"{board.id}: {board_words(board.size, self.units)} board, dressed "
                  f"{dressed_size(board.size, self.units)}. {rips}", (x0, top + 0.8 * s.text), s.text,
@@ -416,11 +425,12 @@ class TemplateSheet:
             self.pen.poly(_shift(outline, *offset), "END-STAVE", closed=True)
 
         caption = [f"STAVE END at the {what}, {self.pos(z)} from the heel",
-                   f"{self.size(section.stave_width)} wide x {self.size(section.thickness)} thick, outer face up"]
+                   f"{self.fig.mark_width(section.stave_width)} wide x {self.fig.dress(section.thickness)} thick, "
+                   "outer face up"]
         if section.notch is not None:
             a, b = section.v_face_angles
-            caption += [f"notch edge at left: V {self.size(section.notch.depth)} deep, "
-                        f"apex {self.size(section.notch.apex_height)} up",
+            caption += [f"notch edge at left: V {self.fig.notch_depth(section.notch.depth)} deep, "
+                        f"apex {self.fig.apex_height(section.notch.apex_height)} up",
                         f"V faces {a:.2f} and {b:.2f} deg to the broad face"]
         else:
             caption += [f"edges bevelled {section.bevel_angle:.2f} deg off square"]
@@ -441,7 +451,7 @@ class TemplateSheet:
 
         caption = [f"ASSEMBLED at the {what}, {self.pos(z)} from the heel",
                    f"{n} staves, {self.size(section.across_flats)} across the flats",
-                   f"finished round {self.size(2 * section.radius)} diameter",
+                   f"finished round {self.fig.dress(2 * section.radius)} diameter",
                    f"bore {self.size(2 * section.inner_apothem)} across the flats"]
         return draw, (-reach, -reach, reach, reach), caption
 
@@ -454,8 +464,8 @@ class TemplateSheet:
             self.pen.poly(_shift(ring, *offset), "END-PLUG", closed=True)
 
         caption = [f"PLUG {index}, {end_name} end, {self.pos(end.z)} from the heel",
-                   f"{n} sides, {self.size(end.across_flats)} across the flats",
-                   f"{self.size(end.across_corners)} across the corners"]
+                   f"{n} sides, {self.fig.dress(end.across_flats)} across the flats",
+                   f"{self.fig.dress(end.across_corners)} across the corners"]
         return draw, (-reach, -reach, reach, reach), caption
 
     # Notes -----------------------------------------------------------------
@@ -484,6 +494,8 @@ class TemplateSheet:
             self.pen.text(line, (left, y), s.text, "SHEET-NOTES")
             y += 1.8 * s.text
         self.pen.text(spar.name.upper(), (left, y + 0.5 * s.text), s.label, "SHEET-NOTES")
+        if self.fails:
+            self.pen.text(self.fails, (left, y + 0.5 * s.text + 2.5 * s.label), s.label, "SHEET-WARNING")
 
 
 def setup_document(units: str):

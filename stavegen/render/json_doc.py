@@ -13,10 +13,13 @@ from ..cautions import CAUTIONS
 from ..checks.ratios import StationCheck
 from ..model.woods import Wood
 from ..pipeline import Design
+from .figures import Figures
+from .wording import step_words
 
 if TYPE_CHECKING:  # for annotations only: the layout loads scipy.optimize, which `check --json` never needs
     from ..layout.lumber import BoardSize, LumberOrder
-    from ..layout.plan import Layout, Machining, StationSettings
+    from ..layout.operations import Machining, StationSettings
+    from ..layout.plan import Layout
     from ..layout.segments import Segment
 
 SCHEMA_VERSION = 1
@@ -53,8 +56,14 @@ def _station(check: StationCheck) -> dict[str, Any]:
         "plan_EI_Nmm2": check.plan.ei,
         "ei_ratio": check.ei_ratio,
         "strength_ratio": check.strength_ratio,
+        "ei_ok": check.ei_ok,
+        "strength_ok": check.strength_ok,
+        "plan_form_factor": check.plan.form_factor,
+        "form_factor": check.hollow.form_factor,
+        "stave_thickness_mm": sec.thickness,
         "void_mm2": sec.void_area,
-        "min_wall_mm": sec.corner_wall,
+        "min_wall_mm": sec.least_wall,
+        "bore_corner_wall_mm": sec.corner_wall,
         "plug": s.plug is not None,
         "plug_wood": s.plug.wood.key if s.plug else None,
         "bore_area_mm2": sec.bore.area,
@@ -99,7 +108,10 @@ def document(design: Design) -> dict[str, Any]:
             "min_ei_ratio_z_mm": weakest.station.z,
             "min_strength_ratio": weakest_strength.strength_ratio,
             "min_strength_ratio_z_mm": weakest_strength.station.z,
-            "strength_target": hollow.min_strength_ratio,
+            "strength_target": result.strength_target,
+            "strength_target_given": hollow.strength_target_given,
+            "stiffness_met": result.stiffness_met,
+            "strength_met": result.strength_met,
             "shortfalls": result.shortfalls(),
         },
         "mass": {
@@ -107,10 +119,14 @@ def document(design: Design) -> dict[str, Any]:
             "plan_kg": result.plan.mass.mass,
             "hollow_cg_mm": result.hollow.mass.centre,
             "plan_cg_mm": result.plan.mass.centre,
-            "saved_kg": result.plan.mass.mass - result.hollow.mass.mass,
+            "saved_kg": result.weight_saved,
+            "saved_share": result.weight_saved_share,
         },
         "beam": {
             "head_load_N": result.head_load,
+            "head_load_given": spar.head_load_given,
+            "plan_head_stiffness_N_per_mm": result.plan.head_stiffness,
+            "hollow_head_stiffness_N_per_mm": result.hollow.head_stiffness,
             "plan_tip_deflection_mm": result.plan.tip_deflection,
             "hollow_tip_deflection_mm": result.hollow.tip_deflection,
             "plan_euler_load_N": result.plan.euler_load,
@@ -120,7 +136,7 @@ def document(design: Design) -> dict[str, Any]:
         "cautions": list(CAUTIONS),
     }
     if design.layout is not None:
-        doc.update(_layout(design.layout))
+        doc.update(_layout(design.layout, Figures(spar)))
     return doc
 
 
@@ -141,7 +157,7 @@ def _segment(seg: Segment, board: str | None) -> dict[str, Any]:
     }
 
 
-def _layout(layout: Layout) -> dict[str, Any]:
+def _layout(layout: Layout, fig: Figures) -> dict[str, Any]:
     plan = layout.plan
     boards = layout.board_of
     return {
@@ -165,7 +181,7 @@ def _layout(layout: Layout) -> dict[str, Any]:
                    "heel_across_corners_mm": p.heel.across_corners, "head_across_flats_mm": p.head.across_flats,
                    "head_across_corners_mm": p.head.across_corners, "volume_mm3": p.volume, "mass_kg": p.mass}
                   for p in layout.plugs],
-        "machining": _machining(layout.machining),
+        "machining": _machining(layout.machining, fig),
         "stock": _stock(layout.lumber),
     }
 
@@ -200,33 +216,43 @@ def _stock(order: LumberOrder) -> dict[str, Any]:
     }
 
 
+def _router(r) -> dict[str, Any] | None:
+    if r is None:
+        return None
+    return {"one_pass_flat": r.one_pass_flat, "wedge_angle_deg": r.wedge_angle, "wedge_high_side": r.wedge_high_side,
+            "rides_on": str(r.on_table), "against_fence": str(r.on_fence), "bit_height_mm": r.bit_height,
+            "fence_to_tip_mm": r.fence_to_tip, "least_bit_diameter_mm": r.least_bit_diameter,
+            "edge_left_mm": r.edge_left}
+
+
+def _pass(p) -> dict[str, Any]:
+    return {"makes": p.makes, "face_angle_deg": p.face_angle, "on_table": str(p.on_table),
+            "on_fence": str(p.on_fence), "tilt_deg": p.tilt, "lean": str(p.lean),
+            "fence_distance_mm": p.fence_distance, "depth_along_blade_mm": p.depth_along_blade,
+            "height_mm": p.height, "kerf_mm": p.kerf, "stave_side": str(p.stave_side), "through": p.through,
+            "follows_blank_width": p.follows_blank_width, "table_contact_mm": p.table_contact,
+            "fence_contact_mm": p.fence_contact}
+
+
 def _settings(at: StationSettings) -> dict[str, Any]:
     c = at.settings
-    router = None
-    if c.router is not None:
-        router = {"one_pass_flat": c.router.one_pass_flat, "wedge_angle_deg": c.router.wedge_angle,
-                  "wedge_high_side": c.router.wedge_high_side, "rides_on": str(c.router.on_table),
-                  "against_fence": str(c.router.on_fence), "bit_height_mm": c.router.bit_height,
-                  "fence_to_tip_mm": c.router.fence_to_tip, "least_bit_diameter_mm": c.router.least_bit_diameter,
-                  "edge_left_mm": c.router.edge_left}
     return {
         "z_mm": at.z,
+        "segment": at.segment,
         "stave_width_mm": at.section.stave_width,
-        "thickness_mm": at.section.thickness,
+        "blank_width_mm": c.blank.width,
+        "thickness_mm": c.blank.thickness,
         "v_face_angles_deg": list(c.v_face_angles) if c.v_face_angles else None,
         "notch_depth_mm": c.notch_depth,
         "apex_height_mm": c.apex_height,
         "bevel_deg": c.bevel,
-        "table_saw": [{"makes": p.makes, "face_angle_deg": p.face_angle, "on_table": str(p.on_table),
-                       "on_fence": str(p.on_fence), "tilt_deg": p.tilt, "lean": str(p.lean),
-                       "fence_distance_mm": p.fence_distance, "depth_along_blade_mm": p.depth_along_blade,
-                       "height_mm": p.height, "through": p.through} for p in c.saw],
-        "router": router,
+        "table_saw": [_pass(p) for p in c.saw],
+        "router": _router(c.router),
     }
 
 
-def _machining(m: Machining) -> dict[str, Any]:
-    """The promised keys at the widest station, then both stations in full."""
+def _machining(m: Machining, fig: Figures) -> dict[str, Any]:
+    """The promised keys at the widest station, both stations in full, every segment's blank, the steps."""
     widest = m.widest.settings
     return {
         "v_face_angles_deg": list(widest.v_face_angles) if widest.v_face_angles else None,
@@ -234,8 +260,20 @@ def _machining(m: Machining) -> dict[str, Any]:
         "apex_height_mm": widest.apex_height,
         "bevel_deg": widest.bevel,
         "notch_varies": m.notch_varies,
+        "method": m.method,
+        "stave_thickness_mm": m.stave_thickness,
+        "kerf_mm": m.kerf,
         "widest": _settings(m.widest),
         "narrowest": _settings(m.narrowest),
+        "segments": [{"label": s.label, "blank_width_mm": s.blank.width, "thickness_mm": s.blank.thickness,
+                      "rough_width_mm": s.rough_width,
+                      "fence_distance_mm": [p.fence_distance for p in s.settings.saw]} for s in m.segments],
+        "per_station": [{"z_mm": p.z, "thickness_mm": p.thickness, "notch_depth_mm": p.notch_depth,
+                         "apex_height_mm": p.apex_height, "router": _router(p.router)} for p in m.per_station],
+        "steps": [{"step": k, "action": st.action, "text": step_words(fig, st),
+                   "figures": {f.name: {"value": f.value, "kind": f.kind} for f in st.figures}}
+                  for k, st in enumerate(m.steps, start=1)],
+        "notes": list(m.notes),
     }
 
 

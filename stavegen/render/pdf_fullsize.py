@@ -31,6 +31,8 @@ from reportlab.pdfgen import canvas as pdfcanvas
 from ..layout.segments import Segment, Tick
 from ..pipeline import Design
 from ..units import MM_PER_INCH, format_length
+from .csv_cutlist import fails_line
+from .figures import Figures
 from .pdf_common import BOLD, FONT, MM, build_date, draw_scale_bar, paper_size, plain, source_name, \
     scale_bar_length
 
@@ -222,7 +224,7 @@ def _own_scarf(design: Design, seg: Segment, tick: Tick) -> bool:
 
 def _tick_marks(design: Design, t: Template) -> list[tuple[Tick, list[str]]]:
     """The ticks to draw on a template, each with its label lines ([] = line only)."""
-    units = design.spar.units
+    fig = Figures(design.spar)
     seg = t.segment
     out: list[tuple[Tick, list[str]]] = []
     last_labelled = -math.inf
@@ -232,15 +234,15 @@ def _tick_marks(design: Design, t: Template) -> list[tuple[Tick, list[str]]]:
         if not reasons - {"scarf", "segment end"} and not own_scarf:
             continue  # another stave's scarf or segment end: nothing to mark on this piece
         if own_scarf and not reasons - {"scarf", "segment end"}:
-            lines = ["scarf centre", format_length(tick.z, units, tape=True)]
+            lines = ["scarf centre", fig.position(tick.z)]
         else:
-            where = format_length(tick.z, units, tape=True)
+            where = fig.position(tick.z)
             if "heel" in reasons:
                 where = f"heel {where}"
             elif "head" in reasons:
                 where = f"head {where}"
             note = " plug end" if "plug" in reasons and not reasons & {"heel", "head"} else ""
-            lines = [where, f"width {format_length(tick.width, units)}{note}"]
+            lines = [where, f"width {fig.mark_width(tick.width)}{note}"]
         if tick.x - last_labelled < TICK_LABEL_GAP:
             lines = []
         else:
@@ -376,6 +378,11 @@ def _header(c, design: Design, sheet_: Sheet, title: str, right: str, detail: st
     c.setFont(FONT, 6.5)
     c.drawString(x0, y1 - 20, plain(detail))
     c.drawString(x0, y1 - 28, plain(f"{spar.name}  |  {source_name(spar)}  |  built {build_date()}"))
+    if not design.passed:
+        c.setFillColorRGB(0.75, 0.08, 0.08)
+        c.setFont(BOLD, 7.5)
+        c.drawString(x0, y1 - 38, plain(fails_line(design))[:150])
+        c.setFillGray(0)
     c.setFont(BOLD, 18)
     c.drawRightString(x1, y1 - 18, right)
     bar, words, _ = scale_bar_length(spar)
@@ -533,7 +540,7 @@ def pages_of(sheet_: Sheet, place: Placement) -> list[Tile]:
 
 
 def _template_table(c, design: Design, sheet_: Sheet, x: float, y: float) -> None:
-    units = design.spar.units
+    fig = Figures(design.spar)
     cols = [("template", 0), ("serves", 34), ("mark out", 190), ("from heel", 228), ("to", 282),
             ("length along face", 336), ("widest", 410), ("rip width", 456), ("pages", 504)]
     c.setFont(BOLD, 7.5)
@@ -549,9 +556,8 @@ def _template_table(c, design: Design, sheet_: Sheet, x: float, y: float) -> Non
         seg = t.segment
         tiles = pages_of(sheet_, place)
         cells = [seg.label, ", ".join(t.labels), str(len(t.labels)),
-                 format_length(seg.start, units, tape=True), format_length(seg.end, units, tape=True),
-                 format_length(seg.length, units, tape=True), format_length(seg.widest, units),
-                 format_length(seg.rough_width, units),
+                 fig.position(seg.start), fig.position(seg.end), fig.cut_length(seg.length),
+                 fig.mark_width(seg.widest), fig.dress(design.layout.machining.setup_of(seg.label).rough_width),
                  f"{tiles[0].name} to {tiles[-1].name} (pages {tiles[0].page} to {tiles[-1].page})"]
         serves = _wrap(c, cells[1], 150, FONT, 7.5)
         for (_, dx), cell in zip(cols, cells):

@@ -34,11 +34,12 @@ from ..pipeline import Design
 from ..section.properties import Section, bore_ring
 from ..section.staves import placed
 from ..stations.grid import MERGE_TOLERANCE
-from ..units import MM_PER_FOOT, MM_PER_INCH, N_PER_LBF, format_force, format_length, format_mass, format_plain
-from .csv_cutlist import cutlist_rows
+from ..units import MM_PER_FOOT, MM_PER_INCH, N_PER_LBF, format_force, format_mass
+from .csv_cutlist import FAILS_WORD, cutlist_rows
+from .figures import Figures
 from .pdf_common import BOLD, FONT, ITALIC, MM, build_date, paper_size, plain, source_name
 from .wording import (FENCE_NOTE, GUARD_NOTE, board_feet_words, board_length, board_words, cutter_rows,
-                      dressed_size, nominal_size, order_words, volume_words)
+                      dressed_size, nominal_size, order_words, steps_words, volume_words)
 
 MARGIN = 15 * MM
 WOOD = colors.Color(0.93, 0.87, 0.74)
@@ -87,17 +88,27 @@ class Report:
     def layout(self):
         return self.design.layout
 
+    @property
+    def fig(self) -> Figures:
+        return Figures(self.spar)
+
     def length(self, mm: float | None, tape: bool = False) -> str:
-        return "-" if mm is None else format_length(mm, self.spar.units, tape)
-
-    def where(self, mm: float) -> str:
-        return format_length(mm, self.spar.units, tape=True)
-
-    def cell(self, mm: float | None, tape: bool = False) -> str:
-        """A length for a table column whose header carries the unit: bare mm figures, or inches as read."""
+        """A length that only describes (nearest on the grid)."""
         if mm is None:
             return "-"
-        return format_plain(mm, "mm") if self.spar.units == "mm" else format_length(mm, "in", tape)
+        return self.fig.position(mm) if tape else self.fig.describe(mm)
+
+    def where(self, mm: float) -> str:
+        return self.fig.position(mm)
+
+    def cell(self, mm: float | None, kind: str = "describe") -> str:
+        """A length for a table column whose header carries the unit, rounded as ``kind`` is."""
+        if mm is None:
+            return "-"
+        if self.spar.units == "in":
+            value = self.fig.by_kind(kind, mm)
+            return value
+        return self.fig.cell(kind, mm)
 
     @property
     def unit_note(self) -> str:
@@ -150,15 +161,20 @@ def title_and_verdict(r: Report) -> list:
     h = spar.hollow
     a = r.design.assessment
     wall = h.wall
-    wall_text = r.length(wall.largest) if wall.is_constant else f"{r.length(wall.smallest)} to {r.length(wall.largest)}"
+    fig = r.fig
+    wall_text = fig.dress(wall.largest) if wall.is_constant else f"{fig.dress(wall.smallest)} to {fig.dress(wall.largest)}"
     sub = (f"{r.where(spar.length)} long, heel to head.  Plan: solid {spar.plan.wood.name}.  "
            f"Hollow: {h.staves} staves of {h.wood.name}, {h.joint.kind} joint, wall {wall_text}.")
     w, s = a.weakest_stiffness, a.weakest_strength
     least = (f"Least E·I ratio {w.ei_ratio:.3f} at {r.where(w.station.z)} from the heel (target {a.ei_target:.3f}); "
-             f"least strength ratio {s.strength_ratio:.3f} at {r.where(s.station.z)}.")
+             f"least strength ratio {s.strength_ratio:.3f} at {r.where(s.station.z)} (target "
+             f"{a.strength_target:.3f}).")
     if r.design.passed:
+        strong = ("at least as strong" if not a.strength_accepted_below_plan else
+                  f"at least {a.strength_target:g} times as strong (the spar file accepts less than the plan's "
+                  f"strength)")
         head = (f"<b>{PASS_WORD}</b>: the hollow spar is at least as stiff as the plan at every station, "
-                f"with the margin asked. ")
+                f"with the margin asked, and {r.t(strong)}. ")
         colour = PASS_GREEN
         body = r.t(least)
     else:
@@ -169,8 +185,17 @@ def title_and_verdict(r: Report) -> list:
     verdict.setStyle(TableStyle([("BACKGROUND", (0, 0), (-1, -1), colour),
                                  ("LEFTPADDING", (0, 0), (-1, -1), 7), ("RIGHTPADDING", (0, 0), (-1, -1), 7),
                                  ("TOPPADDING", (0, 0), (-1, -1), 5), ("BOTTOMPADDING", (0, 0), (-1, -1), 6)]))
-    return [Paragraph(r.t(f"{spar.name}: hollow spar shop report"), r.styles["title"]),
-            r.p(r.t(sub)), Spacer(1, 6), verdict, Spacer(1, 8)]
+    out = [Paragraph(r.t(f"{spar.name}: hollow spar shop report"), r.styles["title"]),
+           r.p(r.t(sub)), Spacer(1, 6), verdict, Spacer(1, 4)]
+    if a.strength_accepted_below_plan:
+        out.append(r.p("<b>" + r.t(f"Weaker than the plan by choice: the spar file sets min_strength_ratio = "
+                                   f"{a.strength_target:g}, so this spar is accepted with as little as "
+                                   f"{100 * a.strength_target:.0f} % of the plan's bending strength. That is the "
+                                   f"builder's decision, not stavegen's: ask a qualified designer.") + "</b>"))
+    if not r.design.passed:
+        out.append(r.p("<b>" + r.t(f"This design {FAILS_WORD}: its templates, full-size pages and cut list are "
+                                   "marked so, and must not be cut as they stand.") + "</b>"))
+    return out + [Spacer(1, 8)]
 
 
 def cautions(r: Report) -> list:
@@ -199,14 +224,14 @@ def summary(r: Report) -> list:
         ["plan (the stiffness target)", f"solid {spar.plan.wood.name}, diameter {r.length(spar.plan.diameter.smallest)}"
                                         f" to {r.length(spar.plan.diameter.largest)}"],
         ["hollow spar", f"{h.staves} staves of {h.wood.name}, {h.joint.kind} joint, finished diameter "
-                        f"{r.length(h.diameter.smallest)} to {r.length(h.diameter.largest)}"],
+                        f"{r.fig.dress(h.diameter.smallest)} to {r.fig.dress(h.diameter.largest)}"],
         ["allowances", f"planing {r.length(h.planing_allowance)} on the radius, {r.length(h.end_allowance)} at "
                        f"each stave end; lamination factor {h.lamination_factor:g}, EI margin {100 * h.margin:g} %"],
     ]
     if lay is not None:
         per = sorted({len(c) for c in lay.scarfs.centres})
         per_text = " or ".join(str(n) for n in per)
-        scarf_text = (f"{lay.scarfs.count} in all ({per_text} per stave), each {r.length(lay.scarfs.length)} long"
+        scarf_text = (f"{lay.scarfs.count} in all ({per_text} per stave), each {r.fig.cut_length(lay.scarfs.length)} long"
                       if lay.scarfs.count else "none: every stave is one piece")
         rows += [
             ["scarfs", f"{scarf_text}; {len(lay.segments)} segments to cut"],
@@ -224,24 +249,34 @@ def summary(r: Report) -> list:
                   colWidths=[38 * MM, r.width - 38 * MM], hAlign="LEFT")
     facts.setStyle(TableStyle([("VALIGN", (0, 0), (-1, -1), "TOP"), ("TOPPADDING", (0, 0), (-1, -1), 1),
                                ("BOTTOMPADDING", (0, 0), (-1, -1), 1), ("LEFTPADDING", (0, 0), (-1, -1), 0)]))
-    saved = a.plan.mass.mass - a.hollow.mass.mass
+    saved = a.weight_saved
+    stiff_unit, per = ("lbf/in", MM_PER_INCH / N_PER_LBF) if units == "in" else ("N/mm", 1.0)
+    load_words = format_force(a.head_load, units)
     whole = [
         ["the whole spar", "plan (solid)", "hollow", "hollow / plan"],
         ["weight", format_mass(a.plan.mass.mass, units), format_mass(a.hollow.mass.mass, units),
-         f"{a.hollow.mass.mass / a.plan.mass.mass:.3f}"],
+         f"{a.compared('mass'):.3f}"],
         ["centre of gravity from the heel", r.where(a.plan.mass.centre), r.where(a.hollow.mass.centre),
-         f"{a.hollow.mass.centre / a.plan.mass.centre:.3f}"],
-        [f"head deflection, {format_force(a.head_load, units)} sideways, heel held",
-         r.length(a.plan.tip_deflection), r.length(a.hollow.tip_deflection),
-         f"{a.hollow.tip_deflection / a.plan.tip_deflection:.3f}"],
+         f"{a.compared('centre'):.3f}"],
+        ["head stiffness: sideways load per unit of head deflection, heel held",
+         f"{a.plan.head_stiffness * per:,.1f} {stiff_unit}", f"{a.hollow.head_stiffness * per:,.1f} {stiff_unit}",
+         f"{a.compared('head_stiffness'):.3f}"],
+        [f"head deflection under {load_words} sideways, heel held", r.length(a.plan.tip_deflection),
+         r.length(a.hollow.tip_deflection), f"{a.compared('deflection'):.3f}"],
         ["Euler load, heel fixed, head free", format_force(a.plan.euler_load, units),
-         format_force(a.hollow.euler_load, units), f"{a.hollow.euler_load / a.plan.euler_load:.3f}"],
+         format_force(a.hollow.euler_load, units), f"{a.compared('euler'):.3f}"],
     ]
-    saving = (f"Weight saved: {format_mass(saved, units)} ({100 * saved / a.plan.mass.mass:.0f} % of the plan's)."
+    saving = (f"Weight saved: {format_mass(saved, units)} ({100 * a.weight_saved_share:.0f} % of the plan's)."
               if saved >= 0 else f"The hollow spar is {format_mass(-saved, units)} heavier than the plan.")
+    load_note = (f"The head load, {load_words}, is the one the spar file names (spar.head_load)"
+                 if spar.head_load_given else
+                 f"The head load, {load_words}, is a reference load, not a rig load (stavegen computes none; set "
+                 f"spar.head_load to use your own)")
+    load_note += ("; deflection grows in proportion to it, so the hollow / plan ratios and the head stiffness do "
+                  "not depend on it.")
     out = [r.h2("Summary"), facts, Spacer(1, 6),
-           _table([[plain(c) for c in row] for row in whole], widths=[70 * MM, 32 * MM, 32 * MM, 26 * MM]),
-           Spacer(1, 3), r.p(r.t(saving))]
+           _table([[plain(c) for c in row] for row in whole], widths=[78 * MM, 30 * MM, 30 * MM, 22 * MM]),
+           Spacer(1, 3), r.p(r.t(saving)), r.p(r.t(load_note), "small")]
     notes = [f"solved: {line}" for line in r.design.solved] + [f"warning: {line}" for line in r.design.warnings]
     for note in notes:
         out.append(r.p(r.t(note), "small"))
@@ -267,7 +302,6 @@ STATION_ROWS_PER_TABLE = 200  # an even number: the stripes run on across blocks
 
 def station_table(r: Report) -> list:
     a = r.design.assessment
-    target = a.ei_target
     least_ei, least_strength = a.weakest_stiffness, a.weakest_strength
     u = r.unit_note
     head = [f"from heel{u}", "plan\nOD", "finished\nOD", "wall", "stave width\nfinished", "stave width\nrough",
@@ -280,21 +314,24 @@ def station_table(r: Report) -> list:
         s = c.station
         sec = s.section
         note = []
-        if c.ei_ratio < target - 1e-12:
-            note.append("SHORT")
+        if not c.ei_ok:
+            note.append("SHORT: EI")
+        if not c.strength_ok:
+            note.append("SHORT: strength")
         if c is least_ei:
             note.append("least EI")
         if c is least_strength:
             note.append("least strength")
-        rows.append([r.cell(s.z, tape=True), r.cell(s.plan_diameter), r.cell(s.diameter), r.cell(s.wall),
-                     r.cell(sec.stave_width), r.cell(_rough_width(r, s.z)),
-                     r.cell(sec.notch.depth if sec.notch else None),
-                     r.cell(sec.notch.apex_height if sec.notch else None),
+        rows.append([r.cell(s.z, "position"), r.cell(s.plan_diameter), r.cell(s.diameter, "dress"),
+                     r.cell(s.wall, "dress"), r.cell(sec.stave_width, "mark-width"),
+                     r.cell(_rough_width(r, s.z), "dress"),
+                     r.cell(sec.notch.depth if sec.notch else None, "notch-depth"),
+                     r.cell(sec.notch.apex_height if sec.notch else None, "apex-height"),
                      f"{c.ei_ratio:.3f}", f"{c.strength_ratio:.3f}", "yes" if s.plug else "",
                      "\n".join(note)])
         if note:
-            marks.append((i, "SHORT" in note))
-    widths = [18, 14, 15, 13, 17, 17, 14, 14, 12, 14, 9, 22]
+            marks.append((i, not c.ok))
+    widths = [18, 14, 15, 13, 17, 17, 14, 14, 12, 14, 9, 24]
     scale = r.width / (sum(widths) * MM)
     tables = []
     # Blocks of rows, each its own table with the header: reportlab measures every row left each time a
@@ -310,11 +347,19 @@ def station_table(r: Report) -> list:
                                           ([("TEXTCOLOR", (0, j), (-1, j), FAIL_RED)] if short else [])))
         tables.append(table)
     rough = ("Rough width adds the edge allowance jointed off each edge. " if r.layout is not None else "")
+    ff = least_strength.hollow.form_factor
+    form = (f"Strength ratio compares the moment each section carries at rupture, MOR x S x F, where F is the "
+            f"bending form factor: {least_strength.plan.form_factor:.2f} for the plan's solid round (Newlin and "
+            f"Trayer, NACA Report 181, 1924, from memory - verify) and, for the hollow section, interpolated on "
+            f"its plastic shape factor between the rectangle (1.00) and the solid round, {ff:.3f} at the least "
+            f"strength station: a hollow round is credited with less than a solid one.")
     return [PageBreak(), r.h2("Station by station against the plan"),
             r.p(r.t(f"Positions from the heel of the finished spar. Stave widths are across the broad face before "
-                    f"the notch is cut. {rough}Notch depth is along the width from the notched edge to the V's "
-                    f"apex; apex height is above the stave's inner face. EI ratio target "
-                    f"{target:.3f}."), "small"), Spacer(1, 4), *tables]
+                    f"the notch is cut, rounded down (narrower staves close a smaller bore; see the templates for "
+                    f"the exact line); walls, diameters and rough widths are rounded up. {rough}Notch depth is along "
+                    f"the width from the notched edge to the V's apex; apex height is above the stave's inner face. "
+                    f"EI ratio target {a.ei_target:.3f}; strength ratio target {a.strength_target:.3f}. {form}"),
+                "small"), Spacer(1, 4), *tables]
 
 
 # Section drawing ------------------------------------------------------------------------------------------------
@@ -383,11 +428,12 @@ def section_drawing(r: Report) -> list:
     k = MM * sa / sb
     half = reach_mm * k
     notes = [
-        f"{n} staves, {sec.joint}; finished OD {r.length(2 * R)}: the heavy circle (pale: wood taken off in "
+        f"{n} staves, {sec.joint}; finished OD {r.fig.dress(2 * R)}: the heavy circle (pale: wood taken off in "
         f"rounding)",
         f"across flats before rounding {r.length(sec.across_flats)}",
-        f"stave thickness (wall) {r.length(sec.thickness)}",
-        f"wall after rounding: {r.length(sec.flat_wall)} mid-stave, {r.length(sec.corner_wall)} at the bore's corners",
+        f"stave thickness {r.fig.dress(sec.thickness)}, wall {r.fig.dress(check.station.wall)}",
+        f"wall after rounding: {r.fig.least(sec.flat_wall)} mid-stave, at least {r.fig.least(sec.least_wall)} over "
+        f"the bore's corners and any voids",
         f"bore across flats {r.length(2 * sec.inner_apothem)}" + ("; plugged here (grey)" if check.station.plug else ""),
         f"scale {_scale_words(sa, sb)} when printed at 100 %",
     ]
@@ -410,9 +456,9 @@ def section_drawing(r: Report) -> list:
     d.add(Line(cx - 4, cy, cx + 4, cy, strokeWidth=0.3))
     d.add(Line(cx, cy - 4, cx, cy + 4, strokeWidth=0.3))
     # OD across the centre, the wall through the top stave.
-    _dim(d, (cx - R * k, cy), (cx + R * k, cy), f"OD {r.length(2 * R)}", (cx - R * k / 2, cy + 4))
+    _dim(d, (cx - R * k, cy), (cx + R * k, cy), f"OD {r.fig.dress(2 * R)}", (cx - R * k / 2, cy + 4))
     _dim(d, (cx, cy + sec.inner_apothem * k), (cx, cy + sec.outer_apothem * k),
-         f"wall {r.length(sec.thickness)}", (cx + 4, cy + (sec.inner_apothem + sec.outer_apothem) / 2 * k - 2.5),
+         f"stave {r.fig.dress(sec.thickness)}", (cx + 4, cy + (sec.inner_apothem + sec.outer_apothem) / 2 * k - 2.5),
          anchor="start")
     _check_bar(d, 0, 4, r, k)
     half_rows = math.ceil(len(notes) / 2)
@@ -447,12 +493,12 @@ def _stave_detail(r: Report, sec: Section) -> list:
     _ext(d, *P(xl, f.outer), P(xl, 0)[0], top + 3)
     _ext(d, *P(xr, f.outer), P(xr, 0)[0], top + 3)
     words = "before the notch" if sec.notch is not None else "outer face"
-    _dim(d, (P(xl, 0)[0], top), (P(xr, 0)[0], top), f"stave width {r.length(w)} ({words})",
+    _dim(d, (P(xl, 0)[0], top), (P(xr, 0)[0], top), f"stave width {r.fig.mark_width(w)} ({words})",
          ((P(xl, 0)[0] + P(xr, 0)[0]) / 2, top + 4))
     right = P(xr, 0)[0] + 14
     _ext(d, *P(xr, f.outer), right + 3, P(0, f.outer)[1])
     _ext(d, *P(xr, f.inner), right + 3, P(0, f.inner)[1])
-    _dim(d, (right, P(0, f.inner)[1]), (right, P(0, f.outer)[1]), f"thickness {r.length(t)}",
+    _dim(d, (right, P(0, f.inner)[1]), (right, P(0, f.outer)[1]), f"thickness {r.fig.dress(t)}",
          (right + 5, (P(0, f.inner)[1] + P(0, f.outer)[1]) / 2 - 2.5), anchor="start")
     notes = []
     if sec.notch is not None and f.apex is not None:
@@ -460,12 +506,12 @@ def _stave_detail(r: Report, sec: Section) -> list:
         bottom = P(0, f.inner)[1] - 14
         _ext(d, P(xl, 0)[0], P(0, f.outer)[1], P(xl, 0)[0], bottom - 3)
         _ext(d, *P(ax, ay), P(ax, 0)[0], bottom - 3)
-        _dim(d, (P(xl, 0)[0], bottom), (P(ax, 0)[0], bottom), f"notch depth {r.length(sec.notch.depth)}",
+        _dim(d, (P(xl, 0)[0], bottom), (P(ax, 0)[0], bottom), f"notch depth {r.fig.notch_depth(sec.notch.depth)}",
              (P(ax, 0)[0] + 6, bottom - 2.5), anchor="start")
         left = P(xl, 0)[0] - 14
         _ext(d, *P(ax, ay), left - 3, P(0, ay)[1])
         _ext(d, *P(xl, f.inner), left - 3, P(0, f.inner)[1])
-        _dim(d, (left, P(0, f.inner)[1]), (left, P(0, ay)[1]), f"apex {r.length(sec.notch.apex_height)}",
+        _dim(d, (left, P(0, f.inner)[1]), (left, P(0, ay)[1]), f"apex {r.fig.apex_height(sec.notch.apex_height)}",
              (left - 5, (P(0, f.inner)[1] + P(0, ay)[1]) / 2 - 2.5), anchor="end")
         phi, other = sec.v_face_angles
         notes.append(f"The V is 90°: its faces lie at {phi:.2f}° and {other:.2f}° to the broad face. "
@@ -593,33 +639,41 @@ def ei_plot(r: Report) -> list:
 
 # Cut list, scarf map, plugs --------------------------------------------------------------------------------------
 
-# Columns of ``cutlist_rows`` the report shows, by their index in the CSV header (label to head end).
-_CUT_COLUMNS = (2, 3, 4, 5, 6, 7, 8, 9, 10, 11, 12)
-_BOARD_COLUMN = 13
+# Columns of ``cutlist_rows`` the report shows, by the start of their header (the decimal twins are left out).
+_CUT_COLUMNS = ("label", "from heel", "to (", "length along face", "width at heel end", "width at head end",
+                "widest", "blank width", "rip width", "thickness (", "heel end", "head end")
+_BOARD_COLUMN = "board"
 
 
 def cut_list(r: Report) -> list:
     if r.layout is None:
         return []
     rows = cutlist_rows(r.design)
-    header, body = rows[0], rows[1:]
-    columns = list(_CUT_COLUMNS) + ([_BOARD_COLUMN] if r.layout.lumber is not None else [])
-    head = [header[i].replace(" (", "\n(").replace("length along face", "length along\nface")
+    if not r.design.passed:
+        rows = rows[1:]  # the warning row: page 1 says it
+    header = rows[0]
+    body = [row for row in rows[1:rows.index([])]]
+    wanted = list(_CUT_COLUMNS) + ([_BOARD_COLUMN] if r.layout.lumber is not None else [])
+    columns = [next(i for i, h in enumerate(header) if h.startswith(w) and "decimal" not in h) for w in wanted]
+    head = [header[i].replace(" (", "\n(").replace("length along face, cut", "length along\nface, cut")
             .replace("width at heel end", "width at\nheel end").replace("width at head end", "width at\nhead end")
             for i in columns]
     table_rows = [head] + [[row[i] for i in columns] for row in body]
-    widths = [14, 20, 20, 20, 15, 15, 14, 14, 15, 17, 17] + ([10] if r.layout.lumber is not None else [])
+    widths = [12, 17, 17, 18, 13, 13, 12, 13, 13, 13, 16, 16] + ([10] if r.layout.lumber is not None else [])
     scale = r.width / (sum(widths) * MM)
     table = _table([[plain(c) for c in row] for row in table_rows], widths=[w * MM * scale for w in widths])
     lay = r.layout
     first_rows = [i for i, row in enumerate(body, start=1) if row[1] == "1"]
     table.setStyle(TableStyle([("LINEABOVE", (0, i), (-1, i), 0.4, RULE) for i in first_rows[1:]] +
-                              [("ALIGN", (9, 0), (-1, -1), "LEFT"), ("LEFTPADDING", (9, 0), (9, -1), 8)]))
+                              [("ALIGN", (10, 0), (-1, -1), "LEFT"), ("LEFTPADDING", (10, 0), (10, -1), 8)]))
     return [CondPageBreak(200), r.h2("Cut list: every stave segment"),
             r.p(r.t(f"Heel end first, stave by stave. Positions from the heel of the finished spar (negative in "
-                    f"the heel's end allowance); lengths along the stave's face. Widths are finished, before the "
-                    f"notch; rip width adds {r.length(lay.plan.edge_allowance)} on each edge for jointing. Scarfed "
-                    f"ends are feathered over {r.length(lay.scarfs.length)}."), "small"),
+                    f"the heel's end allowance); lengths along the stave's face, rounded up. Widths are finished, "
+                    f"before the notch, rounded down; the blank is the parallel piece the notch is cut on (widest "
+                    f"plus {r.length(lay.plan.edge_allowance)} for the square edge), the rip width adds as much again "
+                    f"for jointing; thickness is the segment's thickest point; all three rounded up. Scarfed ends "
+                    f"are feathered over {r.fig.cut_length(lay.scarfs.length)}. The CSV cut list also gives each "
+                    f"segment's fence for the passes set from its square edge."), "small"),
             Spacer(1, 4), table]
 
 
@@ -688,7 +742,7 @@ def scarf_map(r: Report) -> list:
                    align_right_from=9)
     return [CondPageBreak(height + 80), r.h2("Scarf map"),
             r.p(r.t(f"Each bar is one stave, heel to head with its end allowances; the black blocks are the scarfs "
-                    f"({lay.scarfs.count} in all, each {r.length(lay.scarfs.length)} long), the red lines their "
+                    f"({lay.scarfs.count} in all, each {r.fig.cut_length(lay.scarfs.length)} long), the red lines their "
                     f"centres. Shaded: ranges where no scarf may fall. Neighbouring staves' scarfs are staggered."),
                 "small"), Spacer(1, 4), d, Spacer(1, 4), table]
 
@@ -704,9 +758,10 @@ def plugs(r: Report) -> list:
              f"heel end\nacross\ncorners{u}", f"head end\nacross\nflats{u}", f"head end\nacross\ncorners{u}",
              "weight"]]
     for p in lay.plugs:
-        rows.append([str(p.index), r.cell(p.plug.start, True), r.cell(p.plug.end, True), r.cell(p.length, True),
-                     p.plug.wood.name, r.cell(p.heel.across_flats), r.cell(p.heel.across_corners),
-                     r.cell(p.head.across_flats), r.cell(p.head.across_corners), format_mass(p.mass, units)])
+        rows.append([str(p.index), r.cell(p.plug.start, "position"), r.cell(p.plug.end, "position"),
+                     r.cell(p.length, "cut-length"), p.plug.wood.name, r.cell(p.heel.across_flats, "dress"),
+                     r.cell(p.heel.across_corners, "dress"), r.cell(p.head.across_flats, "dress"),
+                     r.cell(p.head.across_corners, "dress"), format_mass(p.mass, units)])
     widths = [10, 18, 16, 18, 26, 20, 20, 20, 20, 13]
     scale = r.width / (sum(widths) * MM)
     table = _table([[plain(c) for c in row] for row in rows], widths=[w * MM * scale for w in widths])
@@ -831,13 +886,13 @@ def _board_drawing(r: Report, board, b_len: float, b_wid: float) -> Drawing:
             x0, x1 = cut.offset * kx, (cut.offset + piece.length) * kx
             d.add(Rect(x0, y1 - piece.width * ky, x1 - x0, piece.width * ky, fillColor=WOOD,
                        strokeColor=colors.black, strokeWidth=0.6))
-            words = f"{piece.label}  {r.length(piece.length, tape=True)}"
+            words = f"{piece.label}  {r.fig.cut_length(piece.length)}"
             size = min(7.0, 0.6 * piece.width * ky)
             if not _fit(words, size, x1 - x0 - 4):
                 words = piece.label
             d.add(String((x0 + x1) / 2, y1 - piece.width * ky / 2 - size * 0.35, plain(words), fontName=FONT,
                          fontSize=size, textAnchor="middle"))
-        d.add(String(l_pt + 4, (y0 + y1) / 2 - 2.3, plain(f"rip {k}: {r.length(rip.width)}"), fontName=FONT,
+        d.add(String(l_pt + 4, (y0 + y1) / 2 - 2.3, plain(f"rip {k}: {r.fig.dress(rip.width)}"), fontName=FONT,
                      fontSize=6.5))
     return d
 
@@ -861,29 +916,47 @@ def cutting_diagrams(r: Report) -> list:
 # Cutter settings ------------------------------------------------------------------------------------------
 
 
+def order_of_operations(r: Report) -> list:
+    lay = r.layout
+    if lay is None:
+        return []
+    m = lay.machining
+    out = [CondPageBreak(200), r.h2("Order of operations"),
+           r.p(r.t("From the boards to the round spar, in this order; each setting serves a whole segment. The cut "
+                   "list gives each segment's blank width and the fence of every pass that follows it. "
+                   f"{GUARD_NOTE}"), "small"), Spacer(1, 4)]
+    for line in steps_words(r.fig, m.steps):
+        number, text = line.split(". ", 1)
+        out.append(KeepTogether([Paragraph(r.t(text), r.styles["body"], bulletText=f"{number}."), Spacer(1, 2)]))
+    for note in m.notes:
+        out.append(r.p("<b>" + r.t(f"Note: {note}") + "</b>"))
+    return out + [Spacer(1, 6)]
+
+
 def cutter_settings(r: Report) -> list:
     lay = r.layout
     if lay is None or lay.machining is None:
         return []
     m = lay.machining
-    units = r.spar.units
     stations = (("widest", m.widest), ("narrowest", m.narrowest))
-    listed = [cutter_rows(units, at.settings) for _, at in stations]
-    first = [["stave before the notch" if at.settings.v_face_angles else "stave, outer face",
-              f"{r.length(at.section.stave_width)} wide x {r.length(at.section.thickness)} thick"]
-             for _, at in stations]
+    listed = [cutter_rows(r.fig, at.settings) for _, at in stations]
+    first = [["stave at this station" if at.settings.v_face_angles else "stave, outer face",
+              f"{r.fig.mark_width(at.section.stave_width)} wide x {r.fig.dress(at.section.thickness)} thick, "
+              f"from blank {at.segment}"] for _, at in stations]
     heads = [f"at the widest stave, {r.where(m.widest.z)} from the heel",
              f"at the narrowest stave, {r.where(m.narrowest.z)} from the heel"]
     if m.notch_varies:
-        varies = ("The notch changes along the spar with the wall: between these two stations set the cutter for "
-                  "each stretch from the notch depth and apex height in the station table.")
+        varies = ("The notch changes along the stave with the wall: no fixed set-up cuts it (see the order of "
+                  "operations and the station table).")
     elif m.widest.settings.v_face_angles:
-        varies = "The notch is the same all along the spar; only the stave width changes."
+        varies = ("The notch is the same all along the spar, set once; only the blank width changes from segment "
+                  "to segment, and with it the fence of a pass against the square edge.")
     else:
-        varies = "The bevel is the same all along the spar; only the stave width changes."
+        varies = ("The bevel is the same all along the spar; only the blank width changes from segment to segment, "
+                  "and with it the fence of a pass against edge 2.")
     either = (" Cut the V either on the table saw, pass by pass in the order given, or on the router table in one "
               "pass." if m.widest.settings.router is not None else " Cut the passes in the order given.")
-    text = (f"How to cut the stave at the widest and the narrowest station.{either} "
+    text = (f"How to cut the notch into the blank of the segment holding the widest and the narrowest station.{either} "
             f"{varies} {FENCE_NOTE} {GUARD_NOTE}")
     out = [CondPageBreak(260), r.h2("Cutter settings"), r.p(r.t(text), "small"), Spacer(1, 4)]
     same = [row.label for row in listed[0]] == [row.label for row in listed[1]]
@@ -908,12 +981,22 @@ def cutter_settings(r: Report) -> list:
                                       ("BACKGROUND", (0, i), (-1, i), colors.Color(0.88, 0.92, 0.97)),
                                       ("LINEABOVE", (0, i), (-1, i), 0.4, RULE))]))
         out += [table, Spacer(1, 6)]
+    if m.per_station:
+        rows = [["from heel", "stave\nthickness", "notch\ndepth", "apex\nheight", "V-bit tip\nfrom fence",
+                 "V-bit tip\nabove edge"]]
+        for p in m.per_station:
+            rows.append([r.cell(p.z, "position"), r.cell(p.thickness, "dress"), r.cell(p.notch_depth, "notch-depth"),
+                         r.cell(p.apex_height, "apex-height"), r.cell(p.router.fence_to_tip),
+                         r.cell(p.router.bit_height, "blade")])
+        out += [r.p(r.t("The notch station by station, for a CNC router with a 90° V-bit (tip from the outer face "
+                        "and above the notched edge, along the bit's axis):"), "small"),
+                _table([[plain(c) for c in row] for row in rows]), Spacer(1, 6)]
     return out
 
 
 # The report's parts, in order.
 SECTIONS: tuple[Section_, ...] = (title_and_verdict, cautions, summary, station_table, section_drawing, ei_plot,
-                                  cut_list, board_order, scarf_map, cutter_settings, plugs)
+                                  cut_list, board_order, scarf_map, order_of_operations, cutter_settings, plugs)
 
 
 # Pages ---------------------------------------------------------------------------------------------------------

@@ -15,14 +15,18 @@ from dataclasses import dataclass
 from typing import TYPE_CHECKING
 
 from ..layout.machining import CutterSettings, Lean, SawPass
-from ..units import MM_PER_FOOT, MM_PER_INCH, format_inches, format_length, format_tape
+from ..layout.operations import Step
+from ..units import MM_PER_FOOT, MM_PER_INCH, format_inches, format_tape
+from .figures import Figures
 
 if TYPE_CHECKING:  # for annotations only: the lumber solver loads scipy.optimize, which `check` never needs
     from ..layout.lumber import BoardSize, LumberOrder
 
 QUARTER_INCH = MM_PER_INCH / 4  # rough thickness is sold in quarters: 4/4 = 1 in, 5/4 = 1 1/4 in (lumber rules)
 
-FENCE_NOTE = ("Fence to blade: from the fence to where the blade's fence-side face meets the table.")
+FENCE_NOTE = ("Fence to blade: from the fence to where the blade's fence-side face meets the table; the kerf "
+              "lies on the waste side. Settings are rounded so the cut leaves wood: creep up on the line with "
+              "a test piece.")
 GUARD_NOTE = "Use push sticks, featherboards and the guard on narrow staves."
 
 
@@ -39,48 +43,50 @@ def degrees(angle: float) -> str:
     return f"{angle:.2f}°"
 
 
-def _length(units: str, mm: float | None) -> str:
-    return "—" if mm is None else format_length(mm, units)
+def _bearing(fig: Figures, mm: float) -> str:
+    return fig.least(mm) if mm > 0 else "on a corner"
 
 
-def _bearing(units: str, mm: float) -> str:
-    return _length(units, mm) if mm > 0 else "on a corner"
-
-
-def saw_rows(units: str, p: SawPass) -> list[Row]:
+def saw_rows(fig: Figures, p: SawPass) -> list[Row]:
     """The settings of one table-saw pass (after its heading)."""
     lean = "" if p.lean is Lean.UPRIGHT else f", top leaning {p.lean}"
     end = "through the stave" if p.through else "to the apex"
+    fence = fig.fence(p.fence_distance, nearer=p.leaves_wood_when_fence_is == "nearer")
+    if p.follows_blank_width:
+        fence += " on this blank (each segment's in the cut list)"
     return [
         Row("stave down on the table", str(p.on_table)),
         Row("stave against the fence", str(p.on_fence)),
         Row("blade tilt from vertical", degrees(p.tilt) + lean),
-        Row("fence to blade at the table", _length(units, p.fence_distance)),
-        Row(f"cut along the blade, {end}", _length(units, p.depth_along_blade)),
-        Row("top of the cut above the table", _length(units, p.height)),
+        Row("fence to blade at the table", fence),
+        Row("blade height above the table", fig.blade(p.height)),
+        Row(f"blade's fence-side face, table to top, {end}", fig.blade(p.depth_along_blade)),
+        Row("kerf, on the waste side", f"{fig.describe(p.kerf)}; the stave's face is on the blade's {p.stave_side}"),
         Row("stave bearing behind the blade: table / fence",
-            f"{_bearing(units, p.table_contact)} / {_bearing(units, p.fence_contact)}"),
+            f"{_bearing(fig, p.table_contact)} / {_bearing(fig, p.fence_contact)}"),
     ]
 
 
-def cutter_rows(units: str, settings: CutterSettings) -> list[Row]:
-    """Every line of one section's cutter settings, in the order to read them, lengths in ``units``.
+def cutter_rows(fig: Figures, settings: CutterSettings) -> list[Row]:
+    """Every line of one blank's cutter settings, in the order to read them, rounded the safe way.
 
-    First the shape (V faces and notch, or the bevel), then each table-saw pass in the
-    order to cut it, then the router-table set-up when there is one.
+    First the blank and the shape (V faces and notch, or the bevel), then each table-saw
+    pass in the order to cut it, then the router-table set-up when there is one.
     """
-    rows: list[Row] = []
+    rows: list[Row] = [Row("blank, width x thickness", f"{fig.dress(settings.blank.width)} x "
+                                                        f"{fig.dress(settings.blank.thickness)}")]
     if settings.v_face_angles:
         inner, outer = settings.v_face_angles
         rows.append(Row("V faces to the broad face", f"inner {degrees(inner)}, outer {degrees(outer)}"))
         rows.append(Row("notch depth / apex above the inner face",
-                        f"{_length(units, settings.notch_depth)} / {_length(units, settings.apex_height)}"))
+                        f"{fig.notch_depth(settings.notch_depth)} / {fig.apex_height(settings.apex_height)}"))
     else:
         rows.append(Row("edge bevel off square", degrees(settings.bevel)))
-        rows.append(Row("rip to width: fence to blade", _length(units, settings.rip_fence_distance)))
+    if not settings.saw:
+        rows.append(Row("table saw", "no fixed set-up: the notch changes along the stave", heading=True))
     for k, p in enumerate(settings.saw, start=1):
         rows.append(Row(f"table saw, pass {k}", f"makes the {p.makes}", heading=True))
-        rows += saw_rows(units, p)
+        rows += saw_rows(fig, p)
     r = settings.router
     if r is not None:
         rows.append(Row("router table, 90° V-bit", "whole V in one pass", heading=True))
@@ -91,13 +97,23 @@ def cutter_rows(units: str, settings: CutterSettings) -> list[Row]:
             ride += f", on a {degrees(r.wedge_angle)} wedge, high side {r.wedge_high_side}"
         rows += [
             Row("stave rides on", ride),
-            Row("bit tip above the riding surface", _length(units, r.bit_height)),
-            Row("fence to bit tip", _length(units, r.fence_to_tip)),
-            Row("bit at least this wide", _length(units, r.least_bit_diameter)),
+            Row("bit tip above the riding surface", fig.blade(r.bit_height)),
+            Row("fence to bit tip", fig.describe(r.fence_to_tip)),
+            Row("bit at least this wide", fig.at_least(r.least_bit_diameter)),
             Row("notched edge left to ride on",
-                _length(units, r.edge_left) if r.edge_left > 0 else "none: support the outfeed side"),
+                fig.least(r.edge_left) if r.edge_left > 0 else "none: support the outfeed side"),
         ]
     return rows
+
+
+def step_words(fig: Figures, step: Step) -> str:
+    """One shop step in words, its figures in the spar's units, each rounded its safe way."""
+    return step.text.format(**{f.name: fig.by_kind(f.kind, f.value) for f in step.figures})
+
+
+def steps_words(fig: Figures, steps: tuple[Step, ...]) -> list[str]:
+    """The order of operations, numbered: ``1. Rip each segment ...``."""
+    return [f"{k}. {step_words(fig, s)}" for k, s in enumerate(steps, start=1)]
 
 
 # Board sizes ------------------------------------------------------------------------------------

@@ -12,15 +12,18 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
+from functools import cached_property
 
-from shapely.geometry import Polygon
+import shapely
+from shapely.geometry import Polygon, box
 
 from ..errors import DesignError
 from ..model.spar import Joint
 from ..units import format_length
 from .integrals import Moments, disc_moments, ring_in_disc_moments, ring_moments, segment_length_in_disc
 from .notch import Notch, bevel_angle, closure_width, notch_for, v_face_angles
-from .staves import StaveFrame, check_interference, enclosed_gap_reach, stave_frame, stave_polygon
+from .staves import (StaveFrame, check_interference, enclosed_gap_reach, outside_reach, placed_ring, stave_frame,
+                     stave_polygon)
 
 VOID_TOLERANCE = 1e-9  # of the disc's area: below this a void is roundoff
 
@@ -43,6 +46,12 @@ class Section:
     voids: Moments
     overlap: float
     glue_line: float
+    hollow_reach: float = 0.0
+
+    @property
+    def least_wall(self) -> float:
+        """Thinnest wood over the hollow after rounding, mm: R less the farthest reach of the bore or any void."""
+        return self.radius - max(self.hollow_reach, self.bore_corner_radius)
 
     @property
     def inner_apothem(self) -> float:
@@ -101,6 +110,53 @@ class Section:
     def stave_polygon(self) -> Polygon:
         """Stave 0 (before rounding) as a shapely polygon in the axis frame."""
         return Polygon(self.stave_outline)
+
+    @cached_property
+    def plastic_moduli(self) -> tuple[float, float]:
+        """Plastic section moduli Z = ∫|y| dA (mm³) of the finished wall and of the bore, about a diameter.
+
+        Exact (polygons clipped by the true circle). The wall's is the smaller of the values about
+        the diameter through a stave's middle and the one a half stave turned, taken about the
+        centroid (equal to the equal-area axis for an even number of staves).
+        """
+        best = None
+        for turn in (0.0, math.pi / self.staves):
+            wall = _half_first_moment_wall(self, turn)
+            bore = _half_first_moment(Polygon(bore_ring(self.staves, self.inner_apothem)), turn, None)
+            if best is None or wall < best[0]:
+                best = (wall, bore)
+        return best
+
+
+def _half_first_moment(poly: Polygon, turn: float, radius: float | None) -> float:
+    """∫|y| dA over ``poly`` (clipped by the disc of ``radius`` when given), y across the diameter at ``turn``."""
+    c, s = math.cos(-turn), math.sin(-turn)
+    ring = [(c * x - s * y, s * x + c * y) for x, y in poly.exterior.coords]
+    turned = Polygon(ring)
+    reach = 4 * max(math.hypot(x, y) for x, y in ring) + 1.0
+    total = 0.0
+    for half, sign in ((box(-reach, 0.0, reach, reach), 1.0), (box(-reach, -reach, reach, 0.0), -1.0)):
+        part = turned.intersection(half)
+        for g in getattr(part, "geoms", [part]):
+            if g.is_empty or g.geom_type != "Polygon":
+                continue
+            g = shapely.geometry.polygon.orient(g, 1.0)
+            rings = [list(g.exterior.coords)[:-1]] + [list(r.coords)[:-1] for r in g.interiors]
+            m = Moments()
+            for r in rings:
+                m = m + (ring_moments(r) if radius is None else ring_in_disc_moments(r, radius))
+            total += sign * m.qy
+    return total
+
+
+def _half_first_moment_wall(section: "Section", turn: float) -> float:
+    """∫|y| dA over the finished wall: the disc's 4R³/3 less the bore's, less the voids' when there are any."""
+    disc = 4 * section.radius**3 / 3
+    bore = _half_first_moment(Polygon(bore_ring(section.staves, section.inner_apothem)), turn, None)
+    if section.void_area <= 0:
+        return disc - bore
+    staves = placed_ring(Polygon(section.stave_outline), section.staves, range(section.staves))
+    return sum(_half_first_moment(p, turn, section.radius) for p in staves)
 
 
 def bore_ring(staves: int, inner_apothem: float) -> list[tuple[float, float]]:
@@ -167,7 +223,17 @@ def evaluate_section(staves: int, joint: Joint, radius: float, thickness: float,
         raise DesignError(
             f"rounding breaks into the bore{at}: finished radius {show(radius)} but the bore's corners reach "
             f"{show(corner)}; use a thicker wall or more staves", "hollow.wall")
+    reach = corner
     if joint.kind not in ("birdsmouth-flush", "bevel"):
+        # The staves' outside must lie outside the round everywhere: a notch that leaves a groove open to the
+        # outside at the seams, reaching inside the finished radius, leaves it in the finished surface.
+        outside = outside_reach(polygon, staves)
+        if outside < radius - 1e-5 - 1e-9 * radius:
+            raise DesignError(
+                f"rounding leaves an open groove{at} at every seam, {show(radius - outside)} deep into the finished "
+                f"surface: the joint does not close out to the round (the square edge does not fill the V, or the V "
+                f"is too shallow for the neighbour to close against the notched edge); use the flush birdsmouth",
+                key)
         # The hollow is the bore polygon plus whatever voids the notch leaves; rounding must not open it.
         reach = enclosed_gap_reach(polygon, staves)
         if reach is None:
@@ -197,4 +263,5 @@ def evaluate_section(staves: int, joint: Joint, radius: float, thickness: float,
         voids=voids,
         overlap=overlap,
         glue_line=_glue_line(staves, frame, notch, radius),
+        hollow_reach=reach,
     )

@@ -26,7 +26,10 @@ PRELOAD = ["stavegen.sizing.count"]  # what the server imports once for every wo
 
 
 def processors() -> int:
-    """How many processes to use: ``STAVEGEN_WORKERS`` if set, else the processors this process may run on."""
+    """How many processes to use: ``STAVEGEN_WORKERS`` if set, else the processors this process may run on;
+    1 inside a daemonic worker process (one of a server's pool), which may not start processes of its own."""
+    if multiprocessing.current_process().daemon:
+        return 1
     asked = os.environ.get("STAVEGEN_WORKERS", "").strip()
     if asked.isdigit() and int(asked) > 0:
         return int(asked)
@@ -49,7 +52,7 @@ class Pool:
     """This process and ``size - 1`` worker processes (none when ``size`` is 1); use it in a ``with`` block."""
 
     def __init__(self, size: int | None = None) -> None:
-        self.size = max(1, size if size is not None else processors())
+        self.size = 1 if multiprocessing.current_process().daemon else max(1, size if size is not None else processors())
         self._executor: ProcessPoolExecutor | None = None
 
     def __enter__(self) -> "Pool":

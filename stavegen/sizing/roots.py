@@ -49,6 +49,7 @@ class Window:
 
 
 UPPER, LOWER, INSIDE = "upper", "lower", "inside"
+NOTCH_UPPER = "upper, set by the notch"  # the greatest size the joint closes at (a groove opens past it)
 
 
 @dataclass(frozen=True)
@@ -78,23 +79,37 @@ def _meeting_side(excess: Callable[[float], float], root: float, toward: float, 
     return limit
 
 
-def _first_buildable(check: Callable[[float], StationCheck], lo: float, hi: float) -> float:
-    """The least size in [lo, hi] whose section can be built (bisection); raises the geometry's error if none."""
-    try:
-        check(lo)
-        return lo
-    except DesignError:
-        pass
-    check(hi)  # raises the geometry's own error when even the largest size cannot be built
-    bad, good = lo, hi
-    while good - bad > XTOL * max(1.0, abs(good)):
-        mid = (bad + good) / 2
+def _buildable_range(check: Callable[[float], StationCheck], lo: float, hi: float) -> tuple[float, float]:
+    """The least and the greatest size in [lo, hi] whose section can be built (bisection on each side).
+
+    A joint may be unbuildable at small sizes (the notch does not fit) and at large ones (a notch too
+    shallow for a thick wall leaves a groove at the seams). Raises the geometry's own error when no
+    size tried can be built.
+    """
+    def builds(x: float) -> bool:
         try:
-            check(mid)
-            good = mid
+            check(x)
+            return True
         except DesignError:
-            bad = mid
-    return good
+            return False
+
+    inside = next((x for x in [lo, hi] + [lo + (hi - lo) * k / 16 for k in range(1, 16)] if builds(x)), None)
+    if inside is None:
+        check(hi)  # raises the geometry's own error
+    ends = []
+    for edge in (lo, hi):
+        if builds(edge):
+            ends.append(edge)
+            continue
+        bad, good = edge, inside
+        while abs(good - bad) > XTOL * max(1.0, abs(good)):
+            mid = (bad + good) / 2
+            if builds(mid):
+                good = mid
+            else:
+                bad = mid
+        ends.append(good)
+    return ends[0], ends[1]
 
 
 def window(check: Callable[[float], StationCheck], criteria: tuple[Criterion, ...], lo: float, hi: float,
@@ -103,7 +118,7 @@ def window(check: Callable[[float], StationCheck], criteria: tuple[Criterion, ..
     """Where in [lo, hi] the point meets every criterion, or the first criterion no size there reaches.
 
     ``check(size)`` gives the point's check at a trial size; it may raise
-    DesignError where the joint cannot be built (only at small sizes).
+    DesignError where the joint cannot be built (at small sizes, or at large ones).
     ``quick(size)``, if given, is the same check in closed form: the searches
     use it once it agrees with ``check`` at the least buildable size, or
     from the start with ``trust_quick`` (the caller has it agree elsewhere on
@@ -118,9 +133,11 @@ def window(check: Callable[[float], StationCheck], criteria: tuple[Criterion, ..
         return cache[x]
 
     if not (trust_quick and quick is not None):
-        start = _first_buildable(at, lo, hi)
+        start, stop = _buildable_range(at, lo, hi)
         if start > lo:
             lo, lo_by = start, NOTCH
+        if stop < hi:
+            hi, hi_by = stop, NOTCH
     ratios = at
     if quick is not None and (trust_quick or agrees(at(lo), quick(lo), criteria)):
         quick_cache: dict[float, StationCheck] = {}
@@ -142,7 +159,8 @@ def window(check: Callable[[float], StationCheck], criteria: tuple[Criterion, ..
         if low_end < 0 and high_end < 0:
             peak = minimize_scalar(lambda x: -excess(x), bounds=(lo, hi), method="bounded",
                                    options={"xatol": XTOL * max(1.0, abs(hi))})
-            best = max((excess(lo), lo, LOWER), (excess(hi), hi, UPPER), (excess(peak.x), peak.x, INSIDE))
+            best = max((excess(lo), lo, LOWER), (excess(hi), hi, NOTCH_UPPER if hi_by == NOTCH else UPPER),
+                       (excess(peak.x), peak.x, INSIDE))
             if best[0] < 0:
                 return Miss(criterion, criterion.target + best[0], best[1], best[2])
             rise_to = fall_from = best[1]

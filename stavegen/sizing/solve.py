@@ -19,7 +19,7 @@ from ..stations.evaluate import SectionCache, Station
 from ..units import format_exact, format_length_up
 from .diameter import BORE_CLOSES, PLAN, describe_scale, solve_diameter_scale
 from .roots import NOTCH
-from .targets import EI_RATIO, STRENGTH_RATIO, Point, check_at, criteria_of, place, points_of
+from .targets import EI_RATIO, STRENGTH_RATIO, Point, check_at, closed_form_applies, criteria_of, place, points_of
 from .wall import BORE_CORNERS, CORNER_MINIMUM, WallSolution, solve_constant_wall, solve_tapered_wall
 
 if TYPE_CHECKING:
@@ -69,8 +69,7 @@ def _least(spar: Spar, sections: SectionCache | None = None) -> str:
                 if name not in least or ratio < least[name][0]:
                     least[name] = (ratio, place(spar, point))
     parts = [f"least {EI_RATIO} {least[EI_RATIO][0]:.3f} at {least[EI_RATIO][1]}"]
-    if spar.hollow.min_strength_ratio is not None:
-        parts.append(f"least {STRENGTH_RATIO} {least[STRENGTH_RATIO][0]:.3f} at {least[STRENGTH_RATIO][1]}")
+    parts.append(f"least {STRENGTH_RATIO} {least[STRENGTH_RATIO][0]:.3f} at {least[STRENGTH_RATIO][1]}")
     return ", ".join(parts)
 
 
@@ -142,12 +141,15 @@ def solve(spar: Spar) -> Solved:
     and the layout). Should the joint prove unbuildable at a size the closed
     form chose, or that check find a shortfall (roundoff at the edge of a
     range), the search is made again on the exact section's terms
-    (:data:`SEARCHES`), the last as every point's own full search. So the
-    answer and every message are those of the full search, with one gain:
-    the full search can give up on a point whose range of walls holds a
-    section the joint cannot build (a centred notch's voids opening), even
-    where the size that binds elsewhere holds there; the quick one answers,
-    checked on the exact section at every point.
+    (:data:`SEARCHES`), the last as every point's own full search. For
+    flush and bevel joints the answer is the full search's (to roundoff,
+    which can move the place named as least where a tapered wall makes a
+    ratio equal everywhere). For joints whose sections can be unbuildable
+    inside the range searched (a centred notch's grooves and voids), the
+    full search can give up at a point whose probes found no buildable wall
+    even where the size that binds elsewhere builds and holds there; the
+    quick one answers there, or refuses for what binds, checked on the exact
+    section at every point.
     """
     h = spar.hollow
     if h.staves == AUTO:
@@ -167,10 +169,13 @@ def solve(spar: Spar) -> Solved:
         try:
             resolved, solution = _solve_size(spar, skip, trust)
         except DesignError:
-            if trust:  # the closed form may have searched where the joint cannot be built
+            if trust and not last:  # the closed form may have searched where the joint cannot be built
                 continue
             raise
-        sections = None if last else SectionCache(resolved)
+        # The check's own sections verify the solution, to be kept for the check and the layout, where they
+        # have the figures of the sizing's (flush and bevel: the wall's exact section, whatever the staves'
+        # dressed thickness); other joints are verified as they were sized.
+        sections = SectionCache(resolved) if not last and closed_form_applies(resolved) else None
         try:
             least = _least(resolved, sections)
         except (DesignError, Shortfall):
@@ -182,7 +187,7 @@ def solve(spar: Spar) -> Solved:
         line = _diameter_line(resolved, solution, least)
     else:
         line = _wall_line(spar, solution, resolved, least)
-    return Solved(resolved, (line,), sections or SectionCache(resolved))
+    return Solved(resolved, (line,), sections)
 
 
 def size_spar(spar: Spar) -> tuple[Spar, tuple[str, ...]]:

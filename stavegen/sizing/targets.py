@@ -21,12 +21,13 @@ import math
 from dataclasses import dataclass
 from typing import Callable
 
-from ..checks.ratios import StationCheck, check_station, hollow_round, solid_round
+from ..checks.ratios import StationCheck, check_station, targets
 from ..errors import DesignError
 from ..model.spar import Plug, Spar
 from ..section.integrals import Moments
-from ..section.properties import evaluate_section
-from ..stations.evaluate import Station, plug_at_station, where
+from ..section.properties import bore_ring
+from ..stations.evaluate import Station, hollow_section, plug_at_station, where
+from ..units import Way, system
 from ..stations.grid import station_marks
 
 MIDDLE = "between stations"
@@ -65,11 +66,9 @@ def ratio_text(ratio: float, target: float) -> str:
 
 
 def criteria_of(spar: Spar) -> tuple[Criterion, ...]:
-    """EI ratio ≥ 1 + margin, and strength ratio ≥ ``hollow.min_strength_ratio`` when that is set."""
-    out = [Criterion(EI_RATIO, 1.0 + spar.hollow.margin)]
-    if spar.hollow.min_strength_ratio is not None:
-        out.append(Criterion(STRENGTH_RATIO, spar.hollow.min_strength_ratio))
-    return tuple(out)
+    """EI ratio ≥ 1 + margin and strength ratio ≥ the strength target (1 unless the file accepts less)."""
+    ei_target, strength_target = targets(spar)
+    return (Criterion(EI_RATIO, ei_target), Criterion(STRENGTH_RATIO, strength_target))
 
 
 def _point(spar: Spar, z: float, reasons: tuple[str, ...], plugs: bool) -> Point:
@@ -97,10 +96,14 @@ def place(spar: Spar, point: Point) -> str:
 
 
 def check_at(spar: Spar, point: Point, radius: float, wall: float) -> StationCheck:
-    """The exact section of finished ``radius`` and ``wall`` (mm) at ``point``, set against the plan there."""
-    h = spar.hollow
-    section = evaluate_section(h.staves, h.joint, radius, wall, h.planing_allowance, place(spar, point),
-                               spar.units)
+    """The section of finished ``radius`` and ``wall`` (mm) at ``point``, as it would be built, against the plan.
+
+    As built: staves dressed to the wall rounded up onto the builder's grid, the bore the wall's
+    (:func:`~stavegen.stations.evaluate.hollow_section`); for flush and bevel staves that is the
+    exact section of the wall itself.
+    """
+    thickness = system(spar.units).on_grid(wall, Way.UP)
+    section = hollow_section(spar, radius, wall, place(spar, point), thickness=thickness)
     station = Station(z=point.z, reasons=point.reasons, plan_diameter=point.plan_diameter, diameter=2 * radius,
                       wall=wall, plug=point.plug, section=section)
     return check_station(spar, station)
@@ -112,17 +115,33 @@ CLOSED_FORM_TOLERANCE = 1e-12  # relative: how closely the closed form must matc
 
 @dataclass(frozen=True)
 class RoundedRing:
-    """The figures of a flush or bevel section that the check's ratios read (mm, mm², mm⁴), in closed form."""
+    """The figures of a flush or bevel section that the check's ratios read (mm, mm², mm³, mm⁴), in closed
+    form: the disc of ``radius`` less the regular N-gon bore."""
 
     radius: float
     thickness: float
     area: float
     inertia: float
     bore: Moments
+    plastic_moduli: tuple[float, float]  # Z = ∫|y| dA of the wall and of the bore, as Section gives them
 
     @property
     def bore_inertia(self) -> float:
         return self.bore.polar / 2
+
+
+def _abs_first_moment(ring: list[tuple[float, float]]) -> float:
+    """∫|y| dA over a convex polygon round the origin (counter-clockwise): triangle by triangle from the
+    origin, each split where it crosses y = 0, ∫y dA = area × (sum of the vertices' y) / 3 on each part."""
+    total = 0.0
+    for (px, py), (qx, qy) in zip(ring, ring[1:] + ring[:1]):
+        if py * qy >= 0:
+            total += abs((px * qy - qx * py) / 2 * (py + qy) / 3)
+            continue
+        t = py / (py - qy)
+        xx = px + t * (qx - px)  # where the edge crosses y = 0
+        total += abs(-xx * py / 2 * py / 3) + abs(xx * qy / 2 * qy / 3)
+    return total
 
 
 def rounded_ring(staves: int, radius: float, wall: float, planing_allowance: float) -> RoundedRing:
@@ -130,30 +149,39 @@ def rounded_ring(staves: int, radius: float, wall: float, planing_allowance: flo
 
     Regular N-gon of apothem a (Roark's Formulas for Stress and Strain, table of
     properties of plane areas): side s = 2 a tan(π/N), A = N s a / 2,
-    I = A (12 a² + s²) / 48 about any axis through its centre; disc I = π R⁴/4.
+    I = A (12 a² + s²) / 48 about any axis through its centre; disc I = π R⁴/4
+    and ∫|y| dA = 4 R³/3. The plastic moduli are taken, as the exact section
+    takes them, about the diameter through a stave's middle and the one half a
+    stave turned, whichever leaves the wall the smaller.
     """
     a = radius + planing_allowance - wall
     tan = math.tan(math.pi / staves)
     side = 2 * a * tan
     bore_area = staves * side * a / 2
     bore_i = bore_area * (12 * a * a + side * side) / 48
+    corners = bore_ring(staves, a)
+    disc_z = 4 * radius**3 / 3
+    best = None
+    for turn in (0.0, math.pi / staves):
+        c, s = math.cos(-turn), math.sin(-turn)
+        bore_z = _abs_first_moment([(c * x - s * y, s * x + c * y) for x, y in corners])
+        if best is None or disc_z - bore_z < best[0]:
+            best = (disc_z - bore_z, bore_z)
     return RoundedRing(radius=radius, thickness=wall, area=math.pi * radius**2 - bore_area,
                        inertia=math.pi * radius**4 / 4 - bore_i,
-                       bore=Moments(bore_area, 0.0, 0.0, bore_i, bore_i, 0.0))
+                       bore=Moments(bore_area, 0.0, 0.0, bore_i, bore_i, 0.0), plastic_moduli=best)
 
 
 def closed_form_checker(spar: Spar, point: Point) -> Callable[[float, float], StationCheck]:
     """:func:`check_at` in closed form at ``point``, as a function of (radius, wall) (mm): only for
-    :data:`CLOSED_FORM_JOINTS`, inside the range where the section can be built. What does not change with
-    the trial size (the plan's round there) is worked out once."""
+    :data:`CLOSED_FORM_JOINTS`, inside the range where the section can be built."""
     h = spar.hollow
-    plan = solid_round(spar, point.plan_diameter)
 
     def check(radius: float, wall: float) -> StationCheck:
         section = rounded_ring(h.staves, radius, wall, h.planing_allowance)
         station = Station(z=point.z, reasons=point.reasons, plan_diameter=point.plan_diameter,
                           diameter=2 * radius, wall=wall, plug=point.plug, section=section)  # type: ignore[arg-type]
-        return StationCheck(station=station, plan=plan, hollow=hollow_round(spar, section, point.plug))
+        return check_station(spar, station)
 
     return check
 

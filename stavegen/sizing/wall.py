@@ -31,7 +31,7 @@ import numpy as np
 from ..errors import DesignError
 from ..model.spar import AUTO_TAPERED, Profile, Spar
 from ..units import format_exact, format_length, format_length_up
-from .roots import INSIDE, NOTCH, UPPER, Miss, Window, common_windows, window
+from .roots import INSIDE, NOTCH, NOTCH_UPPER, UPPER, Miss, Window, common_windows, window
 from .targets import (Criterion, Point, check_at, closed_form_applies, closed_form_check_at, closed_form_checker,
                       closed_form_trusted, criteria_of, place, points_of, ratio_text)
 
@@ -161,6 +161,9 @@ def _unreachable(spar: Spar, point: Point, miss: Miss) -> DesignError:
     c = miss.criterion
     if miss.best_at == UPPER:
         how = "even staves meeting at the axis (no bore left)"
+    elif miss.best_at == NOTCH_UPPER:
+        how = (f"even the thickest wall this notch closes at the seams ({format_exact(miss.best_size, spar.units)}; "
+               "a thicker stave leaves a groove open between the notched edge and the neighbour)")
     elif miss.best_at == INSIDE:
         how = (f"even the stiffest wall for this joint ({format_exact(miss.best_size, spar.units)}; thicker walls "
                "open larger voids in the notches)")

@@ -9,9 +9,9 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
-from ..model.spar import Plug, Spar
+from ..model.spar import Plug, Profile, Spar
 from ..section.properties import Section, evaluate_section
-from ..units import format_length
+from ..units import Way, format_length, system
 from .grid import MERGE_TOLERANCE, StationMark, station_marks
 
 
@@ -45,6 +45,40 @@ def plug_at_station(spar: Spar, z: float) -> Plug | None:
     return None
 
 
+def stave_thickness(spar: Spar) -> float | None:
+    """The thickness every stave is dressed to (mm), when the notch is cut in one setting; else None.
+
+    It is the thickest wall of the spar rounded up onto the builder's grid (1/32 in or
+    0.1 mm): a tapered wall is cut as staves of the thickest wall whose notch is set
+    once, the taper being the bore's (see :func:`hollow_section`). None when the file
+    asks for the notch to follow a tapered wall station by station (``notch_cut =
+    "follow-wall"``).
+    """
+    wall = spar.hollow.wall
+    if not isinstance(wall, Profile):
+        return None
+    if spar.hollow.notch_cut == "follow-wall" and not wall.is_constant:
+        return None
+    return system(spar.units).on_grid(wall.largest, Way.UP)
+
+
+def hollow_section(spar: Spar, radius: float, wall: float, at: str = "", thickness: float | None = None) -> Section:
+    """The section as the staves are built: finished ``radius``, the file's ``wall`` there (mm).
+
+    The staves are ``thickness`` thick (default :func:`stave_thickness`, or the wall
+    rounded up onto the grid when the notch follows the wall); their inner faces lie
+    where the wall puts them (inner apothem R + planing allowance − wall), so any
+    thickness over the wall stands proud outside and comes off in rounding (or is
+    planed off the outer face first). The bore, and so every figure inside the round,
+    is the file's.
+    """
+    h = spar.hollow
+    t = thickness if thickness is not None else stave_thickness(spar)
+    if t is None:
+        t = system(spar.units).on_grid(wall, Way.UP)
+    return evaluate_section(h.staves, h.joint, radius, t, h.planing_allowance + (t - wall), at, spar.units)
+
+
 class SectionCache:
     """Sections keyed by (radius, wall): tapers often repeat the same section."""
 
@@ -52,6 +86,7 @@ class SectionCache:
         if not spar.resolved:
             raise ValueError("staves and wall must be resolved before sections are evaluated")
         self.spar = spar
+        self._thickness = stave_thickness(spar)
         self._cache: dict[tuple[float, float], Section] = {}
 
     def at(self, z: float) -> Section:
@@ -62,8 +97,7 @@ class SectionCache:
         key = (round(radius, 9), round(wall, 9))
         section = self._cache.get(key)
         if section is None:
-            section = evaluate_section(spar.hollow.staves, spar.hollow.joint, radius, wall,
-                                       spar.hollow.planing_allowance, where(spar, z), spar.units)
+            section = hollow_section(spar, radius, wall, where(spar, z), self._thickness)
             self._cache[key] = section
         return section
 
@@ -81,7 +115,7 @@ def evaluate_stations(spar: Spar, marks: tuple[StationMark, ...] | None = None,
             reasons=mark.reasons,
             plan_diameter=float(spar.plan.diameter.at(mark.z)),
             diameter=2 * section.radius,
-            wall=section.thickness,
+            wall=float(spar.hollow.wall.at(mark.z)),
             plug=plug_at_station(spar, mark.z),
             section=section,
         ))

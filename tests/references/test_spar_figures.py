@@ -15,7 +15,8 @@ import pytest
 from scipy.integrate import solve_ivp
 from scipy.optimize import brentq
 
-from stavegen.checks.assess import REFERENCE_HEAD_LOAD, assess
+from stavegen.checks.assess import assess
+from stavegen.model.spar import DEFAULT_HEAD_LOAD
 from stavegen.checks.beam import euler_load, tip_deflection
 
 from conftest import make_spar
@@ -29,9 +30,11 @@ def test_uniform_spar_closed_forms():
     ei_plan = spar.plan.wood.moe * math.pi * 100**4 / 64
     L = 3000.0
     for figures, ei in ((result.hollow, ei_hollow), (result.plan, ei_plan)):
-        assert figures.tip_deflection == pytest.approx(REFERENCE_HEAD_LOAD * L**3 / (3 * ei), rel=1e-3)
+        assert figures.tip_deflection == pytest.approx(DEFAULT_HEAD_LOAD * L**3 / (3 * ei), rel=1e-3)
         assert figures.euler_load == pytest.approx(math.pi**2 * ei / (4 * L**2), rel=1e-3)
         assert figures.mass.centre == pytest.approx(L / 2, rel=1e-9)
+        # Head stiffness, load over deflection: 3 E I / L³ whatever the load.
+        assert figures.head_stiffness == pytest.approx(3 * ei / L**3, rel=1e-3)
     rho = spar.hollow.wood.density * 1e-9
     assert result.hollow.mass.mass == pytest.approx(rho * section.area * L, rel=1e-9)
     assert result.plan.mass.mass == pytest.approx(rho * math.pi * 50**2 * L, rel=1e-9)
@@ -91,3 +94,12 @@ def test_plug_raises_stiffness_where_it_is():
     assert plugged.hollow.mass.mass > bare.hollow.mass.mass
     mid = [c for c in plugged.stations if c.station.z > 700][0]
     assert mid.ei_ratio == pytest.approx(bare.stations[-1].ei_ratio, rel=1e-12)
+
+
+def test_head_load_from_the_file_scales_deflection_only():
+    """A named head load: deflection in proportion (δ = F L³ / 3EI), the ratios and the head stiffness unchanged."""
+    base = assess(make_spar())
+    named = assess(make_spar(spar={"head_load": "500 N"}))
+    assert named.hollow.tip_deflection == pytest.approx(0.5 * base.hollow.tip_deflection, rel=1e-12)
+    assert named.hollow.head_stiffness == pytest.approx(base.hollow.head_stiffness, rel=1e-12)
+    assert named.compared("deflection") == pytest.approx(base.compared("deflection"), rel=1e-12)

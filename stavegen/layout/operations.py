@@ -1,0 +1,311 @@
+"""How the staves are cut: one setting per segment blank, and the order of operations in the shop.
+
+Every segment is made a parallel *blank* first: its widest finished width
+plus the square edge's allowance, rounded up onto the builder's grid, and the
+stave thickness. The notch (or a plain stave's first bevel) is cut into the
+blank with settings fixed for the whole blank (:mod:`.machining`); then the
+segments are scarfed into staves and the square edge (or edge 2's bevel) is
+taken to the tapered line. With a tapered wall the notch is cut once, on
+staves of the thickest wall, and the taper is the bore's (see
+:func:`stavegen.stations.evaluate.hollow_section`); only when the file asks
+the notch to follow the wall (``notch_cut = "follow-wall"``) does it change
+along the stave, and then no fixed set-up cuts it: the figures are given
+station by station for a CNC router, and the steps say so.
+
+Figures in the steps are SI mm with a *kind* naming how they are rounded for
+print (see :mod:`stavegen.render.figures`). Lengths mm, angles degrees.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import numpy as np
+
+from ..model.spar import Spar
+from ..section.properties import Section
+from ..units import Way, system
+from .machining import Blank, CutterSettings, Lean, RouterSetup, SawPass, Side, cutter_settings, same_notch
+from .segments import Segment
+from .staves import StavePlan
+
+STRAIGHT_EDGE = 0.1  # mm: a tapered edge within this of a straight line can ride a fence
+
+
+@dataclass(frozen=True)
+class SegmentSetup:
+    """One segment's blank (mm), the rough width to rip it at, and the settings that cut its notch."""
+
+    label: str
+    blank: Blank
+    rough_width: float
+    settings: CutterSettings
+
+
+@dataclass(frozen=True)
+class StationSettings:
+    """Cutter settings for the stave at one position z (mm from the heel), on the blank of ``segment``."""
+
+    z: float
+    section: Section
+    settings: CutterSettings
+    segment: str
+
+
+@dataclass(frozen=True)
+class StationNotch:
+    """The notch at one station when it follows a tapered wall: for a CNC router with a 90° V-bit (mm)."""
+
+    z: float
+    thickness: float
+    notch_depth: float
+    apex_height: float
+    router: RouterSetup
+
+
+@dataclass(frozen=True)
+class Figure:
+    """A figure in a step: its ``name`` in the text, its value (mm, or degrees for an angle), how it is rounded."""
+
+    name: str
+    value: float
+    kind: str  # "dress", "cut-length", "fence-nearer", "fence-farther", "blade", "angle", "describe", "at-least", ...
+
+
+@dataclass(frozen=True)
+class Step:
+    """One operation in the shop: ``text`` with ``{name}`` where each figure goes."""
+
+    action: str
+    text: str
+    figures: tuple[Figure, ...] = ()
+
+
+@dataclass(frozen=True)
+class Machining:
+    """How the staves are cut: settings per segment, at the widest and narrowest stations, and the steps."""
+
+    method: str  # "one setting" or "per station"
+    stave_thickness: float | None
+    kerf: float
+    widest: StationSettings
+    narrowest: StationSettings
+    segments: tuple[SegmentSetup, ...]
+    per_station: tuple[StationNotch, ...]
+    steps: tuple[Step, ...]
+    notes: tuple[str, ...]
+
+    @property
+    def notch_varies(self) -> bool:
+        """Whether the notch changes along the stave (beyond roundoff): never with one setting."""
+        return self.method == "per station"
+
+    def setup_of(self, label: str) -> SegmentSetup:
+        for s in self.segments:
+            if s.label == label:
+                return s
+        raise KeyError(label)
+
+
+def blank_for(spar: Spar, seg: Segment, thickness: float) -> tuple[Blank, float]:
+    """The blank (its width rounded up onto the grid) and rough width (mm) of a segment ``thickness`` thick."""
+    grid = system(spar.units)
+    allowance = spar.stock.edge_allowance
+    width = grid.on_grid(seg.widest + allowance, Way.UP)
+    return Blank(width, thickness), grid.on_grid(width + allowance, Way.UP)
+
+
+def _segment_holding(staves: tuple[tuple[Segment, ...], ...], z: float) -> Segment:
+    """Stave 1's segment that holds position z (mm from the heel)."""
+    for seg in staves[0]:
+        if seg.start <= z <= seg.end:
+            return seg
+    return staves[0][-1]
+
+
+def _edge_bend(plan: StavePlan, seg: Segment) -> float:
+    """How far (mm) the notched edge of a symmetric-taper segment strays from the straight line of its ends."""
+    zs = [seg.start] + [st.z for st in plan.between(seg.start, seg.end)] + [seg.end]
+    xs = np.array([plan.s_at(z) for z in zs])
+    ys = np.array([plan.edges_at(z)[0] for z in zs])
+    if xs[-1] - xs[0] <= 0:
+        return 0.0
+    chord = ys[0] + (ys[-1] - ys[0]) * (xs - xs[0]) / (xs[-1] - xs[0])
+    return float(np.max(np.abs(ys - chord)))
+
+
+def machining(spar: Spar, plan: StavePlan, staves: tuple[tuple[Segment, ...], ...], cache) -> Machining:
+    """Settings for every segment's blank, at the widest and narrowest stations, and the order of operations."""
+    kerf = spar.stock.kerf
+    inside = [st for st in plan.stations if 0 <= st.z <= spar.length]
+    widest_st, narrowest_st = max(inside, key=lambda st: st.width), min(inside, key=lambda st: st.width)
+    thicknesses = [st.thickness for st in plan.stations]
+    one_setting = max(thicknesses) - min(thicknesses) <= 1e-9
+    notes: list[str] = []
+    segments: list[SegmentSetup] = []
+    per_station: list[StationNotch] = []
+    found: list[StationSettings] = []
+    if one_setting:
+        reference = cache.at(widest_st.z)
+        t = reference.thickness
+        first = None
+        for stave in staves:
+            for seg in stave:
+                blank, rough = blank_for(spar, seg, t)
+                settings = cutter_settings(reference, kerf, blank, plan=first.saw if first else None)
+                first = first or settings
+                segments.append(SegmentSetup(seg.label, blank, rough, settings))
+        for st in (widest_st, narrowest_st):
+            seg = _segment_holding(staves, st.z)
+            setup = next(s for s in segments if s.label == seg.label)
+            section = cache.at(st.z)
+            settings = cutter_settings(section, kerf, setup.blank, plan=setup.settings.saw)
+            if not same_notch(settings, setup.settings):
+                raise RuntimeError("one setting was chosen but the notch differs along the stave")
+            found.append(StationSettings(st.z, section, settings, seg.label))
+        method = "one setting"
+    else:
+        method = "per station"
+        for stave in staves:
+            for seg in stave:
+                zs = [seg.start, seg.end] + [s.z for s in plan.between(seg.start, seg.end)]
+                blank, rough = blank_for(spar, seg, max(plan.thickness_at(z) for z in zs))
+                section = cache.at(min(max(seg.start, 0.0), spar.length))
+                settings = cutter_settings(section, kerf, Blank(max(blank.width, section.stave_width),
+                                                                section.thickness), saw=False)
+                segments.append(SegmentSetup(seg.label, blank, rough, settings))
+        for st in inside:
+            section = cache.at(st.z)
+            if section.notch is None:
+                continue
+            s = cutter_settings(section, kerf, saw=False)
+            per_station.append(StationNotch(st.z, section.thickness, s.notch_depth, s.apex_height, s.router))
+        for st in (widest_st, narrowest_st):
+            seg = _segment_holding(staves, st.z)
+            section = cache.at(st.z)
+            found.append(StationSettings(st.z, section, cutter_settings(section, kerf, saw=False), seg.label))
+        notes.append("The notch changes along the stave with the tapered wall (notch_cut = \"follow-wall\"): no fixed "
+                     "table-saw or router-table set-up cuts it. Cut it on a CNC router with a 90° V-bit following "
+                     "the figures station by station, or build it with notch_cut = \"thickest-wall\" (one setting, "
+                     "on staves of the thickest wall) or with a constant wall.")
+    if spar.hollow.taper == "symmetric":
+        bent = [(seg.label, _edge_bend(plan, seg)) for stave in staves for seg in stave]
+        worst = max(bent, key=lambda b: b[1])
+        if worst[1] > STRAIGHT_EDGE:
+            notes.append(f"With taper = \"symmetric\" the notched edge of segment {worst[0]} bends by "
+                         f"{worst[1]:.2f} mm at the stations inside it: no fence follows it. Use taper = "
+                         "\"square-edge\" (the notched edge straight) to cut the notch with one setting.")
+    result = Machining(method=method, stave_thickness=found[0].section.thickness if one_setting else None,
+                       kerf=kerf, widest=found[0], narrowest=found[1], segments=tuple(segments),
+                       per_station=tuple(per_station), steps=(), notes=tuple(notes))
+    return Machining(**{**result.__dict__, "steps": tuple(steps(spar, plan, result))})
+
+
+# The order of operations -------------------------------------------------------------------------------
+
+
+def _pass_step(k: int, p: SawPass, rest: str) -> Step:
+    lean = "" if p.lean is Lean.UPRIGHT else f", top leaning {p.lean}"
+    fence_kind = "fence-nearer" if p.leaves_wood_when_fence_is == "nearer" else "fence-farther"
+    if p.follows_blank_width:
+        fence = ("fence at each segment's own figure (cut list, pass "
+                 f"{k} fence; {{fence}} on the widest blank)")
+    else:
+        fence = "fence {fence} to the blade's fence-side face at the table"
+    text = (f"Table saw, pass {k}, the {p.makes}: {p.on_table} down on the table, {p.on_fence} against the fence; "
+            f"blade {{tilt}} from vertical{lean}; {fence}; blade {{height}} high at its top "
+            f"({{depth}} up its fence-side face), the {{kerf}} kerf in the waste{rest}.")
+    return Step("saw pass", text, (
+        Figure("tilt", p.tilt, "angle"), Figure("fence", p.fence_distance, fence_kind),
+        Figure("height", p.height, "blade"), Figure("depth", p.depth_along_blade, "blade"),
+        Figure("kerf", p.kerf, "describe")))
+
+
+def steps(spar: Spar, plan: StavePlan, m: Machining) -> list[Step]:
+    """The order of operations, rip to round."""
+    h = spar.hollow
+    birdsmouth = h.joint.is_birdsmouth
+    symmetric = h.taper == "symmetric"
+    tapered_wall = not h.wall.is_constant
+    first_edge = "notched edge" if birdsmouth else "edge 1"
+    out = [Step("rip", "Rip each segment from its board where the cutting diagrams put it, at its rough width "
+                       "(cut list).")]
+    if m.method == "one setting":
+        out.append(Step("thickness", "Plane every segment to {thickness} thick, faces flat and parallel.",
+                        (Figure("thickness", m.stave_thickness, "dress"),)))
+    else:
+        out.append(Step("thickness", "Plane each segment to the stave thickness at every station (cut list and "
+                                     "station table, thickest {thickness}): on a planer sled shimmed to the taper, "
+                                     "or by hand to lines gauged on both edges.",
+                        (Figure("thickness", max(st.thickness for st in plan.stations), "dress"),)))
+    if symmetric:
+        out.append(Step("edge", f"Taper the {first_edge} of each segment to its line from the full-size template, "
+                                "straight and square: it is the edge the notch is set from."))
+    else:
+        out.append(Step("edge", f"Joint the {first_edge} of each segment straight and square to the faces: it is "
+                                "the edge every setting is taken from."))
+    out.append(Step("blank", f"Rip the other edge parallel, {first_edge} against the fence, each segment to its "
+                             "blank width (cut list; {widest} for the widest), the kerf outside the blank.",
+                    (Figure("widest", max(s.blank.width for s in m.segments), "dress"),)))
+    saw = m.widest.settings.saw
+    if m.method == "one setting" and saw:
+        for k, p in enumerate(saw, start=1):
+            rest = ": it frees the waste" if k == len(saw) and len(saw) > 1 else ""
+            out.append(_pass_step(k, p, rest))
+        r = m.widest.settings.router
+        if r is not None:
+            ride = "flat on the table" if r.one_pass_flat else (
+                f"on a {r.wedge_angle:.2f}° wedge, its high side {r.wedge_high_side}")
+            out.append(Step("router", "Or, instead of the saw passes, the router table with a 90° V-bit at least "
+                                      "{diameter} across: the stave on its " + f"{r.on_table}, {r.on_fence} against "
+                                      f"the fence, {ride}; " + "the bit's tip {bit} above the riding surface and "
+                                      "{tip} from the fence; the whole V in one pass.",
+                            (Figure("diameter", r.least_bit_diameter, "at-least"), Figure("bit", r.bit_height, "blade"),
+                             Figure("tip", r.fence_to_tip, "describe"))))
+    elif birdsmouth:
+        out.append(Step("cnc", "Cut the notch on a CNC router with a 90° V-bit, the tip at the notch depth from the "
+                               "notched edge and the apex height above the inner face at every station (the "
+                               "station figures): no fixed table-saw or router-table set-up follows a notch that "
+                               "changes along the stave."))
+    if spar.stock.scarf_ratio and any(len(s) > 1 for s in plan_staves(m)):
+        out.append(Step("scarf", "Cut the scarfs, {ratio}:1, each {length} long, and glue each stave's segments end "
+                                 f"to end, the {first_edge}s on one straight line"
+                                 + (" and the V's in line (a straight batten in the V)." if birdsmouth else "."),
+                        (Figure("ratio", spar.stock.scarf_ratio, "number"),
+                         Figure("length", spar.stock.scarf_ratio * max(st.thickness for st in plan.stations),
+                                "cut-length"))))
+    if birdsmouth:
+        out.append(Step("taper", "Taper the square edge of each stave to its line: mark each station's width (cut "
+                                 "list, full-size templates) across the outer face from the notched edge's outer "
+                                 "corner, spring a batten through the marks, and cut square to the line on a taper "
+                                 "sled, or saw off the waste and plane to the line."))
+    else:
+        out.append(Step("taper", "Bevel edge 2 of each stave to its line at {bevel} off square: mark each station's "
+                                 "width across the outer face from edge 1's outer corner, spring a batten through "
+                                 "the marks, and cut on a taper sled with the blade tilted, or plane to the line.",
+                        (Figure("bevel", 180.0 / h.staves, "angle"),)))
+    if tapered_wall and m.method == "one setting":
+        out.append(Step("outer face", "The wall tapers in the bore, not in the staves: the staves stay {thickness} "
+                                      "thick, and what stands over the wall comes off in rounding. To save "
+                                      "rounding, plane the outer face down to the wall at each station first "
+                                      "(station table); the notch is untouched and the joint closes as cut.",
+                        (Figure("thickness", m.stave_thickness, "dress"),)))
+    out.append(Step("dry fit", "Dry-fit the staves round the plugs (plugs table) with bands or hose clamps; number "
+                               "the staves and mark the stations across them."))
+    out.append(Step("glue", "Glue up, following the glue maker's instructions; check the spar straight before the "
+                            "glue sets."))
+    out.append(Step("round", f"Plane the {h.staves}-sided spar to {2 * h.staves} sides, then {4 * h.staves}, then "
+                             "round, to the finished diameter at each station (station table)."))
+    return out
+
+
+def plan_staves(m: Machining) -> list[list[str]]:
+    """Segment labels stave by stave (``S1-1`` … ), from the setups."""
+    staves: dict[str, list[str]] = {}
+    for s in m.segments:
+        staves.setdefault(s.label.split("-")[0], []).append(s.label)
+    return list(staves.values())
+
+
+__all__ = ["Figure", "Machining", "SegmentSetup", "StationNotch", "StationSettings", "Step", "blank_for",
+           "machining", "steps", "Side"]

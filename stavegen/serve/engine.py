@@ -1,0 +1,186 @@
+"""What each request asks of the engine, as plain functions of a spar file's text.
+
+These run in the server's worker processes (:mod:`.workers`), so every answer
+is plain data (text, bytes, dicts). The spar file's text is read exactly as
+``stavegen check`` reads a file (UTF-8, TOML, then
+:func:`stavegen.model.loader.parse_spar`) and designed by
+:func:`stavegen.pipeline.design`; the JSON is :func:`stavegen.render.json_doc.to_json`
+and the outputs :func:`stavegen.build.write_outputs`. Each worker keeps the
+last few designs by their text, so the check, the view, the section and the
+build of one text design it once.
+
+``name`` is a label for the text (the file name the page shows); it is put in
+messages and the JSON's ``spar.source`` as the command line puts the path it
+was given, and it is never opened.
+"""
+
+from __future__ import annotations
+
+import io
+import tempfile
+import tomllib
+import zipfile
+from collections import OrderedDict
+from dataclasses import replace
+from pathlib import Path
+from typing import Any, Callable
+
+from ..errors import InputError
+from ..model.loader import parse_spar
+from ..model.spar import Spar
+from ..pipeline import Design, design
+
+CACHED_DESIGNS = 16
+
+_designs: OrderedDict[tuple[str, bytes, bool], Design | InputError] = OrderedDict()
+
+
+def spar_from_text(raw: bytes, name: str) -> Spar:
+    """The validated spar of a spar file's bytes, with the messages the loader gives a file.
+
+    The three file-level messages mirror :func:`stavegen.model.loader.load_spar`'s, which reads from a
+    path only; tests/test_serve_api.py holds every bad spar file's message to the command line's.
+    """
+    try:
+        text = raw.decode("utf-8")
+    except UnicodeDecodeError as exc:
+        raise InputError(f"not UTF-8 text (byte {exc.start}); save the spar file as UTF-8", source=name) from None
+    try:
+        data = tomllib.loads(text)
+    except tomllib.TOMLDecodeError as exc:
+        raise InputError(f"TOML syntax error: {exc}", source=name) from None
+    if not data:
+        raise InputError("the file is empty (no tables); `stavegen init` writes a starter spar file", source=name)
+    return parse_spar(data, name)
+
+
+def designed(raw: bytes, name: str, layout: bool) -> Design:
+    """``pipeline.design`` of the text (with the shop plan when ``layout``), once per text."""
+    key = (name, raw, layout)
+    found = _designs.get(key)
+    if found is None:
+        try:
+            found = design(spar_from_text(raw, name), layout=layout)
+        except InputError as exc:
+            found = exc
+        _designs[key] = found
+        while len(_designs) > CACHED_DESIGNS:
+            _designs.popitem(last=False)
+    else:
+        _designs.move_to_end(key)
+    if isinstance(found, InputError):
+        raise type(found)(found.problem, found.key, found.source)
+    return found
+
+
+def check(raw: bytes, name: str, layout: bool = False) -> str:
+    """The JSON of ``stavegen check --json`` (with ``layout``: of the build's NAME.json)."""
+    from ..render.json_doc import to_json
+
+    return to_json(designed(raw, name, layout))
+
+
+def view(raw: bytes, name: str, layout: bool = False) -> dict[str, Any]:
+    from .view import page_view
+
+    return page_view(designed(raw, name, layout))
+
+
+def section(raw: bytes, name: str, at: str, layout: bool = False) -> dict[str, Any]:
+    """The section at ``at`` (a position as ``stavegen section --at`` takes it), worded and drawn."""
+    from ..checks.ratios import check_station
+    from ..stations.evaluate import evaluate_stations
+    from ..stations.grid import StationMark
+    from ..units import UnitError, parse_length
+    from .view import section_view
+
+    result = designed(raw, name, layout)
+    model = result.spar
+    try:
+        z = parse_length(at, model.units)
+    except UnitError as exc:
+        raise InputError(str(exc), "at", name) from None
+    if not 0 <= z <= model.length:
+        raise InputError(f"{at!r} is not on the spar (0 to {model.length:.0f} mm)", "at", name)
+    try:
+        station = evaluate_stations(model, (StationMark(z, ("asked",)),))[0]
+    except InputError as exc:
+        raise exc.located(name)
+    return section_view(result, check_station(model, station))
+
+
+def build(raw: bytes, name: str) -> tuple[str, bytes]:
+    """Every output of ``stavegen build`` in one zip: (the zip's file name, its bytes)."""
+    from ..build import write_outputs
+
+    result = designed(raw, name, True)
+    with tempfile.TemporaryDirectory(prefix="stavegen-serve-") as folder:
+        written = write_outputs(result, Path(folder))
+        buffer = io.BytesIO()
+        with zipfile.ZipFile(buffer, "w", compression=zipfile.ZIP_DEFLATED) as archive:
+            for path in sorted(written):
+                archive.write(path, arcname=path.name)
+    return f"{result.spar.slug}.zip", buffer.getvalue()
+
+
+def size(raw: bytes, name: str) -> dict[str, Any]:
+    """``stavegen size``: every stave count compared, the choice and why."""
+    from ..sizing.count import compare_stave_counts
+    from .view import size_view
+
+    model = spar_from_text(raw, name)
+    try:
+        comparison = compare_stave_counts(replace(model, hollow=replace(model.hollow, staves="auto")))
+    except InputError as exc:
+        raise exc.located(name)
+    return size_view(model, comparison)
+
+
+def edit(text: str, ops: list[dict[str, Any]], name: str) -> dict[str, Any]:
+    """The text with the page's edits made (comments kept), and its tables as the loader reads them."""
+    from .tomledit import apply_edits, syntax_check
+
+    try:
+        result = apply_edits(text, ops, name)
+    except InputError as exc:
+        raise exc.located(name)
+    return {"text": result, "data": _plain(syntax_check(result, name))}
+
+
+def _plain(value: Any) -> Any:
+    """TOML data as JSON data: dates and times become their text."""
+    if isinstance(value, dict):
+        return {k: _plain(v) for k, v in value.items()}
+    if isinstance(value, list):
+        return [_plain(v) for v in value]
+    if isinstance(value, (str, int, float, bool)) or value is None:
+        return value
+    return str(value)
+
+
+OPERATIONS: dict[str, Callable[..., Any]] = {
+    "check": check, "view": view, "section": section, "build": build, "size": size, "edit": edit,
+}
+
+
+def run(operation: str, kwargs: dict[str, Any]) -> tuple:
+    """One request's work: ("ok", answer), ("input", one-line message, key) or ("internal", words)."""
+    try:
+        return ("ok", OPERATIONS[operation](**kwargs))
+    except InputError as exc:
+        return ("input", exc.one_line(), exc.key)
+    except Exception as exc:  # a bug, not bad input: the server answers 500 and goes on
+        return ("internal", f"{type(exc).__name__}: {exc}")
+
+
+def warm_up() -> None:
+    """Start a worker: leave Ctrl+C to the server (which ends its workers), and import what the engine
+    needs, so that the first request is not slowed by it."""
+    import signal
+
+    signal.signal(signal.SIGINT, signal.SIG_IGN)
+    from ..build import write_outputs  # noqa: F401
+    from ..layout.plan import lay_out  # noqa: F401
+    from ..render.json_doc import to_json  # noqa: F401
+    from ..sizing.count import compare_stave_counts  # noqa: F401
+    from . import tomledit, view  # noqa: F401
