@@ -94,7 +94,7 @@ def import_cost(py: str, command: list[str], repeat: int) -> dict:
 
 
 def generated_spar(folder: Path, stations: int, staves: int | str = 16, length_m: float = 12.0,
-                   wall: str = '[[0, 46], [8000, 46], [{length}, 32]]') -> Path:
+                   wall: str = '[[0, 46], [8000, 46], [{length}, 32]]', stock: float = 48) -> Path:
     """A generated 12 m spar of ``staves`` staves whose marks and file positions give about ``stations`` stations."""
     length = length_m * 1000
     spacing = length / max(1, stations - 12)
@@ -123,7 +123,7 @@ from = {length - 600}
 to = {length}
 
 [stock]
-thickness = 48
+thickness = {stock}
 widths = [95, 145, 195]
 lengths = [3000, 3600, 4200, 4800, 6000]
 kerf = 3
@@ -140,11 +140,13 @@ mark_spacing = {spacing}
 
 
 def auto_sample(folder: Path, sample: Path) -> Path:
-    """A sample with its stave count (and the catboat's wall) left to stavegen: what `size` works on."""
+    """A sample with its stave count (and the catboat's wall, from 6/4 stock dressed to 1 1/2") left to
+    stavegen: what `size` works on."""
     text = sample.read_text()
     for old, new in (('staves = 8', 'staves = "auto"'), ('staves = 12', 'staves = "auto"'),
                      ('staves = 6', 'staves = "auto"'),
-                     ('wall = [[0, 1], ["10 ft", 1], ["20 ft", "3/4"]]', 'wall = "auto-tapered"')):
+                     ('wall = [[0, 1], ["10 ft", 1], ["20 ft", "3/4"]]', 'wall = "auto-tapered"'),
+                     ('thickness = 1.0\nnominal_thickness = "5/4"', 'thickness = 1.5\nnominal_thickness = 2')):
         text = text.replace(old, new)
     path = folder / f"auto-{sample.name}"
     path.write_text(text)
@@ -196,7 +198,7 @@ def run_jobs(py: str, tmp: Path, repeat: int, growth: bool = True) -> dict:
         results["build 10000 stations, 24 staves"] = measure(
             [py, "-m", "stavegen", "build", str(generated_spar(tmp, 10000, staves=24)), "-o", str(tmp / "b24")], 1)
         for n in (100, 1000):
-            spar = generated_spar(tmp, n, staves="auto", wall='"auto"')
+            spar = generated_spar(tmp, n, staves="auto", wall='"auto"', stock=72)
             results[f"size {n} stations"] = measure([py, "-m", "stavegen", "size", str(spar)], 1)
             results[f"size {n} stations, one process"] = measure([py, "-m", "stavegen", "size", str(spar)], 1,
                                                                  {"STAVEGEN_WORKERS": "1"})
