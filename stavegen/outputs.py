@@ -248,7 +248,8 @@ def recover(folder: Path) -> list[str]:
                 os.unlink(folder / name)
             except OSError:
                 pass
-    _fsync_folder(folder)
+    if finished:
+        _fsync_folder(folder)
     return finished
 
 
@@ -384,8 +385,7 @@ class OutputSet:
                     _rename(temp, final)
                 _fsync_folder(self.folder)
                 _redo(self.folder, entries)
-                journal.unlink()
-                _fsync_folder(self.folder)
+                journal.unlink()  # not synced: should it come back after a power cut, finishing it again is a no-op
             except Exception as exc:
                 self._roll_back(entries, journal)
                 failure = write_failure(exc, f"the outputs into {self.folder}", self.key)

@@ -20,6 +20,7 @@ from __future__ import annotations
 import multiprocessing
 import os
 from concurrent.futures import ProcessPoolExecutor
+from concurrent.futures.process import BrokenProcessPool
 from typing import Any, Callable, Sequence
 
 PRELOAD = ["stavegen.sizing.count"]  # what the server imports once for every worker
@@ -69,10 +70,18 @@ class Pool:
         return self._executor
 
     def map(self, function: Callable[..., Any], items: Sequence[tuple]) -> list:
-        """``[function(*item) for item in items]``, shared out; the results in the items' order."""
+        """``[function(*item) for item in items]``, shared out; the results in the items' order.
+
+        Where worker processes cannot be started (no process semaphores on some systems), or one dies
+        (killed for memory), this process does the work itself: the results are the same.
+        """
         if self.size == 1 or len(items) < 2:
             return [function(*item) for item in items]
-        futures = [self._workers().submit(function, *item) for item in items]
+        try:
+            futures = [self._workers().submit(function, *item) for item in items]
+        except (OSError, NotImplementedError, ImportError, BrokenProcessPool):
+            self.size = 1
+            return [function(*item) for item in items]
         results: list = [None] * len(items)
         mine = [False] * len(items)
         for i in reversed(range(len(items))):
@@ -81,5 +90,8 @@ class Pool:
                 mine[i] = True
         for i, future in enumerate(futures):
             if not mine[i]:
-                results[i] = future.result()
+                try:
+                    results[i] = future.result()
+                except BrokenProcessPool:
+                    results[i] = function(*items[i])
         return results

@@ -7,7 +7,7 @@ from dataclasses import dataclass
 from ..model.spar import Profile, Spar
 
 MERGE_TOLERANCE = 0.05  # mm: positions closer than this are one station
-MOST_STATIONS = 10_000  # a build stays linear in stations and under 300 MB up to here (docs/benchmarks.md)
+MOST_STATIONS = 8_000  # a build stays under 300 MB up to here, 24 staves and all (docs/benchmarks.md)
 
 
 @dataclass(frozen=True)
