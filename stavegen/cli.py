@@ -11,6 +11,7 @@ from typing import Callable, Optional
 
 import typer
 from rich.console import Console
+from rich.markup import escape
 
 from .errors import InputError
 
@@ -120,6 +121,8 @@ def section(
     console = _console()
     for line in solved:
         console.print(f"[cyan]solved:[/] {line}")
+    for line in model.notices:
+        console.print(f"[bold yellow]warning:[/] {escape(line)}")
     console.print(section_table(model, check_station(model, station)))
     kerf = model.stock.kerf if model.stock is not None else (3.175 if model.units == "in" else 3.0)
     console.print(machining_table(model, cutter_settings(station.section, kerf)))
@@ -136,7 +139,7 @@ def size(
     """Compare every stave count (4 to 24) and show why one is chosen; solve the wall where it is "auto"."""
     from dataclasses import replace as _replace
 
-    from .model.loader import load_spar
+    from .model.loader import load_spar, read_spar_text
     from .model.rewrite import with_solved_values
     from .outputs import not_replaceable, write_file
     from .render.console import candidate_notes, candidates_table
@@ -150,6 +153,8 @@ def size(
             raise InputError(why, "--write", str(write))
     comparison = compare_stave_counts(_replace(model, hollow=_replace(model.hollow, staves="auto")))
     console = _console()
+    for line in model.notices:
+        console.print(f"[bold yellow]warning:[/] {escape(line)}")
     console.print(candidates_table(model, comparison))
     for line in candidate_notes(comparison):
         console.print(f"[dim]{line}[/]")
@@ -160,9 +165,9 @@ def size(
     if write is not None:
         chosen = comparison.chosen.spar
         original = model if model.hollow.staves == "auto" else _replace(model, hollow=_replace(model.hollow, staves="auto"))
-        text = with_solved_values(spar.read_text(encoding="utf-8"), original, chosen)
+        text = with_solved_values(read_spar_text(spar), original, chosen)
         write_file(write, text, force=force, key="--write")
-        console.print(f"wrote {write}")
+        console.print(f"wrote {escape(str(write))}")
 
 
 @app.command()
@@ -192,8 +197,10 @@ def init(
 
     if units not in ("in", "mm"):
         raise InputError(f'{units!r} is not "in" or "mm"', "--units")
+    if path.is_dir() or path.name in ("", ".", ".."):
+        raise InputError("is a folder; give the spar file's name, e.g. my-mast.toml", source=str(path))
     write_file(path, starter_text(units), force=force)
-    _console().print(f"wrote {path}: edit it, then run [bold]stavegen check {path}[/]")
+    _console().print(f"wrote {escape(str(path))}: edit it, then run [bold]stavegen check {escape(str(path))}[/]")
 
 
 @app.command()

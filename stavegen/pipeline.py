@@ -75,7 +75,8 @@ def design(spar: Spar, layout: bool = False, step: Callable[[str], None] | None 
             shop = lay_out(spar, cache, step=tell)
     except InputError as exc:
         raise exc.located(spar.source)
-    return Design(spar=spar, assessment=result, warnings=tuple(warnings_for(result)), layout=shop, solved=lines)
+    warnings = tuple(spar.notices) + tuple(warnings_for(result))  # the loader's first: they concern the figures
+    return Design(spar=spar, assessment=result, warnings=warnings, layout=shop, solved=lines)
 
 
 def _solve(spar: Spar) -> "Solved":

@@ -15,6 +15,8 @@ from dataclasses import dataclass
 from enum import Enum
 from fractions import Fraction
 
+from .errors import shown
+
 MM_PER_INCH = 25.4
 MM_PER_FOOT = 304.8
 MPA_PER_PSI = 0.006894757293168361  # 1 lbf/in² in N/mm² (exact by definition of lbf and in)
@@ -36,6 +38,8 @@ _TERM = re.compile(
     )\s*(?P<unit>feet|foot|ft|inches|inch|in|mm|cm|m|'|")?\s*""",
     re.VERBOSE | re.IGNORECASE,
 )
+LONGEST_TEXT = 60  # characters: no length, stress or density a builder writes is longer
+LARGEST = 1e9  # a number (in any unit) beyond this is no spar dimension
 _EXPONENT = re.compile(r"^\s*[-+]?(\d+\.?\d*|\.\d+)[eE][-+]?\d+\s*(mm|cm|m|in|ft)?\s*$")
 
 
@@ -45,10 +49,34 @@ class UnitError(ValueError):
 
 def _check_finite(value: float, text: object) -> float:
     if not math.isfinite(value):
-        raise UnitError(f"not a finite number: {text!r}")
-    if abs(value) > 1e9:
-        raise UnitError(f"too large to be a spar dimension: {text!r}")
+        raise UnitError(f"not a finite number: {shown(text)}")
+    if abs(value) > LARGEST:
+        raise UnitError(f"too large to be a spar dimension: {shown(text)}")
     return value
+
+
+def _as_float(value: int | float) -> float:
+    """A TOML number as a float; an integer too large for one is refused as no dimension (not an overflow)."""
+    if isinstance(value, int) and abs(value) > LARGEST:
+        raise UnitError(f"too large to be a spar dimension: {shown(value)}")
+    return float(value)
+
+
+def _checked_text(value: str, what: str) -> str:
+    text = value.strip()
+    if len(text) > LONGEST_TEXT:
+        raise UnitError(f"not {what}: {shown(value)} is too long to be one")
+    return text
+
+
+def _ratio(numerator: str, denominator: str, original: object) -> float:
+    den = int(denominator)
+    if den == 0:
+        raise UnitError(f"division by zero in {shown(original)}")
+    try:
+        return int(numerator) / den
+    except OverflowError:
+        raise UnitError(f"too large to be a spar dimension: {shown(original)}") from None
 
 
 def parse_length(value: object, units: str) -> float:
@@ -60,10 +88,10 @@ def parse_length(value: object, units: str) -> float:
     if isinstance(value, bool):
         raise UnitError(f"expected a length, got {str(value).lower()}")
     if isinstance(value, (int, float)):
-        return _check_finite(float(value) * _UNIT_MM[units], value)
+        return _check_finite(_as_float(value) * _UNIT_MM[units], value)
     if not isinstance(value, str):
         raise UnitError(f"expected a length, got {type(value).__name__}")
-    text = value.strip()
+    text = _checked_text(value, "a length")
     if not text:
         raise UnitError("empty length")
     sign = 1.0
@@ -80,25 +108,29 @@ def parse_length(value: object, units: str) -> float:
     while pos < len(text):
         term = _TERM.match(text, pos)
         if not term or term.end() == pos:
-            raise UnitError(f"not a length: {value!r} (write e.g. 4 3/4, \"13 ft 6 in\", \"120 mm\")")
+            raise UnitError(f"not a length: {shown(value)} (write e.g. 4 3/4, \"13 ft 6 in\", \"120 mm\")")
+        fraction = bool(term.group("fn") or term.group("mn"))
         if term.group("fn"):
-            den = int(term.group("fd"))
-            if den == 0:
-                raise UnitError(f"division by zero in {value!r}")
-            number = int(term.group("fn")) / den
+            number = _ratio(term.group("fn"), term.group("fd"), value)
         else:
             number = float(term.group("whole"))
             if term.group("mn"):
-                den = int(term.group("md"))
-                if den == 0:
-                    raise UnitError(f"division by zero in {value!r}")
                 if "." in term.group("whole"):
-                    raise UnitError(f"a decimal cannot carry a fraction: {value!r}")
-                number += int(term.group("mn")) / den
+                    raise UnitError(f"a decimal cannot carry a fraction: {shown(value)}")
+                number += _ratio(term.group("mn"), term.group("md"), value)
         unit = term.group("unit")
+        if fraction and unit is None and units == "mm":
+            raise UnitError(_bare_fraction(value, sign * number))
         terms.append((number, unit.lower() if unit else None))
         pos = term.end()
     return _check_finite(sign * _combine(terms, units, value), value)
+
+
+def _bare_fraction(value: str, number: float) -> str:
+    """Why a fraction without a unit is refused in a millimetre file: it reads two ways."""
+    return (f"{shown(value)} is a fraction with no unit in a millimetre file: it would be {number:g} mm, "
+            f"or {number * MM_PER_INCH:g} mm if inches were meant; write the unit (\"{value.strip()} in\") "
+            "or a decimal number of mm")
 
 
 def _combine(terms: list[tuple[float, str | None]], units: str, original: object) -> float:
@@ -110,7 +142,7 @@ def _combine(terms: list[tuple[float, str | None]], units: str, original: object
         (feet, u1), (inches, u2) = terms
         if _UNIT_MM.get(u1 or "") == MM_PER_FOOT and (u2 is None or _UNIT_MM[u2] == MM_PER_INCH):
             return feet * MM_PER_FOOT + inches * MM_PER_INCH
-    raise UnitError(f"not a length: {original!r} (combine only feet and inches, as \"13 ft 6 in\")")
+    raise UnitError(f"not a length: {shown(original)} (combine only feet and inches, as \"13 ft 6 in\")")
 
 
 def to_unit(mm: float, units: str) -> float:
@@ -156,8 +188,10 @@ def format_mm(mm: float, decimals: int = 1) -> str:
     return f"{mm:.{decimals}f} mm"
 
 
-def format_length(mm: float, units: str, tape: bool = False) -> str:
-    """A length for people: fractions of an inch (feet too if ``tape``), or mm."""
+def format_length(mm: float, units: str, tape: bool = False, way: "Way | None" = None) -> str:
+    """A length for people: fractions of an inch (feet too if ``tape``), or mm; rounded ``way`` (nearest)."""
+    if way is not None:
+        return SYSTEMS[units].length(mm, way, tape=tape)
     if units == "in":
         return format_tape(mm) if tape else format_inches(mm)
     return format_mm(mm)
@@ -201,15 +235,15 @@ def _parse_quantity(value: object, table: dict[str, float], default_unit: str, w
     if isinstance(value, bool):
         raise UnitError(f"expected {what}, got {str(value).lower()}")
     if isinstance(value, (int, float)):
-        return _check_finite(float(value) * table[default_unit], value)
+        return _check_finite(_as_float(value) * table[default_unit], value)
     if not isinstance(value, str):
         raise UnitError(f"expected {what}, got {type(value).__name__}")
-    match = _QUANTITY.match(value)
+    match = _QUANTITY.match(_checked_text(value, what))
     if not match:
-        raise UnitError(f"not {what}: {value!r}")
+        raise UnitError(f"not {what}: {shown(value)}")
     unit = (match.group(2) or default_unit).lower().replace("³", "3").replace("²", "2")
     if unit not in table:
-        raise UnitError(f"unknown unit {match.group(2)!r} for {what} (use {', '.join(table)})")
+        raise UnitError(f"unknown unit {shown(match.group(2))} for {what} (use {', '.join(table)})")
     return _check_finite(float(match.group(1)) * table[unit], value)
 
 

@@ -34,10 +34,32 @@ from stavegen.units import (
     ("12 cm", "in", 120.0),
     (120, "mm", 120.0),
     (3.5, "in", 3.5 * 25.4),
-    ("4 3/4", "mm", 4.75),
+    ("3/4 mm", "mm", 0.75),
+    ("4 3/4 in", "mm", 4.75 * 25.4),
 ])
 def test_parse(text, units, mm):
     assert parse_length(text, units) == pytest.approx(mm, rel=1e-12)
+
+
+@pytest.mark.parametrize("text, mm_reading, inch_reading", [
+    ("1/8", "0.125 mm", "3.175 mm"),
+    ("4 3/4", "4.75 mm", "120.65 mm"),
+    ("4-3/4", "4.75 mm", "120.65 mm"),
+])
+def test_bare_fraction_in_a_millimetre_file_is_refused_with_both_readings(text, mm_reading, inch_reading):
+    """A fraction is how inches are written (common practice); in a mm file it reads two ways, so say both."""
+    with pytest.raises(UnitError) as err:
+        parse_length(text, "mm")
+    assert mm_reading in str(err.value) and inch_reading in str(err.value)
+    assert parse_length(text, "in") == pytest.approx(float(inch_reading.split()[0]), rel=1e-12)
+
+
+@pytest.mark.parametrize("value", [10 ** 309, "1/" + "9" * 5000, "9" * 400 + "/1", "1" * 61, -(10 ** 400)])
+def test_huge_numbers_are_refused_not_overflowed(value):
+    with pytest.raises(UnitError):
+        parse_length(value, "in")
+    with pytest.raises(UnitError):
+        parse_stress(value, "in")
 
 
 @pytest.mark.parametrize("text", ["abc", "3 m 4 cm", "4 ft 3 ft", "1/0", "", "4.5 1/2", "in", "nan", "1e400"])

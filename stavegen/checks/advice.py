@@ -3,7 +3,7 @@
 from __future__ import annotations
 
 from ..stations.evaluate import where
-from ..units import format_length
+from ..units import Way, format_length
 from .assess import Assessment
 
 # Common practice (no source): scarf slope at least 8:1; end allowance 2 to 4 in per stave end.
@@ -24,11 +24,13 @@ def warnings_for(result: Assessment) -> list[str]:
             f"({worst.station.section.void_area:.1f} mm² at {where(spar, worst.station.z)}): the square edge "
             "does not fill the V. The flush birdsmouth closes with none; consider joint = \"birdsmouth-flush\".")
     if hollow.min_corner_wall is not None:
-        thin = min(result.stations, key=lambda c: c.station.section.corner_wall)
-        wall = thin.station.section.corner_wall
+        thin = min(result.stations, key=lambda c: c.station.section.least_wall)
+        wall = thin.station.section.least_wall
         if wall < hollow.min_corner_wall:
-            out.append(f"After rounding, the wall at the bore's corners is {format_length(wall, spar.units)} at "
-                       f"{where(spar, thin.station.z)}, below the minimum you set "
+            over = ("the notch's voids" if thin.station.section.hollow_reach > thin.station.section.bore_corner_radius
+                    else "the bore's corners")
+            out.append(f"After rounding, the wall over {over} is {format_length(wall, spar.units, way=Way.DOWN)} "
+                       f"at {where(spar, thin.station.z)}, below the minimum you set "
                        f"({format_length(hollow.min_corner_wall, spar.units)}).")
     if spar.stock is not None and spar.stock.scarf_ratio < MIN_SCARF_RATIO:
         out.append(f"Scarf ratio {spar.stock.scarf_ratio:g}:1 is steeper than the 8:1 least slope of common "

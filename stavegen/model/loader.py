@@ -2,28 +2,37 @@
 
 Every problem becomes an :class:`~stavegen.errors.InputError` that names the
 key with its table path (``hollow.plug[2].from``) and says what is wrong.
+Tables are read through their declarations in :mod:`stavegen.model.schema`:
+unknown keys anywhere in the file are reported first (with the nearest known
+key), then the values, then their plausibility (:func:`_plausibility`).
 """
 
 from __future__ import annotations
 
+import difflib
 import math
+import os
 import re
+import stat
 import tomllib
 from pathlib import Path
 from typing import Any
 
-from ..errors import InputError
-from ..units import UnitError, parse_density, parse_force, parse_length, parse_stress
+from ..errors import InputError, is_control, key_text, printable, shown
+from ..units import (
+    MM_PER_INCH,
+    UnitError,
+    format_length,
+    parse_density,
+    parse_force,
+    parse_length,
+    parse_stress,
+)
+from . import schema
 from .spar import (
     AUTO,
-    DEFAULT_HEAD_LOAD,
-    DEFAULT_STRENGTH_TARGET,
-    JOINTS,
     MAX_STAVES,
-    NOTCH_CUTS,
     MIN_STAVES,
-    PAPERS,
-    TAPERS,
     WALL_SOLVES,
     Hollow,
     Joint,
@@ -37,81 +46,102 @@ from .spar import (
 from .woods import Wood, known_wood_keys, wood_table
 
 POSITION_TOLERANCE = 0.5  # mm: a station this close to an end counts as at the end
-_QUARTERS = re.compile(r"^\s*(\d+)\s*/\s*4\s*$")
+LARGEST_FILE = 1 << 20  # bytes: a spar file is a few kilobytes; anything over a mebibyte is not one
+_QUARTERS = re.compile(r"^\s*(\d{1,3})\s*/\s*4\s*$")
+
+# Plausibility (common practice for wooden spars, no source): between two neighbouring stations a spar's
+# diameter changes far less than this; more is a slipped digit or a wrong unit.
+DIAMETER_JUMP_REFUSED = 2.5
+DIAMETER_JUMP_WARNED = 1.8
+HOLLOW_AGAINST_PLAN_WARNED = 1.5  # a given hollow diameter this many times the plan's (or under 1/this)
+SLENDERNESS_WARNED = 8.0  # length over largest diameter: spars run 15 (a bowsprit) to 80 (a mast)
+KERF_WARNED = MM_PER_INCH / 4  # wider than any ripping blade's kerf
+KERF_REFUSED = MM_PER_INCH  # no saw cuts this wide
+SHORTEST_BOARD = 12 * MM_PER_INCH  # boards are sold in feet; a "board" under a foot is a slip (8 for "8 ft")
 
 
 class _Table:
-    """One TOML table being read: hands out values by key and rejects leftovers."""
+    """One TOML table being read through its declaration in :mod:`schema`: values by key, defaults from there."""
 
-    def __init__(self, data: Any, path: str, units: str) -> None:
+    def __init__(self, data: Any, path: str, units: str, decl: schema.Table) -> None:
         if not isinstance(data, dict):
             raise InputError(f"expected a table, got {_kind(data)}", path)
         self.data = data
         self.path = path
         self.units = units
-        self.used: set[str] = set()
+        self.decl = decl
+        _check_names(data, path, decl)
 
     def key(self, name: str) -> str:
-        return f"{self.path}.{name}" if self.path else name
+        return f"{self.path}.{key_text(name)}" if self.path else key_text(name)
 
     def has(self, name: str) -> bool:
+        self.decl.get(name)
         return name in self.data
 
-    def raw(self, name: str, default: Any = ..., required: bool = False) -> Any:
-        self.used.add(name)
-        if name not in self.data:
-            if required or default is ...:
-                raise InputError("missing (required)", self.key(name))
-            return default
-        return self.data[name]
+    def raw(self, name: str) -> Any:
+        """The value as written, or the declared default as a file would write it (None when unset)."""
+        decl = self.decl.get(name)
+        if name in self.data:
+            return self.data[name]
+        if decl.required:
+            raise InputError("missing (required)", self.key(name))
+        return decl.default_for(self.units)
 
     def fail(self, name: str, problem: str) -> InputError:
         return InputError(problem, self.key(name))
 
-    def length(self, name: str, default: Any = ..., minimum: float | None = 0.0, strict: bool = True) -> Any:
-        value = self.raw(name, default)
-        if name not in self.data:
-            return value
-        return _length(value, self.units, self.key(name), minimum, strict)
+    def get(self, name: str) -> Any:
+        """The value read and checked by its declared kind; None for an optional key left unset."""
+        decl = self.decl.get(name)
+        value = self.raw(name)
+        if value is None:
+            return None
+        return _READERS[decl.kind](value, decl, self.key(name), self.units)
 
-    def number(self, name: str, default: Any = ..., low: float | None = None, high: float | None = None,
-               low_open: bool = False) -> Any:
-        value = self.raw(name, default)
-        if name not in self.data:
-            return value
-        return _number(value, self.key(name), low, high, low_open)
+    def fields(self) -> dict[str, Any]:
+        """Every key declared with a ``field``, read: the keyword arguments of the model's dataclass."""
+        return {k.field: self.get(k.name) for k in self.decl.keys if k.field}
 
-    def string(self, name: str, default: Any = ..., choices: tuple[str, ...] | None = None) -> Any:
-        value = self.raw(name, default)
+    def sub(self, name: str) -> "_Table | None":
+        decl = self.decl.get(name)
         if name not in self.data:
-            return value
-        if not isinstance(value, str):
-            raise self.fail(name, f"expected a string, got {_kind(value)}")
-        if choices is not None and value not in choices:
-            raise self.fail(name, f"{value!r} is not one of {', '.join(choices)}")
-        if not value.strip():
-            raise self.fail(name, "must not be empty")
-        return value
-
-    def boolean(self, name: str, default: bool) -> bool:
-        value = self.raw(name, default)
-        if not isinstance(value, bool):
-            raise self.fail(name, f"expected true or false, got {_kind(value)}")
-        return value
-
-    def sub(self, name: str, required: bool = False) -> "_Table | None":
-        if name not in self.data:
-            self.used.add(name)
-            if required:
+            if decl.required:
                 raise InputError(f"missing table [{self.key(name)}]", self.key(name))
             return None
-        return _Table(self.raw(name), self.key(name), self.units)
+        return _Table(self.data[name], self.key(name), self.units, schema.TABLES[_decl_path(self.decl, name)])
 
-    def finish(self) -> None:
-        extra = [k for k in self.data if k not in self.used]
-        if extra:
-            known = ", ".join(sorted(self.used))
-            raise InputError(f"unknown key (known here: {known})", self.key(extra[0]))
+
+def _decl_path(decl: schema.Table, name: str) -> str:
+    return f"{decl.path}.{name}" if decl.path else name
+
+
+def _check_names(data: dict, path: str, decl: schema.Table) -> None:
+    """Refuse the first key ``decl`` does not declare, naming the nearest known key."""
+    for name in data:
+        if name in decl.names:
+            continue
+        where = f"{path}.{key_text(name)}" if path else key_text(name)
+        near = difflib.get_close_matches(str(name).lower(), decl.names, n=1, cutoff=0.6)
+        hint = f"; did you mean {near[0]}?" if near else ""
+        raise InputError(f"unknown key{hint} (known here: {', '.join(sorted(decl.names))})", where)
+
+
+def _check_all_names(data: Any, path: str, decl: schema.Table) -> None:
+    """Check key names throughout the file before any value, so a misspelt key is reported as itself."""
+    if not isinstance(data, dict):
+        return
+    _check_names(data, path, decl)
+    for key in decl.keys:
+        value = data.get(key.name)
+        where = f"{path}.{key.name}" if path else key.name
+        if key.kind == "table" and isinstance(value, dict):
+            _check_all_names(value, where, schema.TABLES[_decl_path(decl, key.name)])
+        elif key.kind == "tables" and isinstance(value, list):
+            for i, item in enumerate(value):
+                _check_all_names(item, f"{where}[{i + 1}]", schema.TABLES[_decl_path(decl, key.name)])
+        elif key.kind == "wood" and isinstance(value, dict):
+            _check_all_names(value, where, schema.WOOD)
 
 
 def _kind(value: Any) -> str:
@@ -121,13 +151,15 @@ def _kind(value: Any) -> str:
         return "a table"
     if isinstance(value, list):
         return "a list"
-    return f"{type(value).__name__} {value!r}"
+    return f"{type(value).__name__} {shown(value)}"
 
 
 def _number(value: Any, key: str, low: float | None = None, high: float | None = None,
             low_open: bool = False) -> float:
     if isinstance(value, bool) or not isinstance(value, (int, float)):
         raise InputError(f"expected a number, got {_kind(value)}", key)
+    if isinstance(value, int) and abs(value) > 1e15:
+        raise InputError(f"too large, got {shown(value)}", key)
     value = float(value)
     if not math.isfinite(value):
         raise InputError(f"must be a finite number, got {value}", key)
@@ -146,8 +178,54 @@ def _length(value: Any, units: str, key: str, minimum: float | None = 0.0, stric
         raise InputError(str(exc), key) from None
     if minimum is not None and (mm < minimum or (strict and mm <= minimum)):
         word = "positive" if minimum == 0 and strict else f"at least {minimum:g} mm"
-        raise InputError(f"must be {word}, got {value!r}", key)
+        raise InputError(f"must be {word}, got {shown(value)}", key)
     return mm
+
+
+def _text(value: Any, key: str, choices: tuple[str, ...] = (), longest: int | None = None) -> str:
+    if not isinstance(value, str):
+        raise InputError(f"expected a string, got {_kind(value)}", key)
+    if choices and value not in choices:
+        raise InputError(f"{shown(value)} is not one of {', '.join(choices)}", key)
+    if not value.strip():
+        raise InputError("must not be empty", key)
+    bad = next((ch for ch in value if is_control(ch)), None)
+    if bad is not None:
+        raise InputError(f"holds a control character ({printable(bad)}) in {shown(value)}; write plain text", key)
+    if longest is not None and len(value) > longest:
+        raise InputError(f"is {len(value):,} characters long; keep it to {longest}", key)
+    return value
+
+
+def _quantity(parse):
+    def read(value: Any, decl: schema.Key, key: str, units: str) -> float:
+        try:
+            number = parse(value, units)
+        except UnitError as exc:
+            raise InputError(str(exc), key) from None
+        if number <= 0:
+            raise InputError(f"must be positive, got {shown(value)}", key)
+        return number
+    return read
+
+
+def _read_bool(value: Any, decl: schema.Key, key: str, units: str) -> bool:
+    if not isinstance(value, bool):
+        raise InputError(f"expected true or false, got {_kind(value)}", key)
+    return value
+
+
+_READERS = {
+    "length": lambda v, d, k, u: _length(v, u, k, 0.0, strict=not d.zero_ok),
+    "number": lambda v, d, k, u: _number(v, k, d.low, d.high, d.low_open),
+    "text": lambda v, d, k, u: _text(v, k, longest=d.longest),
+    "choice": lambda v, d, k, u: _text(v, k, choices=d.choices),
+    "bool": _read_bool,
+    "force": _quantity(parse_force),
+    "stress": _quantity(parse_stress),
+    "density": _quantity(parse_density),
+}
+"""Readers of the kinds a key can be read by generically: (value, declaration, key path, units) -> value."""
 
 
 def _pairs(value: Any, key: str, what: str) -> list[Any]:
@@ -168,9 +246,10 @@ def _profile(value: Any, units: str, key: str, length: float, what: str, whole_l
         k = f"{key}[{i + 1}]"
         z = _length(pos, units, k, minimum=0.0, strict=False)
         if z > length + POSITION_TOLERANCE:
-            raise InputError(f"position {pos!r} is past the spar's length", k)
+            raise InputError(f"position {shown(pos)} is past the spar's length", k)
         if zs and z <= zs[-1]:
-            raise InputError(f"position {pos!r} is not after the one before it (stations must go heel to head)", k)
+            raise InputError(f"position {shown(pos)} is not after the one before it (stations must go heel to head)",
+                             k)
         zs.append(min(z, length))
         vs.append(_length(val, units, k))
     if whole_length:
@@ -194,26 +273,16 @@ def _wood(value: Any, units: str, key: str) -> Wood:
     table = wood_table()
     if isinstance(value, str):
         if value not in table:
-            raise InputError(f"unknown wood {value!r}; known: {', '.join(known_wood_keys())}, "
+            near = difflib.get_close_matches(value.lower(), list(table), n=1, cutoff=0.6)
+            hint = f"did you mean {near[0]}? " if near else ""
+            raise InputError(f"unknown wood {shown(value)}; {hint}known: {', '.join(known_wood_keys())}, "
                              "or a table with name, moe, mor, density", key)
         return table[value]
     if isinstance(value, dict):
-        t = _Table(value, key, units)
-        name = t.string("name")
-        try:
-            moe = parse_stress(t.raw("moe"), units)
-            mor = parse_stress(t.raw("mor"), units)
-        except UnitError as exc:
-            raise InputError(str(exc), key) from None
-        try:
-            density = parse_density(t.raw("density"), units)
-        except UnitError as exc:
-            raise InputError(str(exc), t.key("density")) from None
-        source = t.string("source", "defined in the spar file")
-        t.finish()
-        for label, v in (("moe", moe), ("mor", mor), ("density", density)):
-            if v <= 0:
-                raise InputError("must be positive", t.key(label))
+        t = _Table(value, key, units, schema.WOOD)
+        name = t.get("name")
+        moe, mor, density = t.get("moe"), t.get("mor"), t.get("density")
+        source = t.get("source")
         if not 1000 <= moe <= 40000:
             raise InputError(f"modulus {moe:.0f} MPa is outside the range of woods (1,000 to 40,000 MPa); "
                              "psi for inch files, MPa for mm files, or write the unit", t.key("moe"))
@@ -226,20 +295,19 @@ def _wood(value: Any, units: str, key: str) -> Wood:
     raise InputError(f"expected a wood name or a table, got {_kind(value)}", key)
 
 
-def _joint(t: _Table, units: str) -> Joint:
-    kind = t.string("joint", "birdsmouth-flush", JOINTS)
+def _joint(t: _Table) -> Joint:
+    kind = t.get("joint")
     notch = t.sub("notch")
     if kind != "birdsmouth-custom":
         if notch is not None:
-            raise t.fail("notch", f"a [hollow.notch] table is for joint = \"birdsmouth-custom\", not {kind!r}")
+            raise t.fail("notch", f"a [hollow.notch] table is for joint = \"birdsmouth-custom\", not {shown(kind)}")
         return Joint(kind)
     if notch is None:
         raise t.fail("notch", "joint \"birdsmouth-custom\" needs a [hollow.notch] table with depth and apex_height"
                               " (or apex_fraction)")
-    depth = notch.length("depth")
-    height = notch.length("apex_height", None)
-    fraction = notch.number("apex_fraction", None, low=0.0, high=1.0, low_open=True)
-    notch.finish()
+    depth = notch.get("depth")
+    height = notch.get("apex_height")
+    fraction = notch.get("apex_fraction")
     if (height is None) == (fraction is None):
         raise notch.fail("apex_height", "give exactly one of apex_height (a length) and apex_fraction (0 to 1)")
     if fraction is not None and fraction >= 1.0:
@@ -248,16 +316,16 @@ def _joint(t: _Table, units: str) -> Joint:
 
 
 def _plugs(value: Any, units: str, length: float, default_wood: Wood) -> tuple[Plug, ...]:
+    if value is None:
+        return ()
     if not isinstance(value, list):
         raise InputError("expected [[hollow.plug]] tables", "hollow.plug")
     plugs = []
     for i, item in enumerate(value):
-        t = _Table(item, f"hollow.plug[{i + 1}]", units)
-        start = t.length("from", minimum=0.0, strict=False)
-        end = t.length("to", minimum=0.0, strict=False)
+        t = _Table(item, f"hollow.plug[{i + 1}]", units, schema.PLUG)
+        start = t.get("from")
+        end = t.get("to")
         wood = _wood(t.raw("wood"), units, t.key("wood")) if t.has("wood") else default_wood
-        t.used.add("wood")
-        t.finish()
         if end > length + POSITION_TOLERANCE:
             raise t.fail("to", "is past the spar's length")
         if end <= start:
@@ -275,55 +343,40 @@ def _wall(value: Any, units: str, length: float) -> Profile | str:
     if value in WALL_SOLVES:
         return value
     if isinstance(value, str) and value.strip().lower().startswith("auto"):
-        raise InputError(f"{value!r} is not a wall; give a thickness, [[position, thickness], ...], "
+        raise InputError(f"{shown(value)} is not a wall; give a thickness, [[position, thickness], ...], "
                          f"or one of {', '.join(repr(v) for v in WALL_SOLVES)}", "hollow.wall")
     if isinstance(value, list):
         return _profile(value, units, "hollow.wall", length, "thickness", whole_length=False)
     return Profile.constant(_length(value, units, "hollow.wall"), length)
 
 
-def _hollow(t: _Table, units: str, length: float, plan: Plan) -> Hollow:
-    imperial = units == "in"
-    wood = _wood(t.raw("wood"), units, t.key("wood"))
+def _staves(t: _Table) -> int | str:
     staves = t.raw("staves")
     if staves != AUTO:
         if isinstance(staves, bool) or not isinstance(staves, int):
             raise t.fail("staves", f"expected a whole number of staves or \"auto\", got {_kind(staves)}")
         if not MIN_STAVES <= staves <= MAX_STAVES:
-            raise t.fail("staves", f"must be from {MIN_STAVES} to {MAX_STAVES}, got {staves}")
-    joint = _joint(t, units)
+            raise t.fail("staves", f"must be from {MIN_STAVES} to {MAX_STAVES}, got {shown(staves)}")
+    return staves
+
+
+def _hollow(t: _Table, units: str, length: float, plan: Plan) -> Hollow:
+    wood = _wood(t.raw("wood"), units, t.key("wood"))
+    staves = _staves(t)
+    joint = _joint(t)
     wall = _wall(t.raw("wall"), units, length)
     if t.has("stations") and t.raw("stations") == AUTO:
         diameter, given = AUTO, False
     elif t.has("stations") and isinstance(t.raw("stations"), str):
-        raise t.fail("stations", f"expected [[position, diameter], ...] or \"auto\", got {t.raw('stations')!r}")
+        raise t.fail("stations", f"expected [[position, diameter], ...] or \"auto\", got {shown(t.raw('stations'))}")
     elif t.has("stations"):
-        diameter = _profile(t.raw("stations"), units, t.key("stations"), length, "diameter", whole_length=True)
+        diameter = _diameters(t.raw("stations"), units, t.key("stations"), length)
         given = True
     else:
-        t.used.add("stations")
         diameter, given = plan.diameter, False
-    plugs = _plugs(t.raw("plug", []), units, length, wood)
-    hollow = Hollow(
-        wood=wood,
-        staves=staves,
-        joint=joint,
-        wall=wall,
-        diameter=diameter,
-        diameter_given=given,
-        lamination_factor=t.number("lamination_factor", 1.0, low=0.0, high=2.0, low_open=True),
-        margin=t.number("margin", 0.0, low=0.0, high=5.0),
-        min_strength_ratio=t.number("min_strength_ratio", DEFAULT_STRENGTH_TARGET, low=0.0, high=10.0,
-                                    low_open=True),
-        strength_target_given=t.has("min_strength_ratio"),
-        min_corner_wall=t.length("min_corner_wall", None),
-        planing_allowance=t.length("planing_allowance", 1.5875 if imperial else 1.5, strict=False),
-        end_allowance=t.length("end_allowance", 76.2 if imperial else 75.0, strict=False),
-        taper=t.string("taper", "square-edge", TAPERS),
-        notch_cut=t.string("notch_cut", "thickest-wall", NOTCH_CUTS),
-        plugs=plugs,
-    )
-    t.finish()
+    plugs = _plugs(t.raw("plug"), units, length, wood)
+    hollow = Hollow(wood=wood, staves=staves, joint=joint, wall=wall, diameter=diameter, diameter_given=given,
+                    plugs=plugs, strength_target_given=t.has("min_strength_ratio"), **t.fields())
     if isinstance(wall, Profile) and isinstance(diameter, Profile):
         for z, thick in zip(wall.z, wall.value):
             radius = float(diameter.at(z)) / 2
@@ -352,9 +405,27 @@ def _lengths(value: Any, units: str, key: str) -> tuple[float, ...]:
     return tuple(_length(v, units, f"{key}[{i + 1}]") for i, v in enumerate(value))
 
 
+def _no_scarf(t: _Table, units: str, length: float) -> tuple[tuple[float, float], ...]:
+    value = t.raw("no_scarf")
+    if value is None or value == []:
+        return ()
+    if not isinstance(value, list):
+        raise t.fail("no_scarf", f"expected a list of [from, to] ranges, got {_kind(value)}")
+    ranges = []
+    for i, pair in enumerate(_pairs(value, t.key("no_scarf"), "position")):
+        k = f"{t.key('no_scarf')}[{i + 1}]"
+        a = _length(pair[0], units, k, minimum=0.0, strict=False)
+        b = _length(pair[1], units, k, minimum=0.0, strict=False)
+        if b <= a:
+            raise InputError("the range must end after it starts", k)
+        if a > length + POSITION_TOLERANCE:
+            raise InputError("starts past the spar's length", k)
+        ranges.append((a, min(b, length)))
+    return tuple(sorted(ranges))
+
+
 def _stock(t: _Table, units: str, length: float, hollow: Hollow) -> Stock:
-    imperial = units == "in"
-    thickness = t.length("thickness")
+    thickness = t.get("thickness")
     nominal = thickness
     if t.has("nominal_thickness"):
         nominal = _thickness_quarters(t.raw("nominal_thickness"), units, t.key("nominal_thickness"))
@@ -370,34 +441,11 @@ def _stock(t: _Table, units: str, length: float, hollow: Hollow) -> Stock:
             if n < w - 1e-9:
                 raise InputError("must not be less than the dressed width", f"{t.key('nominal_widths')}[{i + 1}]")
     lengths = _lengths(t.raw("lengths"), units, t.key("lengths"))
-    no_scarf_raw = t.raw("no_scarf", [])
-    ranges = []
-    if no_scarf_raw:
-        for i, pair in enumerate(_pairs(no_scarf_raw, t.key("no_scarf"), "position")):
-            k = f"{t.key('no_scarf')}[{i + 1}]"
-            a = _length(pair[0], units, k, minimum=0.0, strict=False)
-            b = _length(pair[1], units, k, minimum=0.0, strict=False)
-            if b <= a:
-                raise InputError("the range must end after it starts", k)
-            if a > length + POSITION_TOLERANCE:
-                raise InputError("starts past the spar's length", k)
-            ranges.append((a, min(b, length)))
-    elif not isinstance(no_scarf_raw, list):
-        raise t.fail("no_scarf", f"expected a list of [from, to] ranges, got {_kind(no_scarf_raw)}")
-    stock = Stock(
-        thickness=thickness,
-        nominal_thickness=nominal,
-        widths=widths,
-        nominal_widths=nominal_widths,
-        lengths=lengths,
-        kerf=t.length("kerf", 3.175 if imperial else 3.0, strict=False),
-        scarf_ratio=t.number("scarf_ratio", 8.0, low=1.0, high=50.0),
-        scarf_stagger=t.length("scarf_stagger", 304.8 if imperial else 300.0, strict=False),
-        no_scarf=tuple(sorted(ranges)),
-        waste=t.number("waste", 0.10, low=0.0, high=0.9),
-        edge_allowance=t.length("edge_allowance", 1.5875 if imperial else 1.5, strict=False),
-    )
-    t.finish()
+    no_scarf = _no_scarf(t, units, length)
+    fields = t.fields()
+    del fields["thickness"]
+    stock = Stock(thickness=thickness, nominal_thickness=nominal, widths=widths, nominal_widths=nominal_widths,
+                  lengths=lengths, no_scarf=no_scarf, **fields)
     if isinstance(hollow.wall, Profile) and hollow.wall.largest > thickness + 1e-9:
         raise InputError(f"boards {thickness:.1f} mm thick are thinner than the wall "
                          f"({hollow.wall.largest:.1f} mm)", "stock.thickness")
@@ -405,78 +453,165 @@ def _stock(t: _Table, units: str, length: float, hollow: Hollow) -> Stock:
 
 
 def _output(t: _Table | None, units: str, length: float) -> OutputOptions:
-    if t is None:
-        return OutputOptions(mark_spacing=304.8 if units == "in" else 250.0)
-    options = OutputOptions(
-        paper=t.string("paper", "letter" if units == "in" else "a4", PAPERS),
-        mark_spacing=t.length("mark_spacing", 304.8 if units == "in" else 250.0),
-        templates_on_boards=t.boolean("templates_on_boards", False),
-    )
-    t.finish()
+    t = t or _Table({}, "output", units, schema.OUTPUT)
+    options = OutputOptions(**t.fields())
     if length / options.mark_spacing > 20000:
         raise t.fail("mark_spacing", "is so small that the spar would carry over 20,000 station marks")
     return options
 
 
+def _jumps(profile: Profile, key: str, units: str):
+    """(key of the station, factor, words) for each stretch of a diameter profile: how much it changes."""
+    for i in range(1, len(profile.value)):
+        a, b = profile.value[i - 1], profile.value[i]
+        jump = max(a, b) / min(a, b)
+        yield (f"{key}[{i + 1}]", jump, f"the diameter goes from {format_length(a, units)} at {key}[{i}] to "
+                                        f"{format_length(b, units)} ({jump:.2f} times) in one stretch")
+
+
+def _diameters(value: Any, units: str, key: str, length: float) -> Profile:
+    """A diameter profile heel to head, refused where it jumps as no spar does (a slipped digit, a wrong unit)."""
+    profile = _profile(value, units, key, length, "diameter", whole_length=True)
+    for here, jump, said in _jumps(profile, key, units):
+        if jump >= DIAMETER_JUMP_REFUSED:
+            raise InputError(f"{said}: no spar tapers that fast; a slipped digit or a wrong unit?", here)
+    return profile
+
+
+def _plausibility(spar: Spar) -> tuple[str, ...]:
+    """Refuse figures no spar could have (a slipped digit, a wrong unit); one warning line for unlikely ones."""
+    notices: list[str] = []
+    show = lambda mm: format_length(mm, spar.units)  # noqa: E731
+    profiles = [("plan.stations", spar.plan.diameter)]
+    if spar.hollow.diameter_given and isinstance(spar.hollow.diameter, Profile):
+        profiles.append(("hollow.stations", spar.hollow.diameter))
+    for key, profile in profiles:
+        for here, jump, said in _jumps(profile, key, spar.units):
+            if jump >= DIAMETER_JUMP_WARNED:
+                notices.append(f"{here}: {said}; spars rarely taper so fast: check the figures.")
+    largest = spar.plan.diameter.largest
+    if spar.length < SLENDERNESS_WARNED * largest:
+        notices.append(f"spar.length: {show(spar.length)} is only {spar.length / largest:.1f} times the plan's "
+                       f"largest diameter ({show(largest)}); spars are far more slender: check the units.")
+    if spar.hollow.diameter_given and isinstance(spar.hollow.diameter, Profile):
+        hollow = spar.hollow.diameter
+        for i, (z, d) in enumerate(zip(hollow.z, hollow.value)):
+            plan = float(spar.plan.diameter.at(z))
+            if not 1 / HOLLOW_AGAINST_PLAN_WARNED <= d / plan <= HOLLOW_AGAINST_PLAN_WARNED:
+                notices.append(f"hollow.stations[{i + 1}]: {show(d)} against the plan's {show(plan)} there "
+                               f"({d / plan:.2f} times): check the figures.")
+                break
+    wall, plan_d = spar.hollow.wall, spar.plan.diameter
+    if spar.hollow.diameter == AUTO and isinstance(wall, Profile):
+        # The diameters grow from the plan's until a bore is left: a wall past the plan's radius makes them.
+        if wall.largest >= plan_d.largest / 2:
+            raise InputError(f"a wall of {show(wall.largest)} is as thick as the plan's largest radius "
+                             f"({show(plan_d.largest / 2)}): with stations = \"auto\" the spar would grow past "
+                             "anything in the plans to leave a bore; a slipped digit or a wrong unit?", "hollow.wall")
+        for z in sorted(set(wall.z) | set(plan_d.z)):
+            thick, radius = float(wall.at(z)), float(plan_d.at(z)) / 2
+            if thick >= radius:
+                notices.append(f"hollow.wall: {show(thick)} is as thick as the plan's radius ({show(radius)}) at "
+                               f"{format_length(z, spar.units, tape=True)} from the heel: stations = \"auto\" "
+                               "enlarges the whole spar to leave a bore there; check the wall.")
+                break
+    stock = spar.stock
+    if stock is not None:
+        widest = max(stock.widths)
+        if stock.kerf >= KERF_REFUSED or stock.kerf >= widest:
+            limit = (f"as wide as the widest board ({show(widest)})" if stock.kerf >= widest
+                     else f"{show(KERF_REFUSED)} or more")
+            raise InputError(f"a kerf of {show(stock.kerf)} is {limit}: no saw cuts so wide; give the blade's "
+                             "kerf (1/8 in or 3 mm is usual)", "stock.kerf")
+        for i, board in enumerate(stock.lengths):
+            if board < SHORTEST_BOARD:
+                raise InputError(f"a board {show(board)} long is no stock for staves; lengths are board lengths "
+                                 "(write \"8 ft\" or 2400, not 8)", f"stock.lengths[{i + 1}]")
+        if stock.kerf > KERF_WARNED:
+            notices.append(f"stock.kerf: {show(stock.kerf)} is wider than a ripping blade's kerf "
+                           f"(under {show(KERF_WARNED)}): check the figure.")
+    return tuple(notices)
+
+
 def parse_spar(data: dict[str, Any], source: str = "") -> Spar:
     """A validated :class:`Spar` from parsed TOML; raises InputError naming the key."""
     try:
-        top = _Table(data, "", "in")
-        spar_t = top.sub("spar", required=True)
-        units = spar_t.string("units", "in", ("in", "mm"))
-        spar_t.units = units
-        top.units = units
-        name = spar_t.string("name")
-        length = spar_t.length("length")
-        head_load = DEFAULT_HEAD_LOAD
-        if spar_t.has("head_load"):
-            try:
-                head_load = parse_force(spar_t.raw("head_load"), units)
-            except UnitError as exc:
-                raise spar_t.fail("head_load", str(exc)) from None
-            if not head_load > 0:
-                raise spar_t.fail("head_load", f"must be a positive force, got {spar_t.raw('head_load')!r}")
-        spar_t.used.add("head_load")
-        spar_t.finish()
-        plan_t = top.sub("plan", required=True)
+        _check_all_names(data, "", schema.TOP)
+        top = _Table(data, "", "in", schema.TOP)
+        spar_t = top.sub("spar")
+        units = spar_t.get("units")
+        for t in (top, spar_t):
+            t.units = units
+        name = spar_t.get("name")
+        length = spar_t.get("length")
+        head_load = spar_t.get("head_load")
+        plan_t = top.sub("plan")
         plan = Plan(
             wood=_wood(plan_t.raw("wood"), units, plan_t.key("wood")),
-            diameter=_profile(plan_t.raw("stations"), units, plan_t.key("stations"), length, "diameter",
-                              whole_length=True),
+            diameter=_diameters(plan_t.raw("stations"), units, plan_t.key("stations"), length),
         )
-        plan_t.finish()
-        hollow = _hollow(top.sub("hollow", required=True), units, length, plan)
+        hollow = _hollow(top.sub("hollow"), units, length, plan)
         stock_t = top.sub("stock")
         stock = None if stock_t is None else _stock(stock_t, units, length, hollow)
         output = _output(top.sub("output"), units, length)
-        top.finish()
+        spar = Spar(name=name, units=units, length=length, plan=plan, hollow=hollow, stock=stock, output=output,
+                    source=source, head_load=head_load)
+        notices = _plausibility(spar)
     except InputError as exc:
         raise exc.located(source)
     return Spar(name=name, units=units, length=length, plan=plan, hollow=hollow, stock=stock, output=output,
-                source=source, head_load=head_load, head_load_given=spar_t.has("head_load"))
+                source=source, head_load=head_load, head_load_given=spar_t.has("head_load"), notices=notices)
 
 
-def load_spar(path: str | Path) -> Spar:
-    """Read and validate the spar file at ``path``."""
+def read_spar_bytes(path: str | Path) -> bytes:
+    """The bytes of the spar file at ``path``: a regular file (or a pipe) of at most :data:`LARGEST_FILE` bytes."""
     path = Path(path)
     source = str(path)
     try:
-        raw = path.read_bytes()
+        with open(path, "rb") as handle:
+            mode = os.fstat(handle.fileno()).st_mode
+            if not (stat.S_ISREG(mode) or stat.S_ISFIFO(mode)):
+                raise InputError("is not a spar file but a device or socket; give a file", source=source)
+            raw = handle.read(LARGEST_FILE + 1)
     except FileNotFoundError:
         raise InputError("no such file", source=source) from None
     except IsADirectoryError:
         raise InputError("is a folder, not a spar file", source=source) from None
     except OSError as exc:
-        raise InputError(f"cannot read: {exc.strerror}", source=source) from None
+        raise InputError(f"cannot read: {exc.strerror or exc}", source=source) from None
+    if len(raw) > LARGEST_FILE:
+        raise InputError(f"is larger than {LARGEST_FILE // 1024:,} KiB: not a spar file", source=source)
+    return raw
+
+
+def _decoded(raw: bytes, source: str) -> str:
     try:
-        text = raw.decode("utf-8")
+        return raw.decode("utf-8")
     except UnicodeDecodeError as exc:
         raise InputError(f"not UTF-8 text (byte {exc.start}); save the spar file as UTF-8", source=source) from None
+
+
+def read_spar_text(path: str | Path) -> str:
+    """The text of the spar file at ``path`` (see :func:`read_spar_bytes`)."""
+    return _decoded(read_spar_bytes(path), str(path))
+
+
+def spar_from_bytes(raw: bytes, source: str) -> Spar:
+    """The validated spar of a spar file's bytes; ``source`` names it in messages (a path, or a label)."""
+    if len(raw) > LARGEST_FILE:
+        raise InputError(f"is larger than {LARGEST_FILE // 1024:,} KiB: not a spar file", source=source)
+    text = _decoded(raw, source)
     try:
         data = tomllib.loads(text)
     except tomllib.TOMLDecodeError as exc:
         raise InputError(f"TOML syntax error: {exc}", source=source) from None
+    except ValueError as exc:  # tomllib's int() on a number of thousands of digits
+        raise InputError(f"TOML: a number too long to read ({shown(str(exc), 60)})", source=source) from None
     if not data:
         raise InputError("the file is empty (no tables); `stavegen init` writes a starter spar file", source=source)
     return parse_spar(data, source)
 
+
+def load_spar(path: str | Path) -> Spar:
+    """Read and validate the spar file at ``path``."""
+    return spar_from_bytes(read_spar_bytes(path), str(path))

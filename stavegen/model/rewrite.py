@@ -1,20 +1,22 @@
 """Write solved values back into a spar file's text, keeping its comments and layout.
 
-Only the values of ``hollow.staves``, ``hollow.wall`` and ``hollow.stations``
-that were ``"auto"`` are replaced, in place, each on its own line. Solved
-lengths are rounded up (never down) to the 1/32 in or 0.1 mm a builder
-dresses to, so the written spar is at least as stiff as the solved one.
+The file is edited as a TOML document (tomlkit), not as lines of text: only
+the values of ``hollow.staves``, ``hollow.wall`` and ``hollow.stations``
+that were ``"auto"`` are replaced, each keeping its place and its trailing
+comment; every other byte of the file stays as it was. Solved lengths are
+rounded up (never down) to the 1/32 in or 0.1 mm a builder dresses to, so
+the written spar is at least as stiff as the solved one.
 """
 
 from __future__ import annotations
 
 import math
-import re
+
+import tomlkit
+from tomlkit.items import Item
 
 from ..units import MM_PER_INCH, format_inches
 from .spar import AUTO, WALL_SOLVES, Profile, Spar
-
-_TABLE = re.compile(r"^\s*\[(?!\[)([^\]]+)\]\s*(#.*)?$")
 
 
 def _up(mm: float, units: str) -> str:
@@ -38,35 +40,30 @@ def _profile(profile: Profile, units: str, pairs: bool = False) -> str:
     return f"[{pairs}]"
 
 
-def _replace_in_hollow(text: str, key: str, value: str) -> str:
-    """Replace ``key = ...`` (one line) in the [hollow] table of ``text``, keeping a trailing comment."""
-    lines = text.splitlines(keepends=True)
-    table = None
-    for i, line in enumerate(lines):
-        header = _TABLE.match(line)
-        if header:
-            table = header.group(1).strip()
-            continue
-        if line.lstrip().startswith("[["):
-            table = None
-            continue
-        if table != "hollow":
-            continue
-        m = re.match(rf"^(\s*{key}\s*=\s*)(\"[^\"]*\"|'[^']*'|[^#\n]*?)(\s*#.*)?(\r?\n)?$", line)
-        if m:
-            lines[i] = f"{m.group(1)}{value}{m.group(3) or ''}{m.group(4) or ''}"
-            return "".join(lines)
-    raise ValueError(f"no {key} in [hollow]")
+def _replace(table, key: str, toml_value: str) -> None:
+    """Set ``key`` of ``table`` to the TOML value written ``toml_value``, keeping the old value's comment."""
+    if key not in table:
+        raise ValueError(f"no {key} in [hollow]")
+    old = table.item(key) if hasattr(table, "item") else table[key]
+    new = tomlkit.value(toml_value)
+    if isinstance(old, Item):
+        new.trivia.indent = old.trivia.indent
+        new.trivia.comment_ws = old.trivia.comment_ws
+        new.trivia.comment = old.trivia.comment
+        new.trivia.trail = old.trivia.trail
+    table[key] = new
 
 
 def with_solved_values(text: str, original: Spar, solved: Spar) -> str:
     """``text`` (the spar file) with the values ``original`` left "auto" filled in from ``solved``."""
+    doc = tomlkit.parse(text)
+    hollow = doc["hollow"]
     h, s = original.hollow, solved.hollow
     units = original.units
     if h.staves == AUTO:
-        text = _replace_in_hollow(text, "staves", str(s.staves))
+        _replace(hollow, "staves", str(s.staves))
     if isinstance(h.wall, str) and h.wall in WALL_SOLVES:
-        text = _replace_in_hollow(text, "wall", _profile(s.wall, units))
+        _replace(hollow, "wall", _profile(s.wall, units))
     if h.diameter == AUTO:
-        text = _replace_in_hollow(text, "stations", _profile(s.diameter, units, pairs=True))
-    return text
+        _replace(hollow, "stations", _profile(s.diameter, units, pairs=True))
+    return tomlkit.dumps(doc)

@@ -26,6 +26,7 @@ DEFAULT_STRENGTH_TARGET = 1.0  # the hollow spar at least as strong as the plan 
 DEFAULT_HEAD_LOAD = 1000.0  # N: the reference sideways head load for comparing deflections (1 kN)
 PAPERS = ("letter", "a4")
 MIN_STAVES, MAX_STAVES = 4, 24
+SLUG_LONGEST = 60  # characters of the file-name stem made from the spar's name
 
 
 @dataclass(frozen=True)
@@ -175,14 +176,22 @@ class Spar:
     source: str = ""
     head_load: float = DEFAULT_HEAD_LOAD
     head_load_given: bool = False
+    notices: tuple[str, ...] = ()
+    """Warnings the loader found (unlikely figures), one line each; the pipeline passes them on."""
 
     @property
     def slug(self) -> str:
-        """File-name stem for outputs: lowercase words joined by hyphens."""
+        """File-name stem for outputs: lowercase words joined by hyphens, cut at a word to 60 characters."""
         import re
 
-        words = re.findall(r"[a-z0-9]+", self.name.lower())
-        return "-".join(words) or "spar"
+        slug = ""
+        for word in re.findall(r"[a-z0-9]+", self.name.lower()):
+            joined = f"{slug}-{word}" if slug else word
+            if len(joined) > SLUG_LONGEST:
+                slug = slug or word[:SLUG_LONGEST]
+                break
+            slug = joined
+        return slug or "spar"
 
     @property
     def resolved(self) -> bool:

@@ -1,115 +1,102 @@
-"""The commented starter spar file that ``stavegen init`` writes."""
+"""The commented starter spar file that ``stavegen init`` writes, in inches or millimetres.
+
+One template for both unit systems, drawn from the schema
+(:mod:`stavegen.model.schema`): every key of every table is written with
+its meaning as a comment. Keys the example sets are live; the others are
+commented out at their default (or at a value to show), so removing the
+``#`` is all it takes to use them.
+"""
 
 from __future__ import annotations
 
-_INCH = '''# stavegen spar file. Lengths are bare numbers in the file's unit or strings
-# that carry their own: "16 ft", "3 ft 4 in", "4 3/4", "1/8 in", "120 mm".
-# Replace every figure below with your own plans' figures before you cut wood.
+import textwrap
 
-[spar]
-name = "My mast"
-units = "in"                      # "in" or "mm": bare numbers and printed output
-length = "16 ft"                  # heel to head, finished
+from . import schema
+from .schema import PerUnit, toml_text
 
-[plan]                            # the solid spar in the plans: the stiffness target
-wood = "sitka-spruce"             # `stavegen woods` lists the built-in woods
-stations = [[0, 3.5], ["5 ft", 3.5], ["12 ft", 3.0], ["16 ft", 2.0]]   # [from heel, diameter]
+COLUMN = 34  # where the comments start
+WIDTH = 110  # longest line
 
-[hollow]                          # the spar you will build
-wood = "douglas-fir-coast"
-staves = 8                        # 4 to 24 (5 or more for a birdsmouth), or "auto"
-joint = "birdsmouth-flush"        # birdsmouth-flush | birdsmouth-centered | birdsmouth-custom | bevel
-wall = "11/16"                    # stave thickness, or [[from heel, thickness], ...], or "auto":
-                                  # the least constant wall that meets the target ("auto-tapered":
-                                  # the least at each station, linear between)
-# stations = [[0, 3.6], ...]      # finished diameters if not the plan's, or "auto": the plan's
-                                  # enlarged just enough for the wall given (not with an "auto" wall)
-lamination_factor = 1.0           # credit on E for laminated construction; 1.0 = none
-margin = 0.0                      # EI ratio must reach 1 + margin
-planing_allowance = "1/16"        # on the radius, taken off when rounding
-end_allowance = 3                 # extra stave length at each end, trimmed after glue-up
-taper = "square-edge"             # notch on a straight edge, taper off the square edge; or "symmetric"
+_HEAD = {
+    "in": ["# Lengths are bare numbers in the file's unit or strings that carry their own:",
+           '# "16 ft", "3 ft 4 in", "4 3/4", "1/8 in", "120 mm".'],
+    "mm": ["# Lengths are bare numbers in the file's unit or strings that carry their own:",
+           '# "4.9 m", "120 mm", "16 ft", "4 3/4 in" (a fraction in a millimetre file needs its unit).'],
+}
+# The second plug of the example (the first is drawn from the schema's examples).
+_MASTHEAD_PLUG = {"from": PerUnit('"15 ft"', "4600"), "to": PerUnit('"16 ft"', "4900")}
 
-[[hollow.plug]]                   # solid blocking in the bore: heel
-from = 0
-to = 10
 
-[[hollow.plug]]                   # and masthead
-from = "15 ft"
-to = "16 ft"
 
-[stock]                           # boards the staves are ripped from
-thickness = 0.75                  # dressed thickness (must cover the wall, solved or given)
-nominal_thickness = "4/4"         # for the board-foot tally
-widths = [5.5, 7.25]              # dressed widths you can buy
-nominal_widths = [6, 8]           # their nominal widths, for the tally
-lengths = ["8 ft", "10 ft", "12 ft"]
-kerf = "1/8"
-scarf_ratio = 8                   # scarf length = ratio x thickness
-scarf_stagger = 12                # least distance between scarfs in neighbouring staves
-no_scarf = [["4 ft", "6 ft"]]     # ranges where no scarf may fall (partners, hounds)
-waste = 0.10                      # added to the order
+def _comment_lines(prefix: str, comment: str) -> list[str]:
+    """``prefix`` padded to the comment column, then ``# comment`` wrapped under it."""
+    if len(prefix) < COLUMN - 1:
+        parts = textwrap.wrap(comment, WIDTH - COLUMN - 2) or [""]
+        return [f"{prefix:<{COLUMN - 1}} # {parts[0]}"] + [f"{'':<{COLUMN - 1}} # {part}" for part in parts[1:]]
+    if len(prefix) + 4 + len(comment) <= WIDTH:
+        return [f"{prefix}  # {comment}"]
+    return [prefix] + [f"{'':<{COLUMN - 1}} # {part}" for part in textwrap.wrap(comment, WIDTH - COLUMN - 2)]
 
-[output]
-paper = "letter"                  # letter | a4, for the full-size templates
-mark_spacing = 12                 # station marks on the templates
-templates_on_boards = false       # true: the DXF draws each board of the order with its segments on it
-'''
 
-_MM = '''# stavegen spar file. Lengths are bare numbers in the file's unit or strings
-# that carry their own: "4.9 m", "120 mm", "16 ft", "4 3/4 in".
-# Replace every figure below with your own plans' figures before you cut wood.
+def _meaning(key: schema.Key, live: bool) -> str:
+    text = key.meaning
+    if key.kind == "choice":
+        text += ": " + " | ".join(key.choices)
+    if not live:
+        if key.required:
+            text += " (required)"
+        elif key.default is schema.UNSET:
+            text += " (not set unless given)"
+        elif isinstance(key.default, schema.Words):
+            text += f" (default: {key.default.text})"
+        elif key.aside is None:
+            text += " (the default)"
+        else:
+            text += f" (default {toml_text(key.default_for(units))})"
+    return text
 
-[spar]
-name = "My mast"
-units = "mm"                      # "in" or "mm": bare numbers and printed output
-length = "4.9 m"                  # heel to head, finished
 
-[plan]                            # the solid spar in the plans: the stiffness target
-wood = "sitka-spruce"             # `stavegen woods` lists the built-in woods
-stations = [[0, 90], [1500, 90], [3700, 76], [4900, 50]]   # [from heel, diameter]
+def _key(key: schema.Key, units: str, off: bool = False, value: PerUnit | None = None,
+         comment: bool = True) -> list[str]:
+    """The line(s) for one key: live at its example, or commented out (``off``, or when it has none)."""
+    value = value or key.example
+    live = value is not None and not off
+    if value is None:
+        value = key.aside
+    text = value.get(units) if value is not None else toml_text(key.default_for(units))
+    line = f"{'' if live else '# '}{key.name} = {text}"
+    return _comment_lines(line, _meaning(key, live)) if comment else [line]
 
-[hollow]                          # the spar you will build
-wood = "douglas-fir-coast"
-staves = 8                        # 4 to 24 (5 or more for a birdsmouth), or "auto"
-joint = "birdsmouth-flush"        # birdsmouth-flush | birdsmouth-centered | birdsmouth-custom | bevel
-wall = 18                         # stave thickness, or [[from heel, thickness], ...], or "auto":
-                                  # the least constant wall that meets the target ("auto-tapered":
-                                  # the least at each station, linear between)
-# stations = [[0, 92], ...]       # finished diameters if not the plan's, or "auto": the plan's
-                                  # enlarged just enough for the wall given (not with an "auto" wall)
-lamination_factor = 1.0           # credit on E for laminated construction; 1.0 = none
-margin = 0.0                      # EI ratio must reach 1 + margin
-planing_allowance = 1.5           # on the radius, taken off when rounding
-end_allowance = 75                # extra stave length at each end, trimmed after glue-up
-taper = "square-edge"             # or "symmetric"
 
-[[hollow.plug]]                   # solid blocking in the bore: heel
-from = 0
-to = 250
-
-[[hollow.plug]]                   # and masthead
-from = 4600
-to = 4900
-
-[stock]                           # boards the staves are ripped from
-thickness = 20                    # dressed thickness (must cover the wall, solved or given)
-nominal_thickness = 25            # for the tally
-widths = [95, 145]
-lengths = [2400, 3000, 3600]
-kerf = 3
-scarf_ratio = 8                   # scarf length = ratio x thickness
-scarf_stagger = 300               # least distance between scarfs in neighbouring staves
-no_scarf = [[1200, 1800]]         # ranges where no scarf may fall (partners, hounds)
-waste = 0.10                      # added to the order
-
-[output]
-paper = "a4"                      # letter | a4, for the full-size templates
-mark_spacing = 250                # station marks on the templates
-templates_on_boards = false       # true: the DXF draws each board of the order with its segments on it
-'''
+def _table(decl: schema.Table, units: str, off: bool = False, skip: tuple[str, ...] = ()) -> list[str]:
+    header = f"[[{decl.path}]]" if decl.array else f"[{decl.path}]"
+    header = ("# " if off else "") + header
+    lines = _comment_lines(header, decl.short) if decl.short else [header]
+    for key in decl.keys:
+        if key.name not in skip:
+            lines += _key(key, units, off=off)
+    return lines
 
 
 def starter_text(units: str = "in") -> str:
-    """A commented, valid spar file in inches or millimetres."""
-    return _INCH if units == "in" else _MM
+    """A commented, valid spar file in inches (``"in"``) or millimetres (``"mm"``) with every key in it."""
+    out = ["# stavegen spar file: every key is here. Lines starting with # are comments: the keys commented out",
+           "# are optional, shown at their default. docs/spar-file.md explains every key.",
+           *_HEAD[units],
+           "# Replace every figure below with your own plans' figures before you cut wood.", ""]
+    out += _table(schema.SPAR, units) + [""]
+    out += _table(schema.PLAN, units) + [""]
+    out += _table(schema.HOLLOW, units, skip=("notch", "plug")) + [""]
+    out += _table(schema.NOTCH, units, off=True) + [""]
+    out += _table(schema.PLUG, units) + [""]
+    out += _comment_lines("[[hollow.plug]]", "and masthead")
+    for key in schema.PLUG.keys:
+        if key.name in _MASTHEAD_PLUG:
+            out += _key(key, units, value=_MASTHEAD_PLUG[key.name], comment=False)
+    out += [""] + _table(schema.STOCK, units) + [""]
+    out += _table(schema.OUTPUT, units) + [""]
+    out += ["# A wood of your own: wherever a wood is asked for (plan, hollow, a plug), a table in place of the",
+            "# wood's key. For the staves, delete wood = ... under [hollow] and write:"]
+    out += _table(schema.WOOD, units, off=True)
+    text = "\n".join(out).replace("# [wood]", "# [hollow.wood]", 1) + "\n"
+    return text

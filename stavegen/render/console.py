@@ -4,6 +4,7 @@ from __future__ import annotations
 
 from rich import box
 from rich.console import Console
+from rich.markup import escape
 from rich.panel import Panel
 from rich.table import Table
 from rich.text import Text
@@ -37,8 +38,8 @@ def _headline(spar: Spar) -> str:
     fig = Figures(spar)
     wall_text = (fig.dress(wall.largest) if wall.is_constant
                  else f"{fig.dress(wall.smallest)} to {fig.dress(wall.largest)}")
-    return (f"[bold]{spar.name}[/]  {fig.position(spar.length)} long\n"
-            f"plan: solid {spar.plan.wood.name}   hollow: {h.staves} staves of {h.wood.name}, "
+    return (f"[bold]{escape(spar.name)}[/]  {fig.position(spar.length)} long\n"
+            f"plan: solid {escape(spar.plan.wood.name)}   hollow: {h.staves} staves of {escape(h.wood.name)}, "
             f"{h.joint.kind}, wall {wall_text}")
 
 
@@ -162,7 +163,7 @@ def print_build_summary(console: Console, design: Design, written: list) -> None
         names = [p.name for p in written]
         stem = spar.slug
         short = [names[0]] + [n[len(stem):] if n.startswith(stem + "-") else n for n in names[1:]]
-        table.add_row("written", f"{len(names)} files into {written[0].parent}: {', '.join(short)}")
+        table.add_row("written", f"{len(names)} files into {escape(str(written[0].parent))}: {', '.join(short)}")
     console.print(table)
     if lay is not None:
         console.print(Text("Order of operations", style="bold"))
@@ -221,7 +222,7 @@ def section_table(spar: Spar, check: StationCheck) -> Table:
         ("wood area", f"{sec.area:,.1f} mm²"),
         ("I of the wall", f"{sec.inertia:,.0f} mm⁴"),
         ("section modulus I/R", f"{sec.modulus:,.0f} mm³"),
-        ("plug", s.plug.wood.name if s.plug else "none"),
+        ("plug", escape(s.plug.wood.name) if s.plug else "none"),
         ("EI ratio / strength ratio", f"{check.ei_ratio:.3f} / {check.strength_ratio:.3f}"),
         ("form factor, hollow / plan", f"{check.hollow.form_factor:.3f} / {check.plan.form_factor:.3f}"),
         ("meets the targets here", "yes" if check.ok else "NO: " + " and ".join(

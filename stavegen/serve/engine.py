@@ -18,7 +18,6 @@ from __future__ import annotations
 
 import io
 import tempfile
-import tomllib
 import zipfile
 from collections import OrderedDict
 from dataclasses import replace
@@ -26,7 +25,7 @@ from pathlib import Path
 from typing import Any, Callable
 
 from ..errors import InputError
-from ..model.loader import parse_spar
+from ..model.loader import spar_from_bytes
 from ..model.spar import Spar
 from ..pipeline import Design, design
 
@@ -36,22 +35,10 @@ _designs: OrderedDict[tuple[str, bytes, bool], Design | InputError] = OrderedDic
 
 
 def spar_from_text(raw: bytes, name: str) -> Spar:
-    """The validated spar of a spar file's bytes, with the messages the loader gives a file.
-
-    The three file-level messages mirror :func:`stavegen.model.loader.load_spar`'s, which reads from a
-    path only; tests/test_serve_api.py holds every bad spar file's message to the command line's.
-    """
-    try:
-        text = raw.decode("utf-8")
-    except UnicodeDecodeError as exc:
-        raise InputError(f"not UTF-8 text (byte {exc.start}); save the spar file as UTF-8", source=name) from None
-    try:
-        data = tomllib.loads(text)
-    except tomllib.TOMLDecodeError as exc:
-        raise InputError(f"TOML syntax error: {exc}", source=name) from None
-    if not data:
-        raise InputError("the file is empty (no tables); `stavegen init` writes a starter spar file", source=name)
-    return parse_spar(data, name)
+    """The validated spar of a spar file's bytes, with the messages the loader gives a file (one reader for both:
+    :func:`stavegen.model.loader.spar_from_bytes`); tests/test_serve_api.py holds every bad spar file's message to
+    the command line's."""
+    return spar_from_bytes(raw, name)
 
 
 def designed(raw: bytes, name: str, layout: bool) -> Design:

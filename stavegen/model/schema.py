@@ -1,0 +1,332 @@
+"""Every key of the spar file, declared once.
+
+The loader (:mod:`stavegen.model.loader`) reads tables through this schema:
+a key that is not declared here is unknown, a declared key's default is
+the one written here, and keys with a ``field`` are read and checked by
+their ``kind`` with no code of their own. The key reference
+(``docs/spar-file.md``, :mod:`stavegen.model.reference`) and the starter
+file (:mod:`stavegen.model.starter`) are generated from the same
+declarations, so the three cannot drift apart.
+
+Adding a key is one line in its table below, plus the field it fills on
+the model's dataclass (``field=``): see DEVELOPERS.md.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from dataclasses import field as _field
+from typing import Any
+
+from .spar import DEFAULT_STRENGTH_TARGET, JOINTS, MAX_STAVES, MIN_STAVES, NOTCH_CUTS, PAPERS, TAPERS
+
+
+@dataclass(frozen=True)
+class PerUnit:
+    """A value as written in an inch file and in a millimetre file."""
+
+    inch: Any
+    mm: Any
+
+    def get(self, units: str) -> Any:
+        return self.inch if units == "in" else self.mm
+
+
+@dataclass(frozen=True)
+class Words:
+    """A default that is not a fixed value, in words (``"the plan's diameters"``)."""
+
+    text: str
+
+
+def toml_text(value: Any) -> str:
+    """A default's value as a TOML file writes it: ``"1/16"``, ``1.5``, ``false``."""
+    if isinstance(value, bool):
+        return "true" if value else "false"
+    if isinstance(value, str):
+        return f'"{value}"'
+    return repr(value) if isinstance(value, float) else str(value)
+
+
+REQUIRED = Words("required")
+UNSET = Words("not set")
+
+# What each kind of value accepts, for the reference. Kinds with a reader in the loader's _Table are read
+# generically (a key of such a kind needs only its line here and a field on the dataclass); the others are
+# read by the loader's own code, named in the key's line.
+KINDS: dict[str, str] = {
+    "length": "a length: a bare number in the file's unit, or a string with its own: `\"16 ft\"`, "
+              "`\"3 ft 4 in\"`, `\"4 3/4\"`, `\"1/8 in\"`, `\"120 mm\"`, `\"1.2 m\"` (a fraction in a "
+              "millimetre file needs its unit)",
+    "number": "a plain number",
+    "text": "a string of plain text (no control characters)",
+    "choice": "one of the strings listed",
+    "bool": "`true` or `false`",
+    "force": "a force: a bare number (lbf in an inch file, N in a millimetre file) or a string with its unit: "
+             "`\"225 lbf\"`, `\"1 kN\"`, `\"1000 N\"`",
+    "stress": "a stress: a bare number (psi in an inch file, MPa in a millimetre file) or a string with its "
+              "unit: `\"1.6e6 psi\"`, `\"11 GPa\"`, `\"80 MPa\"`",
+    "density": "a density: a bare number (lb/ft³ in an inch file, kg/m³ in a millimetre file) or a string "
+               "with its unit: `\"28 lb/ft3\"`, `\"450 kg/m3\"`",
+    "wood": "the key of a built-in wood (`stavegen woods` lists them) or an inline table defining one "
+            "(see *A wood of your own*)",
+    "stations": "a list of `[position from the heel, diameter]` pairs, heel to head, positions increasing",
+    "wall": "a thickness (a length), or `[[position, thickness], ...]` (one pair gives a constant wall; "
+            "several run heel to head, linear between), or `\"auto\"` / `\"auto-tapered\"`",
+    "staves": f"a whole number from {MIN_STAVES} to {MAX_STAVES}, or `\"auto\"`",
+    "lengths": "a list of lengths",
+    "ranges": "a list of `[from, to]` pairs of positions from the heel",
+    "quarters": "quarters of an inch as a string (`\"5/4\"` is 1 1/4 in, in any file), or a length",
+    "table": "a table",
+    "tables": "an array of tables, each written `[[...]]`",
+}
+
+
+@dataclass(frozen=True)
+class Key:
+    """One key of a table.
+
+    ``default`` is the value as a file would write it (a :class:`PerUnit` where it depends on the unit
+    system), :data:`REQUIRED`, :data:`UNSET` (optional, no value) or :class:`Words` for a default the
+    loader works out. ``field`` names the dataclass field a generic kind fills (None: read by hand).
+    ``low``/``high`` bound a number (``low_open``: strictly above ``low``); a length must be positive, or
+    only not negative with ``zero_ok``. ``longest`` caps a text's characters. ``example`` is what the
+    starter file writes (a PerUnit of TOML text); without one the starter writes the key commented out,
+    at ``aside`` (a value to show, for keys whose default is in words or unset) or else at its default. ``note`` is a longer explanation for the reference, ``choice_notes`` one per choice.
+    """
+
+    name: str
+    kind: str
+    meaning: str
+    default: Any = REQUIRED
+    field: str | None = None
+    choices: tuple[str, ...] = ()
+    low: float | None = None
+    high: float | None = None
+    low_open: bool = False
+    zero_ok: bool = False
+    longest: int | None = None
+    example: PerUnit | None = None
+    aside: PerUnit | None = None
+    note: str = ""
+    choice_notes: dict[str, str] = _field(default_factory=dict)
+
+    @property
+    def required(self) -> bool:
+        return self.default is REQUIRED
+
+    def default_for(self, units: str) -> Any:
+        """The default as a file would write it, or None when it has none (required, unset or in words)."""
+        if isinstance(self.default, PerUnit):
+            return self.default.get(units)
+        return None if isinstance(self.default, Words) else self.default
+
+
+@dataclass(frozen=True)
+class Table:
+    """One table of the spar file: where it sits, whether it must be there, its keys."""
+
+    path: str
+    meaning: str
+    keys: tuple[Key, ...]
+    required: bool = False
+    array: bool = False
+    note: str = ""
+    short: str = ""  # the comment on the table's line in the starter file
+
+    def __post_init__(self) -> None:
+        names = [k.name for k in self.keys]
+        assert len(names) == len(set(names)), f"a key declared twice in [{self.path}]"
+
+    @property
+    def names(self) -> tuple[str, ...]:
+        return tuple(k.name for k in self.keys)
+
+    def get(self, name: str) -> Key:
+        for key in self.keys:
+            if key.name == name:
+                return key
+        raise KeyError(f"[{self.path}] declares no key {name!r}")  # a bug in the loader, not bad input
+
+
+def _u(inch: str, mm: str) -> PerUnit:
+    return PerUnit(inch, mm)
+
+
+SPAR = Table("spar", "What the spar is and the unit the file is written in.", required=True, keys=(
+    Key("name", "text", "what the spar is called; it titles every output and names the files", longest=120,
+        example=_u('"My mast"', '"My mast"'),
+        note="The output files are named by its words in lowercase joined by hyphens, cut at a word to 60 "
+             "characters (`\"Catboat mast\"` writes `catboat-mast.json`); a name with no letters or digits "
+             "a file name can carry gives `spar`."),
+    Key("units", "choice", "the unit of bare numbers in the file and of printed figures", default="in",
+        choices=("in", "mm"), example=_u('"in"', '"mm"'),
+        choice_notes={"in": "inches; positions print as feet, inches and 32nds, stresses in psi, densities "
+                            "in lb/ft³", "mm": "millimetres; stresses in MPa, densities in kg/m³"}),
+    Key("length", "length", "heel to head, finished", example=_u('"16 ft"', '"4.9 m"')),
+    Key("head_load", "force", "sideways load at the head for the whole-spar deflection figures",
+        default="1 kN",
+        note="Not a rig load (stavegen computes none): the head deflection of the plan and of the hollow spar "
+             "are compared under it. Deflection grows in proportion to it, so the hollow / plan ratios and the "
+             "head stiffness do not depend on it; the report says which load was used."),
+))
+
+PLAN = Table("plan", "The solid spar drawn in the plans: the stiffness and strength target.", required=True,
+             short="the solid spar in the plans: the stiffness target", keys=(
+    Key("wood", "wood", "the wood the plans specify", example=_u('"sitka-spruce"', '"sitka-spruce"')),
+    Key("stations", "stations", "the plan's diameters, heel (0) to head (the spar's length)",
+        example=_u('[[0, 3.5], ["5 ft", 3.5], ["12 ft", 3.0], ["16 ft", 2.0]]',
+                   "[[0, 90], [1500, 90], [3700, 76], [4900, 50]]"),
+        note="The first position must be 0 and the last the spar's length (within 0.5 mm); diameters are "
+             "linear between stations. A diameter 2.5 times or more its neighbour's is refused as a slip "
+             "(no spar tapers that fast), and a jump of 1.8 times or more is warned of."),
+))
+
+NOTCH = Table("hollow.notch", "Your own cutter's notch, for `joint = \"birdsmouth-custom\"` only.",
+              short="your own cutter's notch, with joint = \"birdsmouth-custom\" only", keys=(
+    Key("depth", "length", "notch depth: from the notched edge to the V's apex, across the stave's width",
+        example=_u('"5/8"', "16")),
+    Key("apex_height", "length", "height of the V's apex above the stave's inner face", default=UNSET,
+        example=_u('"1/4"', "6")),
+    Key("apex_fraction", "number", "the apex height as a fraction of the stave's thickness (instead of "
+        "apex_height)", default=UNSET, low=0.0, high=1.0, low_open=True, aside=_u("0.4", "0.4")),
+), note="Give `depth` and exactly one of `apex_height` and `apex_fraction`. The V is always 90°; the stave "
+        "width follows from the closure of the staves, and the section is refused if the staves would overlap "
+        "or a stave would fall apart.")
+
+PLUG = Table("hollow.plug", "Solid blocking filling the bore over a range (heel, partners, masthead): one "
+             "`[[hollow.plug]]` table for each.", array=True, short="solid blocking in the bore: heel", keys=(
+    Key("from", "length", "where the plug starts, from the heel", zero_ok=True, example=_u("0", "0")),
+    Key("to", "length", "where it ends, from the heel", zero_ok=True, example=_u("10", "250")),
+    Key("wood", "wood", "the plug's wood", default=Words("the hollow spar's wood"),
+        aside=_u('"douglas-fir-coast"', '"douglas-fir-coast"')),
+), note="Plugs must not overlap and must end within the spar.")
+
+HOLLOW = Table("hollow", "The stave-built spar you will make.", required=True, short="the spar you will build",
+               keys=(
+    Key("wood", "wood", "the staves' wood", example=_u('"douglas-fir-coast"', '"douglas-fir-coast"')),
+    Key("staves", "staves", "how many staves; \"auto\" compares every count and keeps the one that buys the "
+        "least wood", example=_u("8", "8"),
+        note="A birdsmouth needs at least 5. With `\"auto\"`, each count is sized, checked, laid out and its "
+             "boards ordered (it needs a `[stock]` table)."),
+    Key("joint", "choice", "how neighbouring staves meet", default="birdsmouth-flush", choices=JOINTS,
+        example=_u('"birdsmouth-flush"', '"birdsmouth-flush"'),
+        choice_notes={
+            "birdsmouth-flush": "a 90° V along one edge takes the next stave's square edge, the apex placed so "
+                                "that the neighbour's outer corner lies flush with the V's outer tip: the outer "
+                                "faces make a true polygon, the joint closes with no voids for any count, and "
+                                "thickness only moves the bore (the usual choice)",
+            "birdsmouth-centered": "the V's apex at half the stave's thickness, as deep as one lip of the V "
+                                   "allows; a symmetric 45°/45° V with no voids at 8 staves, but for other counts "
+                                   "the square edge cannot fill the V and open voids remain (they are reported, "
+                                   "and warned of)",
+            "birdsmouth-custom": "the V your cutter makes, given in `[hollow.notch]`",
+            "bevel": "no notch: both edges bevelled 180°/N off square (coopered staves)",
+        }),
+    Key("notch", "table", "your cutter's notch, with joint = \"birdsmouth-custom\" (see [hollow.notch])",
+        default=UNSET),
+    Key("wall", "wall", "stave thickness before rounding", example=_u('"11/16"', "18"),
+        note="`\"auto\"`: the least constant thickness that meets the target at every station and midway "
+             "between, within `stock.thickness` and without the round breaking into the bore. "
+             "`\"auto-tapered\"`: the least thickness at each station, linear between."),
+    Key("stations", "stations", "finished diameters if not the plan's, or \"auto\"",
+        default=Words("the plan's diameters"),
+        aside=_u('[[0, 3.6], ["5 ft", 3.6], ["12 ft", 3.1], ["16 ft", 2.1]]', "[[0, 92], [1500, 92], [3700, 78], [4900, 52]]"),
+        note="`\"auto\"` (with a wall given): the plan's diameters times the least factor, never below 1, "
+             "that meets the target. Checked for slips as `plan.stations` is, and against the plan: a diameter "
+             "over 1.5 times or under two thirds of the plan's at the same place is warned of."),
+    Key("lamination_factor", "number", "credit on the staves' modulus for laminated construction; 1.0 = none",
+        default=1.0, field="lamination_factor", low=0.0, high=2.0, low_open=True, example=_u("1.0", "1.0")),
+    Key("margin", "number", "the EI ratio must reach 1 + margin at every station", default=0.0, field="margin",
+        low=0.0, high=5.0, example=_u("0.0", "0.0")),
+    Key("min_strength_ratio", "number", "least strength ratio (MOR·S of the hollow spar over the plan's) the "
+        "check and the sizing demand at every station", default=DEFAULT_STRENGTH_TARGET, field="min_strength_ratio",
+        low=0.0, high=10.0, low_open=True,
+        note="The verdict needs both stiffness (EI ratio at least 1 + margin) and strength (this ratio) at every "
+             "station, and `\"auto\"` walls are sized to meet both. A builder who accepts a spar weaker than the "
+             "plan sets it below 1, and page 1 of the report says so."),
+    Key("min_corner_wall", "length", "least wall you accept after rounding, at the bore's corners; warned "
+        "below, and kept by \"auto\" sizing", default=UNSET, field="min_corner_wall",
+        aside=_u('"1/8"', "3")),
+    Key("planing_allowance", "length", "on the radius, taken off when rounding", default=PerUnit("1/16", 1.5),
+        field="planing_allowance", zero_ok=True, example=_u('"1/16"', "1.5")),
+    Key("end_allowance", "length", "extra stave length at each end, trimmed after glue-up",
+        default=PerUnit(3, 75), field="end_allowance", zero_ok=True, example=_u("3", "75")),
+    Key("taper", "choice", "which edge of a stave takes its taper", default="square-edge", choices=TAPERS,
+        field="taper", example=_u('"square-edge"', '"square-edge"'),
+        choice_notes={"square-edge": "the notch is cut along a straight edge; the taper comes off the square "
+                                     "edge",
+                      "symmetric": "the taper is split between both edges"}),
+    Key("notch_cut", "choice", "how the notch is cut when the wall tapers", default="thickest-wall",
+        choices=NOTCH_CUTS, field="notch_cut",
+        choice_notes={"thickest-wall": "once, with one setting, on staves all dressed to the thickest wall; the "
+                                       "taper is the bore's",
+                      "follow-wall": "following the wall station by station (the thickness tapered first): no "
+                                     "fixed table-saw or router-table set-up cuts it, so the figures are given "
+                                     "station by station for a CNC router"}),
+    Key("plug", "tables", "solid blocking in the bore (see [[hollow.plug]])", default=Words("none")),
+))
+
+STOCK = Table("stock", "The boards the staves are ripped from; needed by `build`, `size` and "
+              "`staves = \"auto\"`.", short="boards the staves are ripped from", keys=(
+    Key("thickness", "length", "dressed thickness (must cover the wall, given or solved)", field="thickness",
+        example=_u("0.75", "20")),
+    Key("nominal_thickness", "quarters", "nominal thickness, for the board-foot tally",
+        default=Words("the dressed thickness"), example=_u('"4/4"', "25")),
+    Key("widths", "lengths", "dressed widths you can buy", example=_u("[5.5, 7.25]", "[95, 145]")),
+    Key("nominal_widths", "lengths", "their nominal widths, one for each width, for the tally",
+        default=Words("the dressed widths"), example=_u("[6, 8]", "[100, 150]")),
+    Key("lengths", "lengths", "board lengths you can buy", example=_u('["8 ft", "10 ft", "12 ft"]',
+                                                                      "[2400, 3000, 3600]")),
+    Key("kerf", "length", "the saw's kerf, between rips and cross-cuts", default=PerUnit("1/8", 3), field="kerf",
+        zero_ok=True, example=_u('"1/8"', "3"),
+        note="Refused at 1 in (25.4 mm) or more, or as wide as the widest board (a slip: no saw cuts so wide); "
+             "warned of above 1/4 in (6.35 mm)."),
+    Key("scarf_ratio", "number", "scarf length = ratio × stave thickness", default=8.0, field="scarf_ratio",
+        low=1.0, high=50.0, example=_u("8", "8")),
+    Key("scarf_stagger", "length", "least distance between scarfs in neighbouring staves",
+        default=PerUnit(12, 300), field="scarf_stagger", zero_ok=True, example=_u("12", "300")),
+    Key("no_scarf", "ranges", "ranges where no scarf may fall (partners, hounds)", default=Words("none"),
+        example=_u('[["4 ft", "6 ft"]]', "[[1200, 1800]]")),
+    Key("waste", "number", "share added to the order for defects and mistakes", default=0.10, field="waste",
+        low=0.0, high=0.9, example=_u("0.10", "0.10")),
+    Key("edge_allowance", "length", "added to each edge of a stave's rip for jointing", default=PerUnit("1/16", 1.5),
+        field="edge_allowance", zero_ok=True,
+        note="A rip is the stave's widest finished width plus this on each edge; the cutting diagrams and "
+             "templates on boards space segments by it."),
+))
+
+OUTPUT = Table("output", "Drawing and printing choices.", short="drawing and printing", keys=(
+    Key("paper", "choice", "paper for the full-size templates and the report", default=PerUnit("letter", "a4"),
+        choices=PAPERS, field="paper", example=_u('"letter"', '"a4"')),
+    Key("mark_spacing", "length", "spacing of the station marks on the templates", default=PerUnit(12, 250),
+        field="mark_spacing", example=_u("12", "250")),
+    Key("templates_on_boards", "bool", "the DXF draws each board of the order with its segments on it",
+        default=False, field="templates_on_boards", example=_u("false", "false")),
+))
+
+WOOD = Table("wood", "Wherever a wood is asked for (`plan.wood`, `hollow.wood`, a plug's `wood`), a table in "
+             "place of a built-in wood's key: inline, `wood = { name = \"My wood\", moe = \"1.5e6 psi\", "
+             "mor = \"12000 psi\", density = \"33 lb/ft3\", source = \"...\" }`, or as a table of its own "
+             "(`[hollow.wood]`, its keys on the lines below).", keys=(
+    Key("name", "text", "what the wood is called", longest=80, example=_u('"My wood"', '"My wood"')),
+    Key("moe", "stress", "modulus of elasticity (1,000 to 40,000 MPa)", example=_u('"1.5e6 psi"', '"10300 MPa"')),
+    Key("mor", "stress", "modulus of rupture, far below the modulus", example=_u('"12000 psi"', '"83 MPa"')),
+    Key("density", "density", "density at 12 % moisture content (100 to 1,400 kg/m³)",
+        example=_u('"33 lb/ft3"', '"530 kg/m3"')),
+    Key("source", "text", "where the figures come from", default="defined in the spar file", longest=300,
+        example=_u('"the table the figures come from"', '"the table the figures come from"')),
+), note="Use figures for clear wood at 12 % moisture content from a source you trust, and name it.")
+
+TOP = Table("", "The spar file.", required=True, keys=(
+    Key("spar", "table", SPAR.meaning),
+    Key("plan", "table", PLAN.meaning),
+    Key("hollow", "table", HOLLOW.meaning),
+    Key("stock", "table", STOCK.meaning, default=UNSET),
+    Key("output", "table", OUTPUT.meaning, default=Words("the defaults below")),
+))
+
+SPAR_FILE: tuple[Table, ...] = (SPAR, PLAN, HOLLOW, NOTCH, PLUG, STOCK, OUTPUT, WOOD)
+"""Every table, in the order the reference and the starter file give them."""
+
+TABLES: dict[str, Table] = {t.path: t for t in (TOP,) + SPAR_FILE}
