@@ -1,10 +1,11 @@
-"""Regenerate the README's pictures of the two PDFs from samples/catboat-mast.toml.
+"""Regenerate the README's pictures of the PDFs from the demo boat, samples/daysailer.toml.
 
     python docs/make_images.py
 
 Needs stavegen installed (``pip install -e .``) and pdftoppm and pdftotext (poppler-utils).
-Writes docs/images/report-page1.png, docs/images/report-boards.png (the page where the board
-order starts) and docs/images/fullsize-page.png.
+Writes docs/images/report-page1.png (page 1 of the boat's report), docs/images/report-boards.png
+(the page where the boat's board order starts) and docs/images/fullsize-page.png (a template page of
+the boat's mast).
 """
 
 from __future__ import annotations
@@ -15,13 +16,13 @@ import sys
 import tempfile
 from pathlib import Path
 
-from stavegen.model.loader import load_spar
-from stavegen.pipeline import design
+from stavegen.boat import design_boat
+from stavegen.model.boat import load_boat
+from stavegen.render.boat_report import write_boat_report
 from stavegen.render.pdf_fullsize import write_fullsize
-from stavegen.render.pdf_report import write_report
 
 ROOT = Path(__file__).resolve().parent.parent
-SPAR = ROOT / "samples" / "catboat-mast.toml"
+BOAT = ROOT / "samples" / "daysailer.toml"
 IMAGES = ROOT / "docs" / "images"
 DPI = "100"
 FULLSIZE_PAGE = 2  # the first template page: the heel end, station labels, a scarf's centre
@@ -48,11 +49,11 @@ def main() -> int:
         sys.stderr.write("pdftoppm and pdftotext (poppler-utils) are needed to render the pages\n")
         return 1
     IMAGES.mkdir(parents=True, exist_ok=True)
-    d = design(load_spar(SPAR), layout=True)
+    boat = design_boat(load_boat(BOAT), layout=True)
     with tempfile.TemporaryDirectory() as tmp:
         report, full = Path(tmp) / "report.pdf", Path(tmp) / "fullsize.pdf"
-        write_report(d, report)
-        write_fullsize(d, full)
+        write_boat_report(boat, report)
+        write_fullsize(boat.designs[0], full)
         render(report, 1, IMAGES / "report-page1.png")
         render(report, page_with(report, "Board order"), IMAGES / "report-boards.png")
         render(full, FULLSIZE_PAGE, IMAGES / "fullsize-page.png")

@@ -1,13 +1,13 @@
-"""Regenerate the README's previews of the DXF template sheet from the bundled example spar.
+"""Regenerate the README's previews of the DXF template sheet from the demo boat's mast, and of its boards.
 
     python docs/make_previews.py        # writes docs/images/templates-preview.png and templates-on-boards.png
 
 Needs the docs extra (matplotlib): ``pip install -e ".[docs]"``. The picture is
 drawn from the DXF file stavegen writes, by ezdxf's drawing add-on: the whole
 sheet on top, then three details at a readable scale (the heel end of stave
-1, the scarf between its two segments, and the end views); and the same spar with
-``output.templates_on_boards = true``: the boards of the lumber order with the
-segments on them, and the left end of the first board.
+1, the scarf between its two segments, and the end views); and the demo boat with
+``output.templates_on_boards = true``: its boards sheet, every board of the boat's
+order with every spar's segments on it, and the left end of the first board.
 """
 
 from __future__ import annotations
@@ -34,7 +34,8 @@ from stavegen.model.loader import load_spar  # noqa: E402
 from stavegen.pipeline import design  # noqa: E402
 from stavegen.render.dxf_templates import CUT, write_templates  # noqa: E402
 
-SAMPLE = ROOT / "samples" / "catboat-mast.toml"
+SAMPLE = ROOT / "samples" / "daysailer-mast.toml"  # the demo boat's mast
+BOAT = ROOT / "samples" / "daysailer.toml"
 OUT = ROOT / "docs" / "images" / "templates-preview.png"
 BOARDS_OUT = ROOT / "docs" / "images" / "templates-on-boards.png"
 CONFIG = Configuration(background_policy=BackgroundPolicy.WHITE, color_policy=ColorPolicy.COLOR)
@@ -118,24 +119,28 @@ def main() -> Path:
 
 
 def boards_preview() -> Path:
-    """The sample's sheet with templates on boards: the whole sheet, then the heel end of board B1."""
-    spar = load_spar(SAMPLE)
-    spar = dataclasses.replace(spar, output=dataclasses.replace(spar.output, templates_on_boards=True))
-    result = design(spar, layout=True)
+    """The demo boat's boards sheet (templates on boards): the whole sheet, then the left end of board B1."""
+    from stavegen.boat import design_boat
+    from stavegen.model.boat import load_boat
+    from stavegen.render.boat_dxf import write_boat_boards
+
+    boat = load_boat(BOAT)
+    boat = dataclasses.replace(boat, output=dataclasses.replace(boat.output, templates_on_boards=True))
+    result = design_boat(boat, layout=True)
     with tempfile.TemporaryDirectory() as tmp:
-        path = Path(tmp) / "templates.dxf"
-        write_templates(result, path)
+        path = Path(tmp) / "boards.dxf"
+        write_boat_boards(result, path)
         doc = ezdxf.readfile(path)
     boards = sorted((bounds(e) for e in doc.modelspace().query("LWPOLYLINE") if e.dxf.layer == "BOARD-OUTLINE"),
                     key=lambda b: (-b[3], b[0]))
     first = boards[0]  # B1, the top board
     ext_min, ext_max = doc.header["$EXTMIN"], doc.header["$EXTMAX"]
     whole = ((ext_min[0], ext_max[0]), (ext_min[1], ext_max[1]))
-    span = 40.0 if result.spar.units == "in" else 1000.0
+    span = 40.0 if boat.units == "in" else 1000.0
     pad = (first[3] - first[1]) * 0.15
     detail = ((first[0] - pad, first[0] + span), (first[1] - pad, first[3] + 2.5 * pad))
-    panels = [(whole, 16.0, "Templates on boards: each board of the order at true size, its segments where the "
-                            "order cuts them"),
+    panels = [(whole, 16.0, "Templates on boards: each board of the boat's order at true size, every spar's "
+                            "segments where the order cuts them"),
               (detail, 16.0, "Left end of board B1: the board outline (grey), rip lines, segment outlines to cut")]
 
     def height(panel) -> float:

@@ -1,4 +1,4 @@
-"""Take the README's picture of the builder's page: `stavegen serve` on the bundled example, in Debian's
+"""Take the README's picture of the builder's page: `stavegen serve` on the demo boat's mast, in Debian's
 headless Chromium driven by Selenium (the same set-up as tests/test_serve_browser.py).
 
     python docs/make_screenshot.py            # writes docs/images/serve-page.png
@@ -19,7 +19,7 @@ sys.path.insert(0, str(ROOT / "tests"))
 from browser import start_chromium, start_server, stop_server  # noqa: E402
 
 OUT = ROOT / "docs" / "images" / "serve-page.png"
-SPAR = Path("samples") / "catboat-mast.toml"  # as a builder would type it, from the repository's top
+SPAR = Path("samples") / "daysailer-mast.toml"  # as a builder would type it, from the repository's top
 
 
 def main() -> None:

@@ -22,7 +22,8 @@ app = typer.Typer(
          "the plan's stiffness, then lay out, template and order the wood for it.",
 )
 
-DEFAULT_SAMPLE = "catboat-mast.toml"
+DEFAULT_SAMPLE = "daysailer.toml"  # a boat; its spar files lie beside it
+DEFAULT_SPAR = "daysailer-mast.toml"  # one spar of that boat, for what takes a spar file only (serve)
 EXIT_MISSED = 1
 EXIT_BAD_INPUT = 2
 
@@ -74,12 +75,15 @@ def _console() -> Console:
 @app.command()
 @reports_errors
 def check(
-    spar: Path = typer.Argument(..., help="The spar file (TOML).", show_default=False),
+    spar: Path = typer.Argument(..., help="The spar file, or a boat file (TOML).", show_default=False),
     json_out: bool = typer.Option(False, "--json", help="Print the JSON document of every figure instead."),
 ) -> None:
-    """Stiffness, strength and weight against the plan, station by station."""
+    """Stiffness, strength and weight against the plan, station by station (every spar of a boat)."""
+    from .boat_commands import check_boat, is_boat_file
     from .pipeline import design_file
 
+    if is_boat_file(spar):
+        return check_boat(spar, json_out, _console())
     result = design_file(spar)
     if json_out:
         from .render.json_doc import to_json
@@ -110,6 +114,10 @@ def section(
     from .stations.grid import StationMark
     from .units import UnitError, parse_length
 
+    from .boat_commands import is_boat_file
+
+    if is_boat_file(spar):
+        raise InputError("is a boat file; give one of the spar files it lists", source=str(spar))
     model, solved = resolve(load_spar(spar))
     try:
         z = parse_length(at, model.units)
@@ -131,14 +139,19 @@ def section(
 @app.command()
 @reports_errors
 def size(
-    spar: Path = typer.Argument(..., help="The spar file (TOML).", show_default=False),
+    spar: Path = typer.Argument(..., help="The spar file, or a boat file (TOML).", show_default=False),
     write: Optional[Path] = typer.Option(None, "--write", help="Write the chosen spar, solved values filled in, "
                                                                 "to this file (comments kept).", show_default=False),
     force: bool = typer.Option(False, "--force", help="Let --write overwrite an existing file."),
 ) -> None:
-    """Compare every stave count (4 to 24) and show why one is chosen; solve the wall where it is "auto"."""
+    """Compare every stave count (4 to 24) and show why one is chosen; solve the wall where it is "auto"
+    (every spar of a boat)."""
     from dataclasses import replace as _replace
 
+    from .boat_commands import is_boat_file, size_boat
+
+    if is_boat_file(spar):
+        return size_boat(spar, write, _console())
     from .model.loader import load_spar, read_spar_text
     from .model.rewrite import with_solved_values
     from .outputs import not_replaceable, write_file
@@ -190,8 +203,9 @@ def init(
     path: Path = typer.Argument(..., help="Where to write the starter spar file.", show_default=False),
     units: str = typer.Option("in", "--units", help='"in" or "mm".'),
     force: bool = typer.Option(False, "--force", help="Overwrite an existing file."),
+    boat: bool = typer.Option(False, "--boat", help="Write a starter boat file and the spar files it lists."),
 ) -> None:
-    """Write a commented starter spar file to edit."""
+    """Write a commented starter spar file (with --boat, a starter boat and its spar files) to edit."""
     from .model.starter import starter_text
     from .outputs import write_file
 
@@ -199,6 +213,10 @@ def init(
         raise InputError(f'{units!r} is not "in" or "mm"', "--units")
     if path.is_dir() or path.name in ("", ".", ".."):
         raise InputError("is a folder; give the spar file's name, e.g. my-mast.toml", source=str(path))
+    if boat:
+        from .boat_commands import init_boat
+
+        return init_boat(path, units, force, _console())
     write_file(path, starter_text(units), force=force)
     _console().print(f"wrote {escape(str(path))}: edit it, then run [bold]stavegen check {escape(str(path))}[/]")
 
@@ -206,16 +224,17 @@ def init(
 @app.command()
 @reports_errors
 def build(
-    spar: Optional[Path] = typer.Argument(None, help="The spar file (TOML); none builds the bundled example.",
-                                          show_default=False),
+    spar: Optional[Path] = typer.Argument(None, help="The spar file or boat file (TOML); none builds the "
+                                                     "bundled example boat.", show_default=False),
     out: Path = typer.Option(Path("stavegen-out"), "-o", "--out", help="Folder for the outputs."),
 ) -> None:
-    """The whole job: check, lay out, and write every output into the folder."""
+    """The whole job: check, lay out, and write every output into the folder (a boat: one order for all)."""
+    from .boat_commands import is_boat_file, run_boat_build
     from .build import run_build
 
     console = _console()
     path = spar if spar is not None else bundled_sample()
-    result = run_build(path, out, console)
+    result = run_boat_build(path, out, console) if is_boat_file(path) else run_build(path, out, console)
     if not result.passed:
         raise typer.Exit(EXIT_MISSED)
 
@@ -233,7 +252,7 @@ def serve(
     """The builder's page: edit the spar in a browser, watch the check and the section, download the papers."""
     from .serve.run import serve as run_server
 
-    run_server(spar, bundled_sample(), host=host, port=port, open_browser=not no_browser)
+    run_server(spar, bundled_sample(DEFAULT_SPAR), host=host, port=port, open_browser=not no_browser)
 
 
 class _ClosedPipeGuard:

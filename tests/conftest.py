@@ -13,6 +13,8 @@ from stavegen.model.loader import parse_spar
 
 ROOT = Path(__file__).resolve().parent.parent
 SAMPLES = ROOT / "samples"
+# The sample spar files (the boat files beside them list some of these and are tested in test_boat.py).
+SPAR_SAMPLES = sorted(p for p in SAMPLES.glob("*.toml") if "[boat]" not in p.read_text(encoding="utf-8"))
 
 # A plain uniform spar, invented for the tests (not a design).
 UNIFORM = {

@@ -33,19 +33,25 @@ def _files(folder):
     return {p.name: p.read_bytes() for p in folder.iterdir()}
 
 
-def _changed_catboat(tmp_path):
-    """The catboat with a smaller margin: a build of it changes the JSON (and more) but keeps the file names."""
+SAMPLE = "daysailer-mast.toml"  # passes its check; its outputs are named day-sailer-mast*
+SLUG = "day-sailer-mast"
+
+
+def _changed_sample(tmp_path):
+    """The sample with a smaller margin: a build of it changes the JSON (and more) but keeps the file names."""
+    text = (SAMPLES / SAMPLE).read_text()
+    assert "margin = 0.02" in text
     changed = tmp_path / "changed.toml"
-    changed.write_text((SAMPLES / "catboat-mast.toml").read_text().replace("margin = 0.02", "margin = 0.01"))
+    changed.write_text(text.replace("margin = 0.02", "margin = 0.01"))
     return changed
 
 
 @pytest.fixture
 def old_set(run, tmp_path, monkeypatch):
-    """An output folder holding a complete earlier build of the catboat; returns (folder, its files)."""
+    """An output folder holding a complete earlier build of the sample; returns (folder, its files)."""
     monkeypatch.setenv("SOURCE_DATE_EPOCH", EPOCH)
     out = tmp_path / "out"
-    assert run(["build", SAMPLES / "catboat-mast.toml", "-o", out]).exit_code == 0
+    assert run(["build", SAMPLES / SAMPLE, "-o", out]).exit_code == 0
     before = _files(out)
     assert len(before) == 5
     return out, before
@@ -59,7 +65,7 @@ def test_failed_renderer_leaves_previous_outputs_untouched(run, tmp_path, old_se
         raise RuntimeError("renderer failed on purpose")
 
     monkeypatch.setattr(csv_cutlist, "to_csv", broken)
-    result = run(["build", _changed_catboat(tmp_path), "-o", out])
+    result = run(["build", _changed_sample(tmp_path), "-o", out])
     assert result.exit_code == 3 and "renderer failed on purpose" in result.stderr
     assert _files(out) == before  # same files, same bytes, no temporary leftovers
 
@@ -95,7 +101,7 @@ def test_a_rename_failing_half_way_puts_the_old_set_back(run, tmp_path, old_set,
         real(source, target)
 
     monkeypatch.setattr(outputs, "_rename", failing)
-    result = run(["build", _changed_catboat(tmp_path), "-o", out])
+    result = run(["build", _changed_sample(tmp_path), "-o", out])
     assert len(renames) == 2
     assert result.exit_code == 2, result.output
     assert "Input/output error" in result.stderr and "\n" not in result.stderr.strip()
@@ -127,7 +133,7 @@ def test_a_build_killed_between_renames_is_finished_by_the_next(tmp_path, old_se
     """Killed after two of five renames: the journal says so, and the next write into the folder completes the
     new set, byte for byte what an undisturbed build of it writes."""
     out, before = old_set
-    changed = _changed_catboat(tmp_path)
+    changed = _changed_sample(tmp_path)
     env = dict(os.environ, SOURCE_DATE_EPOCH=EPOCH)
     child = subprocess.run([sys.executable, "-c", _KILLED_CHILD, str(changed), str(out)], env=env, cwd=ROOT,
                            capture_output=True, text=True)
@@ -149,15 +155,15 @@ def test_a_build_killed_between_renames_is_finished_by_the_next(tmp_path, old_se
 
 def test_stale_temporaries_are_removed_by_the_next_build(run, tmp_path, old_set):
     out, before = old_set
-    stale = [".catboat-mast.json.abcd1234.stavegen.part", ".catboat-mast-report.pdf.k2j4_8zz.part",
-             ".catboat-mast.json.zzzz9999.stavegen.old"]
+    stale = [f".{SLUG}.json.abcd1234.stavegen.part", f".{SLUG}-report.pdf.k2j4_8zz.part",
+             f".{SLUG}.json.zzzz9999.stavegen.old"]
     for name in stale:
         (out / name).write_bytes(b"half a file")
     (out / ".keep-me.part").write_text("not ours")
     (out / "notes.txt").write_text("the builder's own file")
-    assert run(["build", SAMPLES / "catboat-mast.toml", "-o", out]).exit_code == 0
+    assert run(["build", SAMPLES / SAMPLE, "-o", out]).exit_code == 0
     assert sorted(os.listdir(out)) == sorted(list(before) + [".keep-me.part", "notes.txt"])
-    assert _files(out)["catboat-mast.json"] == before["catboat-mast.json"]
+    assert _files(out)[f"{SLUG}.json"] == before[f"{SLUG}.json"]
 
 
 _SLOW_CHILD = textwrap.dedent("""
@@ -180,10 +186,10 @@ _SLOW_CHILD = textwrap.dedent("""
 @pytest.mark.parametrize("signum", [signal.SIGTERM, signal.SIGHUP])
 def test_a_signal_while_writing_removes_the_temporaries(tmp_path, old_set, signum):
     out, before = old_set
-    child = subprocess.Popen([sys.executable, "-c", _SLOW_CHILD, str(_changed_catboat(tmp_path)), str(out)],
+    child = subprocess.Popen([sys.executable, "-c", _SLOW_CHILD, str(_changed_sample(tmp_path)), str(out)],
                              cwd=ROOT, stdout=subprocess.DEVNULL, stderr=subprocess.PIPE, text=True)
     deadline = time.monotonic() + 120
-    while not any(n.startswith(".catboat-mast-report.pdf.") for n in os.listdir(out)):
+    while not any(n.startswith(f".{SLUG}-report.pdf.") for n in os.listdir(out)):
         assert child.poll() is None and time.monotonic() < deadline, child.stderr.read()
         time.sleep(0.02)
     child.send_signal(signum)
@@ -203,10 +209,10 @@ def test_a_full_disk_is_reported_as_such(run, tmp_path, old_set, monkeypatch):
             disk.write(b"%PDF" * 1024)
 
     monkeypatch.setattr(pdf_report, "write_report", onto_full_disk)
-    result = run(["build", _changed_catboat(tmp_path), "-o", out])
+    result = run(["build", _changed_sample(tmp_path), "-o", out])
     assert result.exit_code == 2, result.output
     message = result.stderr.strip()
-    assert "\n" not in message and "the disk is full" in message and "catboat-mast-report.pdf" in message
+    assert "\n" not in message and "the disk is full" in message and f"{SLUG}-report.pdf" in message
     assert "internal error" not in message
     assert _files(out) == before
 
@@ -219,7 +225,7 @@ def test_a_permission_problem_is_reported_as_such(run, tmp_path, monkeypatch):
 
     monkeypatch.setattr(pdf_report, "write_report", locked)
     out = tmp_path / "new" / "out"
-    result = run(["build", SAMPLES / "catboat-mast.toml", "-o", out])
+    result = run(["build", SAMPLES / SAMPLE, "-o", out])
     assert result.exit_code == 2
     assert "permission denied" in result.stderr and "\n" not in result.stderr.strip()
     assert not (tmp_path / "new").exists()  # the folders made for the set go with it
@@ -245,25 +251,25 @@ def test_init_replaces_only_regular_files(run, tmp_path):
 
 def test_a_build_will_not_write_over_a_folder(run, tmp_path):
     out = tmp_path / "out"
-    (out / "catboat-mast.json").mkdir(parents=True)
-    result = run(["build", SAMPLES / "catboat-mast.toml", "-o", out])
+    (out / f"{SLUG}.json").mkdir(parents=True)
+    result = run(["build", SAMPLES / SAMPLE, "-o", out])
     assert result.exit_code == 2
-    assert "catboat-mast.json" in result.stderr and "is a folder" in result.stderr
-    assert os.listdir(out) == ["catboat-mast.json"]
+    assert f"{SLUG}.json" in result.stderr and "is a folder" in result.stderr
+    assert os.listdir(out) == [f"{SLUG}.json"]
 
 
 def test_size_write_asks_before_replacing_a_file(run, tmp_path):
     target = tmp_path / "chosen.toml"
     target.write_text("# the builder's own notes\n")
-    result = run(["size", SAMPLES / "catboat-mast.toml", "--write", target])
+    result = run(["size", SAMPLES / SAMPLE, "--write", target])
     assert result.exit_code == 2
     assert "--force" in result.stderr and "\n" not in result.stderr.strip()
     assert target.read_text() == "# the builder's own notes\n"
-    result = run(["size", SAMPLES / "catboat-mast.toml", "--write", "/dev/null", "--force"])
+    result = run(["size", SAMPLES / SAMPLE, "--write", "/dev/null", "--force"])
     assert result.exit_code == 2 and "a device" in result.stderr
 
 
-@pytest.mark.parametrize("sample, code", [("catboat-mast.toml", 0), ("skiff-boom-too-light.toml", 1)])
+@pytest.mark.parametrize("sample, code", [(SAMPLE, 0), ("skiff-boom-too-light.toml", 1)])
 @pytest.mark.parametrize("json_out", [False, True])
 def test_a_closed_pipe_keeps_the_check_exit_code(sample, code, json_out):
     """``stavegen check ... | head -1``: the reader is gone before the first line; the exit code is the check's."""
@@ -284,11 +290,11 @@ def test_identical_input_gives_identical_files(tmp_path):
     for seed in ("1", "4"):
         out = tmp_path / seed
         env = dict(os.environ, PYTHONHASHSEED=seed, SOURCE_DATE_EPOCH=EPOCH)
-        done = subprocess.run([sys.executable, "-m", "stavegen", "build", str(SAMPLES / "catboat-mast.toml"), "-o",
+        done = subprocess.run([sys.executable, "-m", "stavegen", "build", str(SAMPLES / SAMPLE), "-o",
                                str(out)], env=env, cwd=ROOT, capture_output=True, text=True)
         assert done.returncode == 0, done.stderr
         sets.append(_files(out))
     assert sets[0].keys() == sets[1].keys() and len(sets[0]) == 5
     for name in sets[0]:
         assert sets[0][name] == sets[1][name], name
-    assert json.loads(sets[0]["catboat-mast.json"])["spar"]["name"] == "Catboat mast"
+    assert json.loads(sets[0][f"{SLUG}.json"])["spar"]["name"] == "Day-sailer mast"

@@ -15,7 +15,7 @@ STATION_KEYS = {"z_mm", "od_mm", "wall_mm", "stave_width_mm", "notch_depth_mm", 
                 "plan_EI_Nmm2", "ei_ratio", "strength_ratio", "void_mm2", "min_wall_mm", "plug"}
 
 
-@pytest.mark.parametrize("name, code", [("catboat-mast.toml", 0), ("yawl-mainmast-metric.toml", 0),
+@pytest.mark.parametrize("name, code", [("daysailer-mast.toml", 0), ("yawl-mainmast-metric.toml", 0),
                                         ("skiff-boom-too-light.toml", 1)])
 def test_check_exit_codes_and_json(run, name, code):
     result = run(["check", SAMPLES / name, "--json"])
@@ -41,28 +41,28 @@ def test_check_table_names_the_least_station_and_shows_cautions(run):
     assert result.exit_code == 1
     assert "FAIL" in result.stdout and "short by" in result.stdout
     assert "does not replace a designer" in result.stdout
-    ok = run(["check", SAMPLES / "catboat-mast.toml"])
+    ok = run(["check", SAMPLES / "daysailer-mast.toml"])
     assert ok.exit_code == 0 and "PASS" in ok.stdout and "least" in ok.stdout
     assert "qualified designer" in ok.stdout
 
 
 def test_stations_include_marks_file_stations_and_plug_ends(run):
-    doc = json.loads(run(["check", SAMPLES / "catboat-mast.toml", "--json"]).stdout)
+    doc = json.loads(run(["check", SAMPLES / "daysailer-mast.toml", "--json"]).stdout)
     z = [s["z_mm"] for s in doc["stations"]]
-    assert z == sorted(z) and z[0] == 0 and z[-1] == pytest.approx(20 * 304.8)
-    for expected in (0, 2 * 304.8, 8 * 304.8, 14 * 304.8, 3 * 304.8, 18.5 * 304.8):  # plan stations, plug ends
+    assert z == sorted(z) and z[0] == 0 and z[-1] == pytest.approx(17 * 304.8)
+    for expected in (0, 1.5 * 304.8, 9 * 304.8, 15.5 * 304.8, 16 * 304.8):  # plan stations, plug ends
         assert any(abs(v - expected) < 0.05 for v in z), expected
-    assert all(any(abs(v - k * 304.8) < 0.05 for v in z) for k in range(1, 20))  # every foot
-    # The plug at the heel ends at 3 ft: the station there counts the open bore beside it.
-    at_three = next(s for s in doc["stations"] if abs(s["z_mm"] - 914.4) < 0.05)
-    assert at_three["plug"] is False
+    assert all(any(abs(v - k * 304.8) < 0.05 for v in z) for k in range(1, 17))  # every foot
+    # The plug at the heel ends at 1 ft 6 in: the station there counts the open bore beside it.
+    at_plug_end = next(s for s in doc["stations"] if abs(s["z_mm"] - 457.2) < 0.05)
+    assert at_plug_end["plug"] is False
 
 
 def test_section_command(run):
-    result = run(["section", SAMPLES / "catboat-mast.toml", "--at", "7 ft 6 in"])
+    result = run(["section", SAMPLES / "daysailer-boom.toml", "--at", "7 ft 6 in"])  # eight staves
     assert result.exit_code == 0, result.output
     assert "stave width" in result.stdout and "45.00°" in result.stdout
-    bad = run(["section", SAMPLES / "catboat-mast.toml", "--at", "30 ft"])
+    bad = run(["section", SAMPLES / "daysailer-boom.toml", "--at", "30 ft"])
     assert bad.exit_code == 2 and "--at" in bad.stderr
 
 
@@ -102,20 +102,20 @@ def test_build_writes_json(run, tmp_path):
 def test_build_without_a_file_builds_the_bundled_example(run, tmp_path):
     result = run(["build", "-o", tmp_path])
     assert result.exit_code == 0, result.output
-    assert (tmp_path / "catboat-mast.json").exists()
+    assert (tmp_path / "day-sailer.json").exists()
 
 
 def test_build_into_an_unwritable_place(run, tmp_path):
     blocker = tmp_path / "file"
     blocker.write_text("not a folder")
-    result = run(["build", SAMPLES / "catboat-mast.toml", "-o", blocker / "out"])
+    result = run(["build", SAMPLES / "daysailer-mast.toml", "-o", blocker / "out"])
     assert result.exit_code == 2
     assert "-o/--out" in result.stderr and "\n" not in result.stderr.strip()
 
 
 def test_build_ends_with_a_short_summary(run, tmp_path):
     """Pass or fail, boards to buy and board feet, scarfs, weight saved: the JSON's figures, a few lines."""
-    for sample, word in (("catboat-mast.toml", "PASS"), ("skiff-boom-too-light.toml", "FAIL")):
+    for sample, word in (("daysailer-mast.toml", "PASS"), ("skiff-boom-too-light.toml", "FAIL")):
         out = tmp_path / sample
         result = run(["build", SAMPLES / sample, "-o", out])
         assert result.exit_code == (0 if word == "PASS" else 1), result.output
@@ -148,7 +148,7 @@ def test_build_steps_are_reported_in_order(tmp_path):
     from stavegen.pipeline import design
 
     steps: list[str] = []
-    result = design(load_spar(SAMPLES / "catboat-mast.toml"), layout=True, step=steps.append)
+    result = design(load_spar(SAMPLES / "daysailer-mast.toml"), layout=True, step=steps.append)
     wanted = ["checking", "laying out", "ordering lumber"]
     at = [next(i for i, s in enumerate(steps) if s.startswith(w)) for w in wanted]
     assert at == sorted(at)

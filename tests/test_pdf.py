@@ -42,7 +42,7 @@ PAPER_PT = {"letter": (612.0, 792.0), "a4": (595.28, 841.89)}
 PRINTER_MARGIN_PT = 18.0  # 1/4 in
 BUILD_DAY = "2023-11-14"  # SOURCE_DATE_EPOCH 1700000000 is 2023-11-14 22:13:20 UTC
 
-SPARS = {"catboat": ("catboat-mast.toml", "in", "letter"), "yawl": ("yawl-mainmast-metric.toml", "mm", "a4")}
+SPARS = {"mast": ("daysailer-mast.toml", "in", "letter"), "yawl": ("yawl-mainmast-metric.toml", "mm", "a4")}
 
 
 def _flat(text: str) -> str:
@@ -152,7 +152,7 @@ def test_a_failing_spar_says_fail(tmp_path):
 
 
 def test_report_without_a_layout_has_no_cut_list(tmp_path):
-    d = design(load_spar(SAMPLES / "catboat-mast.toml"))
+    d = design(load_spar(SAMPLES / "daysailer-mast.toml"))
     write_report(d, tmp_path / "r.pdf")
     text = _flat(" ".join(p.extract_text() for p in PdfReader(tmp_path / "r.pdf").pages))
     assert "Station by station" in text and "Cut list" not in text and "Scarf map" not in text
@@ -381,9 +381,9 @@ def test_fullsize_pages_are_labelled_and_joined_by_crosses(built):
 
 
 def test_build_writes_both_pdfs(run, tmp_path):
-    result = run(["build", SAMPLES / "catboat-mast.toml", "-o", tmp_path])
+    result = run(["build", SAMPLES / "daysailer-mast.toml", "-o", tmp_path])
     assert result.exit_code == 0, result.output
-    for name in ("catboat-mast-report.pdf", "catboat-mast-fullsize.pdf"):
+    for name in ("day-sailer-mast-report.pdf", "day-sailer-mast-fullsize.pdf"):
         data = (tmp_path / name).read_bytes()
         assert data.startswith(b"%PDF-") and len(PdfReader(tmp_path / name).pages) >= 2
     assert not [p for p in os.listdir(tmp_path) if p.endswith(".part")]

@@ -64,12 +64,12 @@ def _full_search_only(monkeypatch):
 
 
 CASES = [
-    ("catboat-mast.toml", {"wall": "auto"}),
-    ("catboat-mast.toml", {"wall": "auto-tapered"}),
+    ("daysailer-mast.toml", {"wall": "auto"}),
+    ("daysailer-mast.toml", {"wall": "auto-tapered"}),
     ("yawl-mainmast-metric.toml", {"wall": "auto"}),
     ("yawl-mainmast-metric.toml", {"wall": "auto-tapered", "joint": "bevel"}),
     ("yawl-mainmast-metric.toml", {"wall": "auto", "joint": "birdsmouth-centered"}),
-    ("catboat-mast.toml", {"stations": "auto"}),
+    ("daysailer-mast.toml", {"stations": "auto"}),
 ]
 
 
@@ -111,11 +111,13 @@ def test_quick_search_finds_what_the_full_search_finds(name, hollow, monkeypatch
 
 def test_quick_search_refuses_as_the_full_search_does(monkeypatch):
     """A wall the stock cannot give: the same one-line refusal either way."""
-    spar = parse_spar(sample_data("catboat-mast.toml", wall="auto", staves=5), "catboat-mast.toml")
-    with pytest.raises(Exception) as quick:
+    data = sample_data("daysailer-mast.toml", wall="auto")
+    data["stock"]["thickness"] = 0.5
+    spar = parse_spar(data, "daysailer-mast.toml")
+    with pytest.raises(DesignError) as quick:
         solve(spar)
     _full_search_only(monkeypatch)
-    with pytest.raises(Exception) as full:
+    with pytest.raises(DesignError) as full:
         solve(spar)
     assert type(quick.value) is type(full.value) and str(quick.value) == str(full.value)
     assert "stock is too thin" in str(quick.value)
@@ -125,8 +127,7 @@ def test_quick_search_refuses_as_the_full_search_does(monkeypatch):
 def auto_spars(tmp_path_factory):
     folder = tmp_path_factory.mktemp("counts")
     out = []
-    for name, changes in (("catboat-mast.toml", {"staves = 8": 'staves = "auto"',
-                                                  'wall = [[0, 1], ["10 ft", 1], ["20 ft", "3/4"]]': 'wall = "auto"'}),
+    for name, changes in (("daysailer-mast.toml", {"staves = 12": 'staves = "auto"', 'wall = "5/8"': 'wall = "auto"'}),
                           ("yawl-mainmast-metric.toml", {"staves = 12": 'staves = "auto"'})):
         text = (SAMPLES / name).read_text()
         for old, new in changes.items():
@@ -227,7 +228,7 @@ def test_check_loads_no_solver_drawing_or_pdf_library():
     script = ("import sys\nfrom stavegen.cli import main\nsys.argv = ['stavegen', 'check', sys.argv[1]]\n"
               "try:\n    main()\nexcept SystemExit:\n    pass\n"
               "sys.stderr.write(' '.join(m for m in ('scipy', 'ezdxf', 'reportlab', 'pydantic') if m in sys.modules))")
-    done = subprocess.run([sys.executable, "-c", script, str(SAMPLES / "catboat-mast.toml")], cwd=ROOT,
+    done = subprocess.run([sys.executable, "-c", script, str(SAMPLES / "daysailer-mast.toml")], cwd=ROOT,
                           capture_output=True, text=True, env=dict(os.environ))
     assert done.returncode == 0, done.stderr
     assert done.stderr.strip() == ""

@@ -19,18 +19,19 @@ from pathlib import Path
 import pytest
 from starlette.testclient import TestClient
 
-from conftest import SAMPLES
+from conftest import SAMPLES, SPAR_SAMPLES
 from test_bad_input import CASES, expected_fragment
 
 from stavegen.serve.app import LOOPBACK_HOSTS, Settings, bundled_samples, create_app
 
 SVG = "{http://www.w3.org/2000/svg}"
-CATBOAT = SAMPLES / "catboat-mast.toml"
-SAMPLE_FILES = sorted(SAMPLES.glob("*.toml"))
+MAST = SAMPLES / "daysailer-mast.toml"
+BOOM = SAMPLES / "daysailer-boom.toml"  # eight staves: cutter rows short enough for the terminal's table
+SAMPLE_FILES = SPAR_SAMPLES  # the page edits spar files
 
 
 def make_client(**caps) -> TestClient:
-    settings = Settings(text=CATBOAT.read_text(encoding="utf-8"), name="catboat-mast.toml",
+    settings = Settings(text=MAST.read_text(encoding="utf-8"), name="daysailer-mast.toml",
                         samples=bundled_samples(SAMPLES), allowed_hosts=LOOPBACK_HOSTS + ["testserver"], **caps)
     return TestClient(create_app(settings))
 
@@ -112,10 +113,10 @@ def _shoelace(d: str) -> float:
 def test_section_figures_and_drawing(client, run):
     """The section's figures are the `section` command's; the drawing's wood area, measured on the SVG
     by the shoelace formula, is the exact integral's within the drawing's polygonal round."""
-    result = run(["section", CATBOAT, "--at", "7 ft 6 in"])
+    result = run(["section", BOOM, "--at", "7 ft 6 in"])
     assert result.exit_code == 0
-    answer = client.post("/api/section", params={"at": "7 ft 6 in", "name": str(CATBOAT)},
-                         content=CATBOAT.read_bytes())
+    answer = client.post("/api/section", params={"at": "7 ft 6 in", "name": str(BOOM)},
+                         content=BOOM.read_bytes())
     assert answer.status_code == 200
     body = answer.json()
     lines = result.stdout.splitlines()
@@ -129,7 +130,7 @@ def test_section_figures_and_drawing(client, run):
     # the finished round is the file's diameter there (linear between its stations)
     from stavegen.model.loader import load_spar
 
-    od = float(load_spar(CATBOAT).hollow.diameter.at(7.5 * 304.8))
+    od = float(load_spar(BOOM).hollow.diameter.at(7.5 * 304.8))
     rounds = svg.findall(f".//{SVG}circle[@class='round']")
     assert float(rounds[0].get("r")) == pytest.approx(od / 2, abs=1e-3)  # the drawing keeps 3 decimals
     area_row = next(v for k, v in body["figures"]["rows"] if k == "wood area")
@@ -137,19 +138,19 @@ def test_section_figures_and_drawing(client, run):
     drawn = sum(_shoelace(p.get("d")) for p in svg.findall(f".//{SVG}path[@class='finished']"))
     assert drawn == pytest.approx(wood, rel=2e-4)
     stave = ET.fromstring(body["stave_svg"])
-    assert float(stave.get("data-thickness-mm")) == pytest.approx(25.4)
+    assert float(stave.get("data-thickness-mm")) == pytest.approx(0.5 * 25.4, abs=1e-3)
 
 
 def test_section_off_the_spar_names_the_position(client):
-    answer = client.post("/api/section", params={"at": "30 ft"}, content=CATBOAT.read_bytes())
+    answer = client.post("/api/section", params={"at": "30 ft"}, content=MAST.read_bytes())
     assert answer.status_code == 422
     assert answer.json()["key"] == "at"
     assert "is not on the spar" in answer.json()["message"]
 
 
 def test_view_words_the_check_as_the_cli(client, run):
-    result = run(["check", CATBOAT])
-    answer = client.post("/api/view", params={"name": str(CATBOAT), "layout": "1"}, content=CATBOAT.read_bytes())
+    result = run(["check", MAST])
+    answer = client.post("/api/view", params={"name": str(MAST), "layout": "1"}, content=MAST.read_bytes())
     assert answer.status_code == 200
     view = answer.json()
     flat = " ".join(result.stdout.split())
@@ -163,8 +164,8 @@ def test_view_words_the_check_as_the_cli(client, run):
 
 
 def test_size_is_the_size_command(client, run):
-    result = run(["size", CATBOAT])
-    answer = client.post("/api/size", content=CATBOAT.read_bytes())
+    result = run(["size", MAST])
+    answer = client.post("/api/size", content=MAST.read_bytes())
     assert answer.status_code == 200
     body = answer.json()
     flat = " ".join(result.stdout.split())
@@ -175,7 +176,7 @@ def test_size_is_the_size_command(client, run):
 
 
 def test_edit_keeps_comments_and_writes_values_as_the_file_would(client):
-    text = CATBOAT.read_text(encoding="utf-8")
+    text = MAST.read_text(encoding="utf-8")
     ops = [{"set": "hollow.wall", "value": "7/8"},
            {"set": "hollow.plug[2].from", "value": "18 ft"},
            {"set": "hollow.margin", "value": "0.03"},
@@ -200,7 +201,7 @@ def test_edit_keeps_comments_and_writes_values_as_the_file_would(client):
     assert after["plan"]["stations"] == [[0, 4.5], ["20 ft", 3]]
     assert after["output"]["templates_on_boards"] is True
     assert after["spar"]["name"] == "123"
-    assert after["hollow"]["plug"] == [{"from": "18 ft", "to": "20 ft"}, {"from": "9 ft", "to": "10 ft"}]
+    assert after["hollow"]["plug"] == [{"from": "18 ft", "to": "17 ft"}, {"from": "9 ft", "to": "10 ft"}]
     for table in ("stock",):
         assert after[table] == before[table]
     assert after["spar"]["length"] == before["spar"]["length"]
@@ -235,18 +236,18 @@ def test_edit_of_bad_toml_gives_the_loader_message(client):
 def test_request_names_no_path_that_is_read(client):
     """A request's name is a label only: the text checked is the body's, never the file it names."""
     other = SAMPLES / "yawl-mainmast-metric.toml"
-    answer = client.post("/api/check", params={"name": str(other)}, content=CATBOAT.read_bytes())
+    answer = client.post("/api/check", params={"name": str(other)}, content=MAST.read_bytes())
     assert answer.status_code == 200
-    assert answer.json()["spar"]["name"] == "Catboat mast"
+    assert answer.json()["spar"]["name"] == "Day-sailer mast"
     assert answer.json()["spar"]["source"] == str(other)
     assert client.get("/api/sample/..%2F..%2Fpyproject.toml").status_code == 404
-    assert client.get("/api/sample/catboat-mast.toml").json()["text"] == CATBOAT.read_text(encoding="utf-8")
+    assert client.get("/api/sample/daysailer-mast.toml").json()["text"] == MAST.read_text(encoding="utf-8")
     assert client.get("/static/../app.py").status_code == 404
 
 
 def test_start_gives_the_file_and_the_choices(client):
     start = client.get("/api/start").json()
-    assert start["text"] == CATBOAT.read_text(encoding="utf-8")
+    assert start["text"] == MAST.read_text(encoding="utf-8")
     assert "birdsmouth-flush" in start["choices"]["joint"]
     assert {s.name for s in SAMPLE_FILES} == set(start["samples"])
     page = client.get("/")
@@ -260,23 +261,23 @@ def test_request_size_is_capped():
     with make_client(max_body=2000) as small:
         answer = small.post("/api/check", content=b"#" * 5000)
         assert answer.status_code == 413
-        assert small.post("/api/check", content=CATBOAT.read_bytes()[:1999]).status_code in (200, 422)
+        assert small.post("/api/check", content=MAST.read_bytes()[:1999]).status_code in (200, 422)
 
 
 def test_request_time_is_capped_and_the_server_goes_on():
     with make_client(slow_time_limit=0.05) as hasty:
-        answer = hasty.post("/api/size", content=CATBOAT.read_bytes())
+        answer = hasty.post("/api/size", content=MAST.read_bytes())
         assert answer.status_code == 503
         assert "longer than" in answer.json()["message"]
-        assert hasty.post("/api/check", content=CATBOAT.read_bytes()).status_code == 200
+        assert hasty.post("/api/check", content=MAST.read_bytes()).status_code == 200
 
 
 def test_other_sites_and_hosts_are_refused(client):
-    answer = client.post("/api/check", content=CATBOAT.read_bytes(), headers={"Origin": "http://example.org"})
+    answer = client.post("/api/check", content=MAST.read_bytes(), headers={"Origin": "http://example.org"})
     assert answer.status_code == 403
-    answer = client.post("/api/check", content=CATBOAT.read_bytes(), headers={"Host": "example.org"})
+    answer = client.post("/api/check", content=MAST.read_bytes(), headers={"Host": "example.org"})
     assert answer.status_code == 400
-    same = client.post("/api/check", content=CATBOAT.read_bytes(), headers={"Origin": "http://testserver"})
+    same = client.post("/api/check", content=MAST.read_bytes(), headers={"Origin": "http://testserver"})
     assert same.status_code == 200
 
 
@@ -295,11 +296,11 @@ def test_serve_command_binds_loopback_and_warns_for_other_hosts(monkeypatch, run
             return None
 
     monkeypatch.setattr(serve_run.uvicorn, "Server", FakeServer)
-    result = run(["serve", CATBOAT, "--no-browser", "--port", "0"])
+    result = run(["serve", MAST, "--no-browser", "--port", "0"])
     assert result.exit_code == 0, result.stderr
     assert started[-1].host == "127.0.0.1" and started[-1].port == 0
     assert "warning" not in result.stderr
-    result = run(["serve", CATBOAT, "--no-browser", "--host", "0.0.0.0", "--port", "0"])
+    result = run(["serve", MAST, "--no-browser", "--host", "0.0.0.0", "--port", "0"])
     assert result.exit_code == 0
     assert started[-1].host == "0.0.0.0"
     assert "warning: serving on 0.0.0.0" in result.stderr
@@ -307,7 +308,7 @@ def test_serve_command_binds_loopback_and_warns_for_other_hosts(monkeypatch, run
         taken.bind(("127.0.0.1", 0))
         taken.listen()
         count = len(started)
-        result = run(["serve", CATBOAT, "--no-browser", "--port", taken.getsockname()[1]])
+        result = run(["serve", MAST, "--no-browser", "--port", taken.getsockname()[1]])
         assert result.exit_code == 2
         assert cli_message(result).startswith("serve: --port: port ")
         assert len(started) == count

@@ -22,13 +22,19 @@ from pathlib import Path
 import pytest
 
 from browser import chromium_available, start_chromium, start_server, stop_server
-from conftest import SAMPLES
+from conftest import SAMPLES, SPAR_SAMPLES
 
 pytestmark = pytest.mark.skipif(not chromium_available() and not os.environ.get("CI"),
                                 reason="needs /usr/bin/chromium and /usr/bin/chromedriver (apt-get install chromium "
                                        "chromium-driver); never skipped in CI")
 
-CATBOAT = SAMPLES / "catboat-mast.toml"
+BOOM = SAMPLES / "daysailer-boom.toml"
+# The boom with a tapered wall, so the page has a schedule row to edit (the sample's wall is constant).
+TAPERED_WALL = 'wall = [[0, "7/16"], ["7 ft 6 in", "1/2"], ["14 ft 6 in", "7/16"]]'
+
+
+def tapered_boom() -> str:
+    return BOOM.read_text(encoding="utf-8").replace('wall = "1/2"', TAPERED_WALL)
 WAIT = 90  # seconds: a generous ceiling for a slow machine, not a speed target
 
 
@@ -110,8 +116,8 @@ def compare_counts_as_the_cli(page: Page, run) -> int:
 @pytest.fixture(scope="module")
 def page(tmp_path_factory):
     folder = tmp_path_factory.mktemp("page")
-    spar = folder / "catboat-mast.toml"
-    spar.write_bytes(CATBOAT.read_bytes())
+    spar = folder / "daysailer-boom.toml"
+    spar.write_text(tapered_boom(), encoding="utf-8")
     downloads = folder / "downloads"
     downloads.mkdir()
     process, url = start_server(spar)
@@ -134,12 +140,13 @@ def test_page_follows_the_edits_and_builds_what_the_cli_builds(page, run, tmp_pa
     assert len(page.finds("#section-svg path.stave")) == 8
     assert compare_counts_as_the_cli(page, run) == 0  # the sample as bundled: a count is chosen
 
-    # the wall: the second row of the catboat's tapered wall, 1" at 10 ft, made 7/8"
-    page.type_into('input[data-cell="hollow.wall[2][2]"]', "7/8")
+    # the wall: the second row of the tapered wall, its thickest, 1/2" at 7 ft 6 in, made 15/32"
+    wall_before = page.find("#section-svg svg").get_attribute("data-wall-mm")
+    page.type_into('input[data-cell="hollow.wall[2][2]"]', "15/32")
     ratio_thinner = float(verdict.get_attribute("data-min-ei-ratio"))
     assert ratio_thinner < ratio_before  # a thinner wall is less stiff
     assert page.svg("section-svg") != section_before
-    assert page.find("#section-svg svg").get_attribute("data-wall-mm") != "25.4"
+    assert page.find("#section-svg svg").get_attribute("data-wall-mm") != wall_before
 
     # the stave count
     page.type_into('input[data-key="hollow.staves"]', "10")
@@ -172,12 +179,12 @@ def test_page_follows_the_edits_and_builds_what_the_cli_builds(page, run, tmp_pa
     seen = {p.name for p in page.downloads.iterdir()}
     toml_file = page.download("#download-toml", ".toml", seen)
     text = toml_file.read_text(encoding="utf-8")
-    for line in CATBOAT.read_text(encoding="utf-8").splitlines():
+    for line in tapered_boom().splitlines():
         if "#" in line:
             assert line[line.index("#"):] in text
     data = tomllib.loads(text)
     assert data["hollow"]["staves"] == 10
-    assert data["hollow"]["wall"] == [[0, 1], ["10 ft", "7/8"], ["20 ft", "3/4"]]
+    assert data["hollow"]["wall"] == [[0, "7/16"], ["7 ft 6 in", "15/32"], ["14 ft 6 in", "7/16"]]
     page.spar.write_text(text, encoding="utf-8")  # the page's label is this path: the CLI build names it too
 
     # every output as one zip: the same files as a command-line build of that file, JSON equal
@@ -197,7 +204,7 @@ def test_page_follows_the_edits_and_builds_what_the_cli_builds(page, run, tmp_pa
             else:
                 assert ours == theirs
     # and the page shows the verdict that JSON holds
-    passed = json.loads((out / "catboat-mast.json").read_text(encoding="utf-8"))["check"]["passed"]
+    passed = json.loads((out / "day-sailer-boom.json").read_text(encoding="utf-8"))["check"]["passed"]
     assert verdict.get_attribute("data-passed") == str(passed).lower()
 
     # the stave counts compared again: this wall makes no count meet the target, and the page says so
@@ -210,7 +217,7 @@ def test_keystroke_to_update_on_each_sample(page, record_property, capsys):
     from selenium.webdriver.support.ui import Select
 
     found = {}
-    for sample in sorted(SAMPLES.glob("*.toml")):
+    for sample in SPAR_SAMPLES:
         before = page.updates()
         Select(page.find("#samples")).select_by_value(sample.name)
         page.settle(before)

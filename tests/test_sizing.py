@@ -33,7 +33,7 @@ from stavegen.stations.grid import StationMark, station_marks
 
 from conftest import SAMPLES, make_spar
 
-SAMPLE_NAMES = ("catboat-mast.toml", "yawl-mainmast-metric.toml")
+SAMPLE_NAMES = ("daysailer-mast.toml", "yawl-mainmast-metric.toml")
 ROUNDOFF = 1e-12  # the check's own allowance below a target (assess): roundoff of the exact integrals
 
 
@@ -210,7 +210,7 @@ def test_tapered_wall_is_the_least_at_each_open_station(name):
 
 def test_tapered_wall_sized_as_open_through_the_plugs():
     """Where blocking fills the bore the schedule still follows the open bore's need: no sudden thin wall."""
-    spar, tapered, lines = solved_sample("catboat-mast.toml", AUTO_TAPERED)
+    spar, tapered, lines = solved_sample("daysailer-mast.toml", AUTO_TAPERED)
     wall = tapered.hollow.wall
     steps = [abs(b - a) for a, b in zip(wall.value, wall.value[1:])]
     assert max(steps) < 0.1 * wall.largest
@@ -307,27 +307,27 @@ def test_stock_message_says_how_thick_and_where(run):
 
 
 @pytest.fixture
-def auto_catboat(tmp_path):
-    text = (SAMPLES / "catboat-mast.toml").read_text()
+def auto_mast(tmp_path):
+    text = (SAMPLES / "daysailer-mast.toml").read_text()
     lines = [('wall = "auto"' if line.startswith("wall = ") else line) for line in text.splitlines()]
     path = tmp_path / "auto-mast.toml"
     path.write_text("\n".join(lines) + "\n")
     return path
 
 
-def test_check_and_build_with_an_auto_wall(run, tmp_path, auto_catboat):
-    solved = resolve(load_spar(auto_catboat))[0].hollow.wall.largest
-    result = run(["check", auto_catboat, "--json"])
+def test_check_and_build_with_an_auto_wall(run, tmp_path, auto_mast):
+    solved = resolve(load_spar(auto_mast))[0].hollow.wall.largest
+    result = run(["check", auto_mast, "--json"])
     assert result.exit_code == 0, result.output
     doc = json.loads(result.stdout)
     assert doc["spar"]["solved"] and doc["spar"]["solved"][0].startswith("wall solved:")
     assert all(s["wall_mm"] == solved for s in doc["stations"])
-    text = run(["check", auto_catboat])
+    text = run(["check", auto_mast])
     assert text.exit_code == 0 and "solved:" in text.stdout and "PASS" in text.stdout
     out = tmp_path / "out"
-    built = run(["build", auto_catboat, "-o", out])
+    built = run(["build", auto_mast, "-o", out])
     assert built.exit_code == 0, built.output
-    doc = json.loads((out / "catboat-mast.json").read_text())
+    doc = json.loads((out / "day-sailer-mast.json").read_text())
     assert doc["spar"]["solved"] and all(s["wall_mm"] == solved for s in doc["stations"])
-    section = run(["section", auto_catboat, "--at", "7 ft"])
+    section = run(["section", auto_mast, "--at", "7 ft"])
     assert section.exit_code == 0 and "solved:" in section.stdout

@@ -28,7 +28,7 @@ from stavegen.model.rewrite import with_solved_values
 from stavegen.model.spar import Profile
 from stavegen.model.starter import starter_text
 
-from conftest import ROOT, SAMPLES, spar_dict
+from conftest import ROOT, SAMPLES, SPAR_SAMPLES, spar_dict
 
 ESC = "\x1b"
 
@@ -237,7 +237,7 @@ def test_a_device_is_not_read(run):
 
 def test_an_oversized_file_is_refused_unread(run, tmp_path):
     path = tmp_path / "huge.toml"
-    text = (SAMPLES / "catboat-mast.toml").read_text()
+    text = (SAMPLES / "daysailer-mast.toml").read_text()
     path.write_text(text + "#" * (LARGEST_FILE + 1 - len(text.encode())) + "\n")
     result = run(["check", path])
     assert result.exit_code == 2 and "larger than 1,024 KiB" in result.stderr
@@ -297,7 +297,7 @@ def test_a_wall_past_the_plans_radius_with_auto_diameters_is_warned():
 
 
 def test_no_warnings_for_the_samples(run):
-    for sample in sorted(SAMPLES.glob("*.toml")):
+    for sample in SPAR_SAMPLES:
         assert load_spar(sample).notices == (), sample
 
 
@@ -311,16 +311,16 @@ def test_refused_slips_name_the_station_and_the_values():
 
 def test_write_back_keeps_every_other_byte(tmp_path):
     """Only the three solved values change, each keeping its comment; the rest of the file is byte for byte."""
-    text = (SAMPLES / "catboat-mast.toml").read_text()
-    text = text.replace("staves = 8", 'staves = "auto"          # stavegen chooses')
-    text = text.replace('wall = [[0, 1], ["10 ft", 1], ["20 ft", "3/4"]]', 'wall = "auto-tapered"  # solved')
-    text = re.sub(r"(?m)^stations = \[\[0, \"4 7/8\".*$", 'stations = "auto"   # diameters', text)
+    text = (SAMPLES / "daysailer-mast.toml").read_text()
+    text = text.replace("staves = 12", 'staves = "auto"          # stavegen chooses')
+    text = text.replace('wall = "5/8"', 'wall = "auto-tapered"  # solved')
+    text = re.sub(r"(?m)^stations = \[\[0, \"3 3/4\".*$", 'stations = "auto"   # diameters', text)
     assert 'stations = "auto"' in text
     text = text.replace("\n", "\r\n")  # a file saved on Windows keeps its line ends
     original = parse_spar(tomllib.loads(text), "t.toml")
     # A hand-made solution (the write-back does not care how it was found): wall and diameters along the spar.
-    hollow = dataclasses.replace(original.hollow, staves=10, wall=Profile((0.0, 6096.0), (22.0, 19.31)),
-                                 diameter=Profile((0.0, 3048.0, 6096.0), (130.0, 128.2, 80.0)))
+    hollow = dataclasses.replace(original.hollow, staves=10, wall=Profile((0.0, 5181.6), (18.0, 15.31)),
+                                 diameter=Profile((0.0, 2590.8, 5181.6), (130.0, 128.2, 80.0)))
     solved = dataclasses.replace(original, hollow=hollow)
     out = with_solved_values(text, original, solved)
     before, after = text.splitlines(keepends=True), out.splitlines(keepends=True)
@@ -331,7 +331,7 @@ def test_write_back_keeps_every_other_byte(tmp_path):
         assert a.split("#")[1] == b.split("#")[1] and b.endswith("\r\n")
     read = tomllib.loads(out)["hollow"]
     assert read["staves"] == 10
-    assert read["wall"] == [[0, "7/8"], [240, "25/32"]]  # 22 mm and 19.31 mm rounded up to 32nds
-    assert read["stations"] == [[0, "5 1/8"], [120, "5 1/16"], [240, "3 5/32"]]
+    assert read["wall"] == [[0, "23/32"], [204, "5/8"]]  # 18 mm and 15.31 mm rounded up to 32nds
+    assert read["stations"] == [[0, "5 1/8"], [102, "5 1/16"], [204, "3 5/32"]]
     reloaded = parse_spar(tomllib.loads(out), "t.toml")
-    assert reloaded.hollow.staves == 10 and reloaded.hollow.wall.value[0] >= 22.0
+    assert reloaded.hollow.staves == 10 and reloaded.hollow.wall.value[0] >= 18.0

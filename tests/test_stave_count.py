@@ -16,18 +16,18 @@ from conftest import SAMPLES
 
 
 @pytest.fixture(scope="module")
-def auto_catboat(tmp_path_factory):
-    text = (SAMPLES / "catboat-mast.toml").read_text()
-    text = text.replace("staves = 8", 'staves = "auto"          # chosen by stavegen')
-    text = text.replace('wall = [[0, 1], ["10 ft", 1], ["20 ft", "3/4"]]', 'wall = "auto"')
-    path = tmp_path_factory.mktemp("auto") / "auto-catboat.toml"
+def auto_mast(tmp_path_factory):
+    text = (SAMPLES / "daysailer-mast.toml").read_text()
+    text = text.replace("staves = 12", 'staves = "auto"          # chosen by stavegen')
+    text = text.replace('wall = "5/8"', 'wall = "auto"')
+    path = tmp_path_factory.mktemp("auto") / "auto-mast.toml"
     path.write_text(text)
     return path
 
 
 @pytest.fixture(scope="module")
-def comparison(auto_catboat):
-    return compare_stave_counts(load_spar(auto_catboat))
+def comparison(auto_mast):
+    return compare_stave_counts(load_spar(auto_mast))
 
 
 def test_chosen_buys_the_least_wood_of_the_eligible(comparison):
@@ -54,19 +54,19 @@ def test_candidates_obey_their_labels(comparison):
         assert c.v_bit_one_pass == (c.staves == 8 and c.fits_stock)
 
 
-def test_auto_staves_and_wall_build_end_to_end(run, auto_catboat, tmp_path, comparison):
-    result = run(["build", auto_catboat, "-o", tmp_path])
+def test_auto_staves_and_wall_build_end_to_end(run, auto_mast, tmp_path, comparison):
+    result = run(["build", auto_mast, "-o", tmp_path])
     assert result.exit_code == 0, result.output
-    doc = json.loads((tmp_path / "catboat-mast.json").read_text())
+    doc = json.loads((tmp_path / "day-sailer-mast.json").read_text())
     assert doc["spar"]["staves"] == comparison.chosen.staves
     assert any(line.startswith("staves chosen") for line in doc["spar"]["solved"])
     assert any(line.startswith("wall solved") for line in doc["spar"]["solved"])
     assert doc["check"]["passed"]
 
 
-def test_size_command_table_and_write_back(run, auto_catboat, tmp_path, comparison):
+def test_size_command_table_and_write_back(run, auto_mast, tmp_path, comparison):
     out = tmp_path / "chosen.toml"
-    result = run(["size", auto_catboat, "--write", out])
+    result = run(["size", auto_mast, "--write", out])
     assert result.exit_code == 0, result.output
     assert "◀ chosen" in result.stdout and "choice:" in result.stdout
     text = out.read_text()

@@ -53,7 +53,7 @@ def test_the_spacing_offered_is_accepted(run, tmp_path):
 
 
 def test_comparing_every_count_has_its_own_limit(run, tmp_path):
-    path = _variant(tmp_path, "catboat-mast.toml", **{"mark_spacing = 12": "mark_spacing = 0.1"})
+    path = _variant(tmp_path, "daysailer-mast.toml", **{"mark_spacing = 12": "mark_spacing = 0.1"})
     result = run(["size", path])
     assert result.exit_code == 2
     message = result.stderr.strip()

@@ -4,11 +4,14 @@ Lengths are mm and volumes mm³ unless a name says otherwise (``board_feet``, ``
 
 How a board is cut, in two stages as on a table saw:
 
-1. it is ripped along its length into strips ("rips"); neighbouring rips are one kerf
-   apart, so  Σ rip widths + (rips − 1) × kerf ≤ board width; a rip is as wide as the
+1. it is ripped along its length into strips ("rips"); neighbouring rips are one gap
+   apart, so  Σ rip widths + (rips − 1) × gap ≤ board width; a rip is as wide as the
    widest piece in it;
-2. each rip is cross-cut into pieces laid end to end, one kerf apart, so
-   Σ piece lengths + (pieces − 1) × kerf ≤ board length.
+2. each rip is cross-cut into pieces laid end to end, one gap apart, so
+   Σ piece lengths + (pieces − 1) × gap ≤ board length.
+
+The gap is what parts neighbouring pieces (``Stock.gap``): the saw's kerf, or the router
+bit's diameter when the pieces are routed out of the board (``stock.separate_with``).
 
 The edges and ends of a dressed board are used as they come; trimming checked ends is
 the builder's to allow for (``stock.waste``, or a longer ``end_allowance``).
@@ -24,8 +27,15 @@ linked by one row per board length and rip width, solved with HiGHS
 (``scipy.optimize.milp``). When every pattern enumerates within ``pattern_limit`` the
 model is complete and HiGHS's answer is the optimum. Otherwise patterns are made by
 column generation, both kinds priced exactly (a Pareto-front knapsack, exact for real
-sizes), and HiGHS solves the integer model over the patterns made, within the time left;
-first-fit plans stand by in case it runs out of time.
+sizes), and HiGHS solves the integer model over the patterns made; first-fit plans
+stand by in case it stops before it finds a plan.
+
+Work limits, not time limits. The answer depends on the input only: column generation
+runs at most ``Work.rounds`` rounds and the integer solve at most ``Work.nodes``
+branch-and-bound nodes (HiGHS is deterministic), so a busy machine gives the same boards
+as a quiet one, only later. A wall-clock guard (``Work.time_guard``) stays as a last
+resort against a run-away solve; if it ever stops one, the order says so in its notes
+(``LumberOrder.stopped_by_clock``), since that answer could differ on another machine.
 
 Lower bound. ``lower_bound_board_feet`` is the LP relaxation of the two-stage model when
 it is complete or column generation converged. When generation stops early it is the
@@ -41,7 +51,7 @@ import os
 import sys
 import time
 from collections import defaultdict
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 
 import numpy as np
 from scipy.optimize import LinearConstraint, linprog, milp
@@ -57,6 +67,25 @@ SAME = 0.01  # mm: pieces this close in length and in width are cut as one type
 EPS = 1e-6  # mm: slack on every fit test, against rounding in sums
 
 PATTERN_CAP = 4000  # most rip patterns per board length, and slot patterns per board width, enumerated
+
+
+@dataclass(frozen=True)
+class Work:
+    """How much work one order may take: limits that depend on nothing but the input.
+
+    ``rounds``: column-generation rounds; ``nodes``: branch-and-bound nodes of the integer
+    solve; ``time_guard``: seconds of wall clock, a last guard against a run-away solve
+    only (never reached on the benchmark jobs; when it stops a solve the order says so).
+    """
+
+    rounds: int = 120
+    nodes: int = 1500
+    time_guard: float = 120.0
+
+
+WORK = Work()
+CLOCK_NOTE = ("the solve was stopped by its time guard, not by its work limits: on another machine the "
+              "plan could differ")
 
 
 def board_feet(nominal_thickness: float, nominal_width: float, length: float) -> float:
@@ -166,7 +195,9 @@ class LumberOrder:
     fewer board feet; it is the LP relaxation of the two-stage model when ``bound_is_lp``,
     else a weaker bound (Farley or area). ``stave_volume`` is Σ piece.volume (mm³).
     ``method`` is "enumerated patterns" or "column generation"; ``proven_optimal`` says
-    the board feet are the least possible.
+    the board feet are the least possible. ``gap`` (mm) parts neighbouring pieces on a board
+    (kerf or router bit); ``stopped_by_clock`` says the time guard, not the work limits,
+    ended the solve.
     """
 
     boards: tuple[Board, ...]
@@ -179,6 +210,8 @@ class LumberOrder:
     proven_optimal: bool
     bound_is_lp: bool
     notes: tuple[str, ...] = field(default=())
+    gap: float = 0.0
+    stopped_by_clock: bool = False
 
     @property
     def board_feet(self) -> float:
@@ -496,16 +529,18 @@ def _quiet_stdout():
         os.close(saved)
 
 
-def _ip(m: _Model, time_limit: float) -> tuple[np.ndarray | None, bool]:
-    """Integer solve: (counts per column or None, proven optimal)."""
+def _ip(m: _Model, work: Work, clock_left: float) -> tuple[np.ndarray | None, bool, bool]:
+    """Integer solve within ``work.nodes`` nodes: (counts per column or None, proven optimal,
+    stopped by the clock guard)."""
     with _quiet_stdout():
         res = milp(
             m.cost, constraints=LinearConstraint(m.A, -np.inf, m.upper), integrality=np.ones(len(m.cost)),
-            options={"time_limit": max(0.2, time_limit), "mip_rel_gap": 1e-9},
+            options={"node_limit": work.nodes, "time_limit": max(0.5, clock_left), "mip_rel_gap": 1e-9},
         )
+    clock = res.status == 1  # scipy's status 1 is HiGHS's time limit (the node limit is status 4)
     if res.x is None:
-        return None, False
-    return np.round(res.x).astype(int), res.status == 0
+        return None, False, clock
+    return np.round(res.x).astype(int), res.status == 0, clock
 
 
 def _decode(prob: _Problem, m: _Model, x: np.ndarray) -> _Plan:
@@ -787,15 +822,24 @@ def _first_fit(prob: _Problem, main: int, by_length: bool) -> _Plan:
     return plan
 
 
-def _solve(
-    prob: _Problem, deadline: float, limit: int, max_rounds: int = 300
-) -> tuple[_Plan, float, bool, bool, bool]:
+@dataclass
+class _Outcome:
+    plan: _Plan
+    bound: float
+    optimal: bool
+    complete: bool
+    converged: bool
+    stopped_by_clock: bool
+
+
+def _solve(prob: _Problem, work: Work, limit: int) -> _Outcome:
     """The two-stage model: patterns enumerated up to ``limit`` per family, the rest generated.
 
-    Column generation may use half the time left; the integer solve over every pattern
-    made takes the rest. Returns (plan, lower bound, proven optimal, all enumerated,
-    bound is the LP).
+    Column generation runs at most ``work.rounds`` rounds, the integer solve over every
+    pattern made at most ``work.nodes`` nodes; ``work.time_guard`` seconds of wall clock
+    stop either only as a last resort (and the outcome says so).
     """
+    clock_end = time.monotonic() + work.time_guard
     rips, slots = _start(prob)
     full_rips, full_slots, complete = _enumerate(prob, limit) if limit > 0 else ([], {}, False)
     if not complete:  # a part-enumerated model only slows the integer solve: generate it all
@@ -808,11 +852,11 @@ def _solve(
     for w, qs in full_slots.items():
         slots[w].extend(q for q in qs if (w, q) not in seen_slots)
         seen_slots.update((w, q) for q in qs)
-    stop = time.monotonic() + 0.5 * max(0.0, deadline - time.monotonic())
     converged = False
+    clock = False
     bound = _area_bound(prob)
     try:
-        for _ in range(max_rounds):
+        for _ in range(work.rounds):
             m = _model(prob, rips, slots)
             value, pi, mu = _lp(prob, m)
             price = np.cumsum(mu, axis=1)  # a slot of class c on length j is worth Σ_{c' ≤ c} μ[j, c']
@@ -836,15 +880,17 @@ def _solve(
                 bound = max(bound, value)
                 break
             bound = max(bound, _farley(prob, pi, strips))
-            if time.monotonic() > stop:
+            if time.monotonic() > clock_end:  # the last guard only: work limits end every benchmark job
+                clock = True
                 break
     except _TooMany:  # a knapsack front grew past its cap: keep the bound so far
         pass
-    # first-fit plans: a fallback should the integer solve run out of time
+    # first-fit plans: a fallback should the integer solve stop before it finds a plan
     plans = [_one_type_boards(prob)]
     plans += [_first_fit(prob, s, by_length) for s in range(len(prob.sizes)) for by_length in (False, True)]
     m = _model(prob, rips, slots)
-    x, proven = _ip(m, deadline - time.monotonic())
+    x, proven, ip_clock = _ip(m, work, clock_end - time.monotonic())
+    clock = clock or ip_clock
     if x is not None:
         plans.append(_decode(prob, m, x))
 
@@ -857,7 +903,7 @@ def _solve(
     # proven least: the plan meets the bound, or the model held every pattern and HiGHS proved it
     optimal = cost <= bound * (1 + 1e-9) + 1e-9 or (
         complete and converged and proven and x is not None and cost <= plan_cost(plans[-1]))
-    return plan, bound, optimal, complete, converged
+    return _Outcome(plan, bound, optimal, complete, converged, clock)
 
 
 # -------------------------------------------------------------------------- placing
@@ -919,37 +965,107 @@ def _draw(sizes: list[BoardSize], boards: list[tuple[int, list[list[Piece]]]], k
 
 
 def order_lumber(pieces: list[Piece] | tuple[Piece, ...], stock: Stock, *, units: str = "mm",
-                 time_budget: float = 5.0, pattern_limit: int = PATTERN_CAP) -> LumberOrder:
+                 work: Work = WORK, pattern_limit: int = PATTERN_CAP) -> LumberOrder:
     """The boards to cut ``pieces`` from, least board feet first, and the order to place.
 
-    ``units`` ("mm" or "in") is for error messages only. ``time_budget`` (s) bounds the
-    solve; past it the best plan found is returned with ``proven_optimal`` false.
-    ``pattern_limit`` caps the patterns enumerated per board length or width (0: generate
-    them all). Raises :class:`InputError` for a piece longer (key ``stock.lengths``) or
-    wider (``stock.widths``) than every board.
+    ``units`` ("mm" or "in") is for error messages only. ``work`` bounds the solve by
+    counts (the answer depends on the input only); past them the best plan found is
+    returned with ``proven_optimal`` false. ``pattern_limit`` caps the patterns enumerated
+    per board length or width (0: generate them all). Pieces are ``stock.gap`` apart (the
+    kerf, or the router bit). Raises :class:`InputError` for a piece longer (key
+    ``stock.lengths``) or wider (``stock.widths``) than every board.
     """
     pieces = list(pieces)
     _check(pieces, stock, units)
     sizes = _sizes(stock)
     stave_volume = float(sum(p.volume for p in pieces))
     if not pieces:
-        return LumberOrder((), (), (), stock.waste, 0.0, 0.0, "none", True, True)
-    prob = _Problem(_group(pieces), sizes, stock.kerf)
-    plan, bound, optimal, complete, is_lp = _solve(prob, time.monotonic() + time_budget, pattern_limit)
-    notes = [] if optimal else [
-        "the solve stopped before the plan was proven least; compare its board feet with the lower bound"
+        return LumberOrder((), (), (), stock.waste, 0.0, 0.0, "none", True, True, gap=stock.gap)
+    prob = _Problem(_group(pieces), sizes, stock.gap)
+    out = _solve(prob, work, pattern_limit)
+    notes = [] if out.optimal else [
+        "the solve stopped at its work limit before the plan was proven least; compare its board feet with the "
+        "lower bound"
     ]
+    if out.stopped_by_clock:
+        notes.append(CLOCK_NOTE)
+    boards = _draw(sizes, _place(prob, out.plan, pieces), stock.gap)
+    return _order_of(boards, sizes, stock, stave_volume, lower_bound_board_feet=out.bound,
+                     method="enumerated patterns" if out.complete else "column generation",
+                     proven_optimal=out.optimal, bound_is_lp=out.converged or out.complete, notes=tuple(notes),
+                     stopped_by_clock=out.stopped_by_clock)
 
-    boards = _draw(sizes, _place(prob, plan, pieces), stock.kerf)
+
+def _order_of(boards: list[Board], sizes: list[BoardSize], stock: Stock, stave_volume: float,
+              spares: tuple[SizeCount, ...] | None = None, **figures) -> LumberOrder:
+    """The order of ``boards``: the boards used, and to buy them with the waste allowance (or ``spares``, an
+    order to buy that already holds every board used and the allowance, if it buys fewer board feet)."""
     tally: dict[int, int] = defaultdict(int)
-    index = {id(z): i for i, z in enumerate(sizes)}
+    index = {z: i for i, z in enumerate(sizes)}
     for b in boards:
-        tally[index[id(b.size)]] += 1
+        tally[index[b.size]] += 1
     used = tuple(SizeCount(sizes[i], n) for i, n in sorted(tally.items()))
     to_buy = add_waste(used, stock.waste)
-    return LumberOrder(
-        boards=tuple(boards), used=used, to_buy=to_buy, waste=stock.waste,
-        lower_bound_board_feet=bound, stave_volume=stave_volume,
-        method="enumerated patterns" if complete else "column generation",
-        proven_optimal=optimal, bound_is_lp=is_lp, notes=tuple(notes),
-    )
+    if spares is not None and sum(c.board_feet for c in spares) < sum(c.board_feet for c in to_buy):
+        to_buy = spares
+    return LumberOrder(boards=tuple(boards), used=used, to_buy=to_buy, waste=stock.waste,
+                       stave_volume=stave_volume, gap=stock.gap, **figures)
+
+
+def board_feet_rate(pieces: list[Piece] | tuple[Piece, ...], stock: Stock) -> float:
+    """A quick estimate of the board feet ``pieces`` need, for ranking many piece sets cheaply.
+
+    Each piece is charged the least board feet per piece of any one board size cut into
+    rips of that piece alone (as many along a rip and as many rips across as fit, one gap
+    apart), counted as a fraction of a board. Additive over pieces, no solver; it sees how
+    lengths fit board lengths and widths fit board widths, not pieces of different sizes
+    sharing a rip. ``inf`` if a piece fits no board.
+    """
+    g = stock.gap
+    sizes = _sizes(stock)
+    total = 0.0
+    for p in pieces:
+        best = math.inf
+        for z in sizes:
+            along = int((z.length + g + EPS) // (p.length + g))
+            across = int((z.width + g + EPS) // (p.width + g))
+            if along and across:
+                best = min(best, z.board_feet / (along * across))
+        total += best
+    return total
+
+
+def relabel(order: LumberOrder, label: dict[str, str]) -> LumberOrder:
+    """The same order with each piece's label mapped through ``label`` (labels not in it kept)."""
+    def cut(c: Cut) -> Cut:
+        return Cut(replace(c.piece, label=label.get(c.piece.label, c.piece.label)), c.offset)
+
+    boards = tuple(Board(b.id, b.size, tuple(Rip(r.offset, r.width, tuple(cut(c) for c in r.cuts)) for r in b.rips))
+                   for b in order.boards)
+    return replace(order, boards=boards)
+
+
+def side_by_side(orders: list[LumberOrder], stock: Stock, lower_bound: float, bound_is_lp: bool) -> LumberOrder:
+    """One order holding every board of ``orders`` as each cuts it, renumbered B1, B2, ...
+
+    For pieces ordered apart and then together: when cutting them apart is no worse, this
+    is the plan. It buys what the orders buy between them (each with its own spares), or
+    the boards used with the waste allowance on their sum, whichever is less. ``lower_bound``
+    must be a bound for all the pieces together (the bound of the order made for them
+    together); the plan is proven least when it meets it.
+    """
+    sizes = _sizes(stock)
+    boards = [b for order in orders for b in order.boards]
+    boards.sort(key=lambda b: (-b.size.width, -b.size.length))
+    boards = [Board(f"B{i + 1}", b.size, b.rips) for i, b in enumerate(boards)]
+    cost = sum(b.size.board_feet for b in boards)
+    bought: dict[BoardSize, int] = defaultdict(int)  # each order's boards to buy, spares and all
+    for order in orders:
+        for c in order.to_buy:
+            bought[c.size] += c.count
+    spares = tuple(SizeCount(z, bought[z]) for z in sizes if bought.get(z))
+    return _order_of(boards, sizes, stock, sum(o.stave_volume for o in orders), spares=spares,
+                     lower_bound_board_feet=lower_bound,
+                     method="each order kept apart", proven_optimal=cost <= lower_bound * (1 + 1e-9) + 1e-9,
+                     bound_is_lp=bound_is_lp, notes=tuple(dict.fromkeys(n for o in orders for n in o.notes)),
+                     stopped_by_clock=any(o.stopped_by_clock for o in orders))

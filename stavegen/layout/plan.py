@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 from dataclasses import dataclass
+from types import SimpleNamespace
 from typing import Callable
 
 from ..errors import InputError
@@ -11,9 +12,9 @@ from ..section.properties import Section
 from ..stations.evaluate import SectionCache
 from ..stations.grid import station_marks
 from .lumber import LumberOrder, Piece, order_lumber
-from .operations import Machining, StationSettings, machining  # noqa: F401  (re-exported)
+from .operations import Machining, StationSettings, blank_for, machining  # noqa: F401  (re-exported)
 from .plugs import PlugBlock, plug_blocks
-from .scarfs import ScarfPlan, ScarfRules, place_scarfs, segment_bounds
+from .scarfs import ScarfAim, ScarfPlan, ScarfRules, aim_scarfs, segment_bounds
 from .segments import Segment, make_segment
 from .staves import StavePlan, stave_plan
 
@@ -28,6 +29,7 @@ class Layout:
     plugs: tuple[PlugBlock, ...]
     machining: Machining
     lumber: LumberOrder
+    scarf_aim: ScarfAim | None = None  # board feet with the slack-first scarfs and with the chosen ones
 
     @property
     def board_of(self) -> dict[str, str]:
@@ -61,12 +63,12 @@ def scarf_rules(spar: Spar, plan: StavePlan) -> ScarfRules:
     )
 
 
-def lay_out(spar: Spar, cache: SectionCache | None = None, step: Callable[[str], None] | None = None,
-            lumber_budget: float = 5.0) -> Layout:
+def lay_out(spar: Spar, cache: SectionCache | None = None, step: Callable[[str], None] | None = None) -> Layout:
     """The shop plan for a resolved spar with a [stock] table.
 
-    ``step``, if given, is told what is being worked out as it starts ("ordering lumber"); the lumber
-    solve gets ``lumber_budget`` seconds.
+    ``step``, if given, is told what is being worked out as it starts ("ordering lumber"). The scarfs are
+    aimed at the boards (:func:`~stavegen.layout.scarfs.aim_scarfs`); every solve stops on work limits, so the
+    plan depends on the spar alone.
     """
     if spar.stock is None:
         raise InputError("missing: build needs the boards the staves are ripped from "
@@ -75,7 +77,43 @@ def lay_out(spar: Spar, cache: SectionCache | None = None, step: Callable[[str],
     marks = station_marks(spar)
     base = stave_plan(spar, marks, cache)
     rules = scarf_rules(spar, base)
-    scarfs = place_scarfs(base.start, base.end, base.cut_length, spar.length, spar.hollow.staves, rules)
+    if step is not None:
+        step("placing the scarfs for the boards")
+    choice = aim_scarfs(base, spar.length, spar.hollow.staves, rules, spar.stock, rough=_rough_width(spar))
+    for scarfs in dict.fromkeys((choice.plan, choice.slack_first)):
+        plan, staves, shop, lumber = cut_and_order(spar, cache, base, scarfs, rules, step)
+        # the aimed scarfs were measured on the plan before its segments were cut: should the cut segments need
+        # more than measured, the slack-first scarfs are laid out instead
+        if choice.aim is None or lumber.board_feet <= choice.aim.board_feet + 1e-6 or scarfs is choice.slack_first:
+            break
+    return Layout(plan=plan, scarfs=scarfs, staves=staves, plugs=plug_blocks(spar, cache), machining=shop,
+                  lumber=lumber, scarf_aim=choice.aim if scarfs is choice.plan else None)
+
+
+def cut_and_order(spar: Spar, cache: SectionCache, base: StavePlan, scarfs: ScarfPlan, rules: ScarfRules,
+                  step: Callable[[str], None] | None = None):
+    """The segments of ``scarfs``, their cutter settings and the boards they are cut from:
+    (stave plan, staves, machining, lumber order)."""
+    plan, staves = _segments(spar, cache, base, scarfs, rules)
+    if step is not None:
+        step("working out the cutter settings")
+    shop = machining(spar, plan, staves, cache)
+    if step is not None:
+        step("ordering lumber")
+    rough = {s.label: s.rough_width for s in shop.segments}
+    pieces = [Piece(label=seg.label, stave=seg.stave, segment=seg.index, length=seg.length,
+                    width=rough[seg.label], volume=seg.volume) for stave in staves for seg in stave]
+    return plan, staves, shop, order_lumber(pieces, spar.stock, units=spar.units)
+
+
+def _rough_width(spar: Spar) -> Callable[[float], float]:
+    """The rip width of a segment from its widest finished width (mm), as the machining's blank has it."""
+    return lambda widest: blank_for(spar, SimpleNamespace(widest=widest), 0.0)[1]
+
+
+def _segments(spar: Spar, cache: SectionCache, base: StavePlan, scarfs: ScarfPlan,
+              rules: ScarfRules) -> tuple[StavePlan, list[tuple[Segment, ...]]]:
+    """The stave plan with stations at every segment end and scarf, and each stave's segments."""
     bounds = [segment_bounds(base.start, base.end, centres, rules.length) for centres in scarfs.centres]
     ends = sorted({z for stave in bounds for a, b in stave for z in (a, b) if 0 <= z <= spar.length})
     centres = sorted({c for stave in scarfs.centres for c in stave})
@@ -87,15 +125,4 @@ def lay_out(spar: Spar, cache: SectionCache | None = None, step: Callable[[str],
             make_segment(plan, k, i + 1, a, b, scarf_at_start=i > 0, scarf_at_end=i < last,
                          scarf_length=rules.length)
             for i, (a, b) in enumerate(stave_bounds)))
-    staves = tuple(staves)
-    if step is not None:
-        step("working out the cutter settings")
-    shop = machining(spar, plan, staves, cache)
-    if step is not None:
-        step("ordering lumber")
-    rough = {s.label: s.rough_width for s in shop.segments}
-    pieces = [Piece(label=seg.label, stave=seg.stave, segment=seg.index, length=seg.length,
-                    width=rough[seg.label], volume=seg.volume) for stave in staves for seg in stave]
-    lumber = order_lumber(pieces, spar.stock, units=spar.units, time_budget=lumber_budget)
-    return Layout(plan=plan, scarfs=scarfs, staves=staves, plugs=plug_blocks(spar, cache),
-                  machining=shop, lumber=lumber)
+    return plan, tuple(staves)

@@ -15,6 +15,27 @@ slack, so scarfs sit well inside their windows rather than on their limits:
 
 Positions are z, mm from the heel. Lengths along the face differ from z by
 the stave's slope; the bounds here use the steepest slope, so they hold.
+
+That placement looks only at the rules, not at the boards: a 12' 6" segment
+is cut from a 14 ft board. :func:`aim_scarfs` then aims the scarfs at the
+boards. It keeps each phase's count of scarfs and every rule above, and
+tries placements where the segments come out as long as a board, or as half
+or a third of one (less the gaps between them), measured along the face:
+
+1. every such placement of each phase that keeps the rules is generated
+   (at most ``AimWork.sequences`` per phase) and given a quick estimate of
+   the board feet its staves need (:func:`~stavegen.layout.lumber.board_feet_rate`);
+2. the best ``AimWork.per_phase`` of each phase, and the slack-first
+   placement, are combined across phases where the stagger allows;
+3. the ``AimWork.combined`` best combinations by the estimate are ordered by
+   the lumber solver (the same two-stage model, with a light work limit);
+4. the best of them and the slack-first placement are ordered again with the
+   full work limit, and the one that needs fewer board feet is kept (the
+   slack-first one on a tie, and the one with more slack between aimed ones).
+
+So the chosen placement never needs more board feet than the slack-first
+one, and every limit is a count: the same spar gives the same scarfs on any
+machine.
 """
 
 from __future__ import annotations
@@ -22,15 +43,21 @@ from __future__ import annotations
 import itertools
 import math
 from dataclasses import dataclass
-from typing import Sequence
+from typing import Callable, Sequence
 
 import numpy as np
 from scipy.optimize import Bounds, LinearConstraint, milp
 
 from ..errors import DesignError
+from ..model.spar import Stock
 from ..units import format_length
+from .lumber import WORK, LumberOrder, Piece, Work, board_feet_rate, order_lumber
+from .staves import StavePlan
 
 MIN_SEGMENT_FACTOR = 2.0  # a segment is at least twice the scarf length
+SCARF_NODES = 2000  # branch-and-bound nodes of the slack-first placement
+TOUCH = 1e-6  # mm: a rule is kept when it holds to this
+AIM_MARGIN = 0.5  # mm: an aimed segment is this much shorter than the board length it is aimed at
 
 
 @dataclass(frozen=True)
@@ -173,9 +200,11 @@ def _solve(start: float, end: float, spar_length: float, rules: ScarfRules, coun
     lower[n_c:n_c + n_y + n_o] = 0
     upper[n_c:n_c + n_y + n_o] = 1
     lower[t_index], upper[t_index] = 0.0, rules.longest_piece
+    # A node limit, not a time limit: the same spar gives the same scarfs on any machine (the time limit is a
+    # last guard only; these models are small and prove in a few nodes).
     result = milp(objective, constraints=LinearConstraint(np.array(rows), lo, hi), integrality=integrality,
-                  bounds=Bounds(lower, upper), options={"time_limit": 20})
-    if result.x is None or (not result.success and result.status != 1):
+                  bounds=Bounds(lower, upper), options={"node_limit": SCARF_NODES, "time_limit": 60})
+    if result.x is None:
         return None
     return [[float(result.x[c(p, i)]) for i in range(counts[p])] for p in range(P)]
 
@@ -223,3 +252,211 @@ def segment_bounds(start: float, end: float, centres: Sequence[float], scarf_len
         b = edges[i + 1] + (half if i + 1 < len(edges) - 1 else 0.0)
         out.append((a, b))
     return out
+
+
+# --------------------------------------------------------------------------- aimed at the boards
+
+
+@dataclass(frozen=True)
+class AimWork:
+    """Limits on aiming the scarfs at the boards: counts only, so the answer depends on the spar alone."""
+
+    fills: int = 3  # a segment is aimed at a board length, or 1/2 ... 1/fills of one
+    sequences: int = 2000  # most placements generated per phase
+    per_phase: int = 12  # placements of each phase kept after the quick estimate
+    combined: int = 8  # whole placements ordered with the lumber solver's light work
+    light: Work = Work(rounds=20, nodes=200)
+    full: Work = WORK
+
+
+AIM = AimWork()
+
+
+@dataclass(frozen=True)
+class ScarfAim:
+    """Aiming the scarfs at the boards: board feet the cutting plan uses (before the waste allowance) with the
+    slack-first placement and with the chosen one (full work limit, both); the chosen one's LP bound; how many
+    placements were ordered."""
+
+    slack_first_board_feet: float
+    board_feet: float
+    lower_bound_board_feet: float
+    tried: int
+    aimed: bool
+
+    @property
+    def saved_board_feet(self) -> float:
+        return self.slack_first_board_feet - self.board_feet
+
+
+@dataclass(frozen=True)
+class ScarfChoice:
+    """The scarfs chosen, the slack-first placement beside them, and what aiming found (None: nothing to aim)."""
+
+    plan: ScarfPlan
+    slack_first: ScarfPlan
+    aim: ScarfAim | None
+
+
+class _Geometry:
+    """Face lengths and rip widths of stave pieces, read off the stave plan (straight between stations)."""
+
+    def __init__(self, plan: StavePlan, rough: Callable[[float], float] | None = None) -> None:
+        self.z = np.array([st.z for st in plan.stations])
+        self.s = np.array([st.s for st in plan.stations])
+        self.width = np.array([st.width for st in plan.stations])
+        self.rough = rough or (lambda widest: widest + 2 * plan.edge_allowance)
+
+    def s_at(self, z: float) -> float:
+        return float(np.interp(z, self.z, self.s))
+
+    def z_at(self, s: float) -> float:
+        return float(np.interp(s, self.s, self.z))
+
+    def piece(self, a: float, b: float) -> tuple[float, float]:
+        """(face length, rip width) of the stave from z = a to b."""
+        inside = self.width[(self.z > a) & (self.z < b)]
+        ends = np.interp([a, b], self.z, self.width)
+        return self.s_at(b) - self.s_at(a), self.rough(float(max(ends.max(), inside.max(initial=0.0))))
+
+
+def _adjacent(phases: int) -> list[tuple[int, int]]:
+    return [] if phases < 2 else [(0, 1)] if phases == 2 else [(0, 1), (1, 2), (0, 2)]
+
+
+class _Aim:
+    """One spar's scarf aiming: the rules, the stave geometry and the stock."""
+
+    def __init__(self, geo: _Geometry, start: float, end: float, spar_length: float, rules: ScarfRules,
+                 stock: Stock) -> None:
+        self.geo, self.start, self.end, self.rules, self.stock = geo, start, end, rules, stock
+        self.zones = _allowed_zones(spar_length, rules)
+        self.least = MIN_SEGMENT_FACTOR * rules.length
+        self.half = rules.length / 2
+        self.gap = rules.length + rules.stagger
+
+    # -- rules --
+
+    def slack(self, centres: Sequence[float]) -> float | None:
+        """The least margin by which one stave's scarfs keep the rules (mm), or None if they break one."""
+        margins = []
+        for c in centres:
+            inside = [min(c - lo, hi - c) for lo, hi in self.zones if lo - TOUCH <= c <= hi + TOUCH]
+            if not inside:
+                return None
+            margins.append(max(inside))
+        if any(b <= a for a, b in zip(centres, centres[1:])):
+            return None
+        for a, b in segment_bounds(self.start, self.end, centres, self.rules.length):
+            length, _ = self.geo.piece(a, b)
+            margins += [self.rules.longest_piece - length, (b - a) - self.least]
+        least = min(margins)
+        return least if least >= -TOUCH else None
+
+    def stagger_slack(self, one: Sequence[float], other: Sequence[float]) -> float:
+        return min((abs(a - b) - self.gap for a in one for b in other), default=math.inf)
+
+    # -- placements aimed at the boards --
+
+    def fills(self, work: AimWork) -> list[float]:
+        """Face lengths that fill a board length alone, or 2 ... ``work.fills`` to a rip, gaps between."""
+        g = self.stock.gap
+        out = {round((L + g) / n - g - AIM_MARGIN, 6) for L in self.stock.lengths for n in range(1, work.fills + 1)}
+        return sorted((f for f in out if self.least <= f <= self.rules.longest_piece), reverse=True)
+
+    def sequences(self, count: int, fills: list[float], cap: int) -> list[tuple[float, ...]]:
+        """Placements of ``count`` scarfs where every segment but one is aimed at a fill length."""
+        geo, h = self.geo, self.half
+        out: list[tuple[float, ...]] = []
+        for free in range(count + 1):  # segments before ``free`` aimed from the heel, those after from the head
+            for heel in itertools.product(fills, repeat=free):
+                cs, z = [], self.start
+                for f in heel:
+                    c = geo.z_at(geo.s_at(z) + f) - h
+                    cs.append(c)
+                    z = c - h
+                for head in itertools.product(fills, repeat=count - free):
+                    ds, z = [], self.end
+                    for f in head:
+                        c = geo.z_at(geo.s_at(z) - f) + h
+                        ds.append(c)
+                        z = c + h
+                    out.append(tuple(cs + ds[::-1]))
+                    if len(out) >= cap:
+                        return out
+        return out
+
+    def pieces(self, centres: tuple[tuple[float, ...], ...], phases: tuple[int, ...]) -> list[Piece]:
+        out = []
+        for k, p in enumerate(phases, start=1):
+            for i, (a, b) in enumerate(segment_bounds(self.start, self.end, centres[p], self.rules.length), 1):
+                length, width = self.geo.piece(a, b)
+                out.append(Piece(f"S{k}-{i}", k, i, length, width, 0.0))
+        return out
+
+    def rate(self, centres: tuple[float, ...], staves: int) -> float:
+        one = [self.geo.piece(a, b) for a, b in segment_bounds(self.start, self.end, centres, self.rules.length)]
+        return staves * board_feet_rate([Piece("x", 1, 1, length, width, 0.0) for length, width in one], self.stock)
+
+    def order(self, centres: tuple[tuple[float, ...], ...], phases: tuple[int, ...], work: Work) -> LumberOrder:
+        return order_lumber(self.pieces(centres, phases), self.stock, units=self.rules.units, work=work)
+
+
+def aim_scarfs(plan: StavePlan, spar_length: float, staves: int, rules: ScarfRules, stock: Stock,
+               work: AimWork = AIM, rough: Callable[[float], float] | None = None) -> ScarfChoice:
+    """Scarfs that keep every rule and need the fewest board feet of the placements tried (see the module).
+
+    ``plan`` is the stave before its segments are cut (its stations give face lengths and widths);
+    ``rough(widest)`` is a segment's rip width from its widest finished width (default: an edge allowance on
+    each edge). Raises DesignError as :func:`place_scarfs` does when no placement keeps the rules.
+    """
+    base = place_scarfs(plan.start, plan.end, plan.cut_length, spar_length, staves, rules)
+    if base.count == 0:
+        return ScarfChoice(base, base, None)
+    aim = _Aim(_Geometry(plan, rough), plan.start, plan.end, spar_length, rules, stock)
+    phases = base.phases
+    n_phases = max(phases) + 1
+    first = {p: phases.index(p) for p in range(n_phases)}
+    slack_first = tuple(base.centres[first[p]] for p in range(n_phases))
+    fills = aim.fills(work)
+    kept: list[list[tuple[float, tuple[float, ...]]]] = []
+    for p in range(n_phases):
+        share = phases.count(p)
+        found: dict[tuple[float, ...], tuple[float, float]] = {}
+        for centres in [slack_first[p]] + aim.sequences(len(slack_first[p]), fills, work.sequences):
+            key = tuple(round(c, 3) for c in centres)
+            if key in found:
+                continue
+            slack = aim.slack(centres)
+            if slack is not None:
+                found[key] = (aim.rate(centres, share), slack, centres)
+        ranked = sorted(found.values(), key=lambda v: (round(v[0], 9), -v[1]))
+        best = [(rate, centres) for rate, _, centres in ranked[:work.per_phase]]
+        if all(c != slack_first[p] for _, c in best):
+            best.append((found[tuple(round(c, 3) for c in slack_first[p])][0], slack_first[p]))
+        kept.append(best)
+    combos = []
+    for pick in itertools.product(*kept):
+        centres = tuple(c for _, c in pick)
+        stagger = min((aim.stagger_slack(centres[p], centres[q]) for p, q in _adjacent(n_phases)), default=math.inf)
+        if stagger < -TOUCH or centres == slack_first:
+            continue
+        slack = min([stagger] + [aim.slack(c) for c in centres])
+        combos.append((round(sum(rate for rate, _ in pick), 9), -slack, centres))
+    combos.sort(key=lambda v: (v[0], v[1]))
+    tried = [slack_first] + [centres for _, _, centres in combos[:work.combined]]
+    light = [(aim.order(c, phases, work.light).board_feet, i) for i, c in enumerate(tried)]
+    best_light = min(light, key=lambda v: (round(v[0], 9), v[1]))[1]  # the slack-first one wins a tie
+    full_base = aim.order(slack_first, phases, work.full)
+    chosen, full = slack_first, full_base
+    if best_light != 0:
+        candidate = aim.order(tried[best_light], phases, work.full)
+        if candidate.board_feet < full_base.board_feet - 1e-9:
+            chosen, full = tried[best_light], candidate
+    result = ScarfAim(slack_first_board_feet=full_base.board_feet, board_feet=full.board_feet,
+                      lower_bound_board_feet=full.lower_bound_board_feet, tried=len(tried), aimed=chosen != slack_first)
+    if chosen == slack_first:
+        return ScarfChoice(base, base, result)
+    plan_out = ScarfPlan(centres=tuple(tuple(chosen[phases[k]]) for k in range(staves)), phases=phases,
+                         length=rules.length)
+    return ScarfChoice(plan_out, base, result)

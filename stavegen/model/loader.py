@@ -444,6 +444,11 @@ def _stock(t: _Table, units: str, length: float, hollow: Hollow) -> Stock:
     no_scarf = _no_scarf(t, units, length)
     fields = t.fields()
     del fields["thickness"]
+    if fields["separate_with"] == "router" and fields["router_bit"] is None:
+        raise t.fail("router_bit", 'missing: separate_with = "router" needs the diameter of the bit that cuts the '
+                                   "pieces out")
+    if fields["separate_with"] == "saw" and fields["router_bit"] is not None:
+        raise t.fail("router_bit", 'is for separate_with = "router"; the saw parts pieces by its kerf')
     stock = Stock(thickness=thickness, nominal_thickness=nominal, widths=widths, nominal_widths=nominal_widths,
                   lengths=lengths, no_scarf=no_scarf, **fields)
     if isinstance(hollow.wall, Profile) and hollow.wall.largest > thickness + 1e-9:
@@ -598,6 +603,16 @@ def read_spar_text(path: str | Path) -> str:
 
 def spar_from_bytes(raw: bytes, source: str) -> Spar:
     """The validated spar of a spar file's bytes; ``source`` names it in messages (a path, or a label)."""
+    return parse_spar(toml_from_bytes(raw, source), source)
+
+
+def read_toml(path: str | Path) -> dict[str, Any]:
+    """The parsed TOML of the file at ``path`` (a spar file or a boat file), read as a spar file is."""
+    return toml_from_bytes(read_spar_bytes(path), str(path))
+
+
+def toml_from_bytes(raw: bytes, source: str) -> dict[str, Any]:
+    """The parsed TOML of a file's bytes; InputError naming ``source`` if it is not TOML or is empty."""
     if len(raw) > LARGEST_FILE:
         raise InputError(f"is larger than {LARGEST_FILE // 1024:,} KiB: not a spar file", source=source)
     text = _decoded(raw, source)
@@ -609,7 +624,7 @@ def spar_from_bytes(raw: bytes, source: str) -> Spar:
         raise InputError(f"TOML: a number too long to read ({shown(str(exc), 60)})", source=source) from None
     if not data:
         raise InputError("the file is empty (no tables); `stavegen init` writes a starter spar file", source=source)
-    return parse_spar(data, source)
+    return data
 
 
 def load_spar(path: str | Path) -> Spar:

@@ -18,7 +18,7 @@ from dataclasses import dataclass
 from dataclasses import field as _field
 from typing import Any
 
-from .spar import DEFAULT_STRENGTH_TARGET, JOINTS, MAX_STAVES, MIN_STAVES, NOTCH_CUTS, PAPERS, TAPERS
+from .spar import DEFAULT_STRENGTH_TARGET, JOINTS, MAX_STAVES, MIN_STAVES, NOTCH_CUTS, PAPERS, SEPARATIONS, TAPERS
 
 
 @dataclass(frozen=True)
@@ -157,7 +157,7 @@ SPAR = Table("spar", "What the spar is and the unit the file is written in.", re
     Key("name", "text", "what the spar is called; it titles every output and names the files", longest=120,
         example=_u('"My mast"', '"My mast"'),
         note="The output files are named by its words in lowercase joined by hyphens, cut at a word to 60 "
-             "characters (`\"Catboat mast\"` writes `catboat-mast.json`); a name with no letters or digits "
+             "characters (`\"Day-sailer mast\"` writes `day-sailer-mast.json`); a name with no letters or digits "
              "a file name can carry gives `spar`."),
     Key("units", "choice", "the unit of bare numbers in the file and of printed figures", default="in",
         choices=("in", "mm"), example=_u('"in"', '"mm"'),
@@ -282,6 +282,13 @@ STOCK = Table("stock", "The boards the staves are ripped from; needed by `build`
         zero_ok=True, example=_u('"1/8"', "3"),
         note="Refused at 1 in (25.4 mm) or more, or as wide as the widest board (a slip: no saw cuts so wide); "
              "warned of above 1/4 in (6.35 mm)."),
+    Key("separate_with", "choice", "what parts neighbouring pieces on a board", default="saw", choices=SEPARATIONS,
+        field="separate_with", example=_u('"saw"', '"saw"'),
+        choice_notes={"saw": "the pieces are ripped and cross-cut a kerf apart",
+                      "router": "the outlines are routed out of the board: the pieces are kept a router bit "
+                                "apart (router_bit), so the bit cuts into no neighbour"}),
+    Key("router_bit", "length", "diameter of the router bit that cuts the pieces out, with separate_with = "
+        "\"router\"", default=UNSET, field="router_bit", aside=_u('"1/4"', "6")),
     Key("scarf_ratio", "number", "scarf length = ratio × stave thickness", default=8.0, field="scarf_ratio",
         low=1.0, high=50.0, example=_u("8", "8")),
     Key("scarf_stagger", "length", "least distance between scarfs in neighbouring staves",

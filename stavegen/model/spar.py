@@ -25,6 +25,7 @@ NOTCH_CUTS = ("thickest-wall", "follow-wall")
 DEFAULT_STRENGTH_TARGET = 1.0  # the hollow spar at least as strong as the plan unless the file accepts less
 DEFAULT_HEAD_LOAD = 1000.0  # N: the reference sideways head load for comparing deflections (1 kN)
 PAPERS = ("letter", "a4")
+SEPARATIONS = ("saw", "router")  # how neighbouring pieces are parted on a board (stock.separate_with)
 MIN_STAVES, MAX_STAVES = 4, 24
 SLUG_LONGEST = 60  # characters of the file-name stem made from the spar's name
 
@@ -151,6 +152,16 @@ class Stock:
     no_scarf: tuple[tuple[float, float], ...] = ()
     waste: float = 0.10
     edge_allowance: float = 1.5875
+    separate_with: str = "saw"
+    router_bit: float | None = None
+
+    @property
+    def gap(self) -> float:
+        """Clearance between neighbouring pieces on a board (mm): the saw's kerf, or the diameter of the
+        router bit that cuts the pieces out (``separate_with = "router"``)."""
+        if self.separate_with == "router" and self.router_bit is not None:
+            return self.router_bit
+        return self.kerf
 
 
 @dataclass(frozen=True)

@@ -18,7 +18,7 @@ from ..pipeline import Design
 from ..section.properties import Section
 from ..units import KG_M3_PER_LB_FT3, format_force, format_length, format_mass, stress_in
 from .figures import Figures
-from .wording import FENCE_NOTE, GUARD_NOTE, cutter_rows, order_words, steps_words
+from .wording import FENCE_NOTE, GUARD_NOTE, aimed_words, cutter_rows, order_words, steps_words
 
 
 def length(spar: Spar, mm: float | None, tape: bool = False) -> str:
@@ -152,8 +152,8 @@ def print_build_summary(console: Console, design: Design, written: list) -> None
         table.add_row("boards to buy", order_words(lay.lumber, spar.units))
     fig = Figures(spar)
     if lay is not None:
-        table.add_row("scarfs", f"{lay.scarfs.count}, each {fig.cut_length(lay.scarfs.length)} long"
-                      if lay.scarfs.count else "none: every stave is one piece")
+        table.add_row("scarfs", (f"{lay.scarfs.count}, each {fig.cut_length(lay.scarfs.length)} long"
+                                 + aimed_words(lay.scarf_aim)) if lay.scarfs.count else "none: every stave is one piece")
     saved = r.weight_saved
     table.add_row("weight saved", f"{format_mass(saved, spar.units)}, {100 * r.weight_saved_share:.0f} % "
                                   f"({format_mass(r.hollow.mass.mass, spar.units)} hollow against "

@@ -107,6 +107,7 @@ class Part:
     segment: Segment
     origin: Point
     marks_outside: bool = True
+    label: str | None = None  # what the part is called on the sheet, if not its segment's label
 
 
 @dataclass(frozen=True)
@@ -327,7 +328,7 @@ class TemplateSheet:
         g = gap(0)
         lo, hi = room(g)
         h = min(s.label, 0.45 * (hi - lo))
-        pen.text(seg.label, at((g[0] + g[1]) / 2, (lo + hi) / 2), h, "TEXT-LABELS",
+        pen.text(part.label or seg.label, at((g[0] + g[1]) / 2, (lo + hi) / 2), h, "TEXT-LABELS",
                  align=TextEntityAlignment.MIDDLE_CENTER)
         if self.fails:  # on the part itself, inside its outline: every template of a failing design says so
             pen.text("FAILS ITS TARGET: DO NOT CUT", at((g[0] + g[1]) / 2, lo + 0.15 * (hi - lo)),

@@ -183,6 +183,10 @@ def _layout(layout: Layout, fig: Figures) -> dict[str, Any]:
                   for p in layout.plugs],
         "machining": _machining(layout.machining, fig),
         "stock": _stock(layout.lumber),
+        "scarf_aim": None if layout.scarf_aim is None else {
+            "aimed": layout.scarf_aim.aimed, "board_feet": layout.scarf_aim.board_feet,
+            "slack_first_board_feet": layout.scarf_aim.slack_first_board_feet,
+            "lower_bound_board_feet": layout.scarf_aim.lower_bound_board_feet, "tried": layout.scarf_aim.tried},
     }
 
 

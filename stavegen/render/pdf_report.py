@@ -38,7 +38,7 @@ from ..units import MM_PER_FOOT, MM_PER_INCH, N_PER_LBF, format_force, format_ma
 from .csv_cutlist import FAILS_WORD, cutlist_rows
 from .figures import Figures
 from .pdf_common import BOLD, FONT, ITALIC, MM, build_date, paper_size, plain, source_name
-from .wording import (FENCE_NOTE, GUARD_NOTE, board_feet_words, board_length, board_words, cutter_rows,
+from .wording import (FENCE_NOTE, GUARD_NOTE, aimed_words, board_feet_words, board_length, board_words, cutter_rows,
                       dressed_size, nominal_size, order_words, steps_words, volume_words)
 
 MARGIN = 15 * MM
@@ -234,7 +234,7 @@ def summary(r: Report) -> list:
         scarf_text = (f"{lay.scarfs.count} in all ({per_text} per stave), each {r.fig.cut_length(lay.scarfs.length)} long"
                       if lay.scarfs.count else "none: every stave is one piece")
         rows += [
-            ["scarfs", f"{scarf_text}; {len(lay.segments)} segments to cut"],
+            ["scarfs", f"{scarf_text}; {len(lay.segments)} segments to cut{aimed_words(lay.scarf_aim)}"],
             ["stave length", f"{r.where(lay.plan.cut_length)} along the face with end allowances "
                              f"({r.where(lay.plan.finished_length)} finished)"],
         ]

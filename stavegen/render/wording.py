@@ -181,3 +181,12 @@ def order_words(order: LumberOrder, units: str) -> str:
         tally += f" ({volume_words(order.to_buy_volume_m3)})"
     sizes = ", ".join(f"{c.count} of {board_words(c.size, units)}" for c in order.to_buy)
     return f"{count} board{'s' if count != 1 else ''}, {tally}: {sizes}"
+
+
+def aimed_words(aim) -> str:
+    """What aiming the scarfs at the boards saved (a :class:`~stavegen.layout.scarfs.ScarfAim`), as a clause
+    to follow the scarfs' count: empty when the scarfs stayed where the rules alone put them."""
+    if aim is None or not aim.aimed:
+        return ""
+    return (f"; placed for the boards: the cutting plan uses {board_feet_words(aim.board_feet)} board feet, against "
+            f"{board_feet_words(aim.slack_first_board_feet)} with the scarfs placed for the rules alone")

@@ -9,6 +9,7 @@ with ``{"message": the one-line message the command line prints, "key": the key}
 from __future__ import annotations
 
 import json
+import tomllib
 from contextlib import asynccontextmanager
 from dataclasses import dataclass, field
 from pathlib import Path
@@ -23,6 +24,7 @@ from starlette.responses import FileResponse, JSONResponse, Response
 from starlette.routing import Mount, Route
 from starlette.staticfiles import StaticFiles
 
+from ..model.boat import is_boat
 from ..model.spar import JOINTS, PAPERS, TAPERS
 from ..model.woods import wood_table
 from .workers import TimeLimit, Workers
@@ -52,8 +54,11 @@ class Refused(Exception):
 
 
 def bundled_samples(folder: Path) -> dict[str, str]:
-    """The sample spar files shipped with stavegen (in ``folder``), by file name: read once, at start."""
-    return {path.name: path.read_text(encoding="utf-8") for path in sorted(folder.glob("*.toml"))}
+    """The sample spar files shipped with stavegen (in ``folder``), by file name: read once, at start.
+
+    Boat files (a [boat] table listing spar files) are left out: the page edits one spar file."""
+    texts = {path.name: path.read_text(encoding="utf-8") for path in sorted(folder.glob("*.toml"))}
+    return {name: text for name, text in texts.items() if not is_boat(tomllib.loads(text))}
 
 
 def _error(status: int, message: str, key: str = "") -> JSONResponse:

@@ -35,13 +35,12 @@ from ..layout.plan import Layout, lay_out
 from ..model.spar import MAX_STAVES, MIN_STAVES, Spar
 from ..section.integrals import ring_moments
 from ..stations.evaluate import SectionCache
-from ..stations.grid import intervals, refuse_too_many, station_marks
+from ..stations.grid import intervals, refuse_too_many
 from .parallel import Pool
 
 WORKABLE_WIDTH_OVER_THICKNESS = (1.0, 5.0)  # common practice (no source): see the module's note
 BOARD_FEET_TIE = 1e-6
 MOST_STATIONS_COMPARED = 1_000  # every count's check is kept: 20 of them stay under 300 MB up to here
-PARALLEL_FROM_STATIONS = 150  # fewer: the comparison takes about as long as starting a worker process
 BOARD_FOOT_MM3 = 144 * 25.4**3  # 144 in³ (North American lumber grading rules)
 
 
@@ -238,9 +237,7 @@ def compare_stave_counts(spar: Spar, pool: Pool | None = None) -> Comparison:
     first = MIN_STAVES if spar.hollow.joint.kind == "bevel" else MIN_STAVES + 1
     counts = list(range(first, MAX_STAVES + 1))
     refuse_too_many(spar, MOST_STATIONS_COMPARED, f" when it compares the {len(counts)} stave counts")
-    if pool is None:  # worker processes take most of a second to start: worth it only for long spars
-        pool = Pool(None if len(station_marks(spar)) >= PARALLEL_FROM_STATIONS else 1)
-    with pool as workers:
+    with (pool or Pool()) as workers:
         assessed = workers.map(_assessed, [(spar, n) for n in counts])
         candidates = [c for c, _ in assessed]
         sections = {c.staves: cache for c, cache in assessed if cache is not None}

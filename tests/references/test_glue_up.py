@@ -37,7 +37,7 @@ from stavegen.model.loader import load_spar
 from stavegen.pipeline import design
 from stavegen.render.json_doc import to_json
 
-from conftest import SAMPLES, make_spar
+from conftest import SAMPLES, SPAR_SAMPLES, make_spar
 from test_shop_replay import saw
 
 GLUE_GAP = 0.2  # mm
@@ -156,7 +156,7 @@ def stations_to_check(d) -> list[float]:
 
 
 @pytest.mark.parametrize("planed", [False, True], ids=["as cut", "outer face planed to the wall"])
-@pytest.mark.parametrize("path", sorted(SAMPLES.glob("*.toml")), ids=lambda p: p.stem)
+@pytest.mark.parametrize("path", SPAR_SAMPLES, ids=lambda p: p.stem)
 def test_samples_glue_up(path, planed):
     spar = load_spar(path)
     if not spar.hollow.joint.is_birdsmouth:
