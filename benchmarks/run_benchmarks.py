@@ -4,12 +4,18 @@ Run from the repository root with the project installed:
 
     python benchmarks/run_benchmarks.py            # measure and print
     python benchmarks/run_benchmarks.py --write    # also rewrite docs/benchmarks.md
+    python benchmarks/run_benchmarks.py --write --before /path/to/old/venv/bin/python
+                                                   # also time an older install on the same jobs
 
-Every figure is a whole process (python -m stavegen ...) timed with
-time.perf_counter around subprocess.run, median of several runs, and the
-child's peak resident memory from getrusage(RUSAGE_CHILDREN) in a fresh
-runner process per measurement. Ratios are against the import floor measured
-in the same run: starting Python and importing the command line.
+Every figure is a whole process (python -m stavegen ...): wall time from
+time.perf_counter around subprocess.run and CPU time (user + system) and
+peak resident memory from getrusage(RUSAGE_CHILDREN), in a fresh runner
+process per measurement; the median of several runs. A process's import
+cost is measured the same way on a process that only imports what the
+command loaded (found by running the command once and reading sys.modules).
+Worker processes started by `size` are not children the runner can wait
+for, so their CPU is missing from its CPU figure; `size` is also measured
+with STAVEGEN_WORKERS=1 (one process), where the CPU figure is whole.
 """
 
 from __future__ import annotations
@@ -26,42 +32,73 @@ import time
 from pathlib import Path
 
 ROOT = Path(__file__).resolve().parent.parent
-SAMPLES = sorted((ROOT / "samples").glob("*.toml"))
-GOALS = {"sample_build_over_floor": 4.0, "peak_memory_mb": 300.0}
-# Starting Python and importing stavegen: every module a build loads, with the libraries they load.
-FULL_IMPORT = ("import stavegen.cli, stavegen.build, stavegen.pipeline, stavegen.layout.plan, stavegen.sizing.count, "
-               "stavegen.render.json_doc, stavegen.render.csv_cutlist, stavegen.render.dxf_templates, "
-               "stavegen.render.pdf_report, stavegen.render.pdf_fullsize")
+SAMPLES = sorted(p for p in (ROOT / "samples").glob("*.toml") if "[boat]" not in p.read_text())  # spar files
+SIZED = [ROOT / "samples" / "daysailer-mast.toml", ROOT / "samples" / "yawl-mainmast-metric.toml"]  # for `size`
+GOALS = {"sample_build_over_imports": 1.3, "size_over_build": 3.0, "peak_memory_mb": 300.0}
+WORKDIR = {"cwd": None}  # processes run in a scratch folder, so each python imports its own installed stavegen
+HEAVY = ("numpy", "scipy", "shapely", "ezdxf", "reportlab", "pydantic", "rich", "typer")
 
 _RUNNER = r"""
-import resource, subprocess, sys, time, json
-args = json.loads(sys.argv[1])
+import resource, subprocess, sys, time, json, os
+args, env = json.loads(sys.argv[1]), json.loads(sys.argv[2])
 t = time.perf_counter()
-p = subprocess.run(args, stdout=subprocess.DEVNULL, stderr=subprocess.PIPE)
+p = subprocess.run(args, stdout=subprocess.DEVNULL, stderr=subprocess.PIPE, env={**os.environ, **env})
 dt = time.perf_counter() - t
-rss = resource.getrusage(resource.RUSAGE_CHILDREN).ru_maxrss / 1024
-print(json.dumps({"seconds": dt, "peak_mb": rss, "code": p.returncode, "stderr": p.stderr.decode()[-300:]}))
+u = resource.getrusage(resource.RUSAGE_CHILDREN)
+print(json.dumps({"seconds": dt, "cpu": u.ru_utime + u.ru_stime, "peak_mb": u.ru_maxrss / 1024,
+                  "code": p.returncode, "stderr": p.stderr.decode()[-300:]}))
 """
 
+_MODULES = r"""
+import sys
+sys.argv = ["stavegen"] + sys.argv[1:]
+from stavegen.cli import main
+try:
+    main()
+except SystemExit:
+    pass
+mods = sorted(m for m in sys.modules if m.startswith("stavegen") and not m.startswith("stavegen.samples"))
+sys.stderr.write("\nMODULES " + " ".join(mods + sorted({m.split(".")[0] for m in sys.modules} & set(%r))) + "\n")
+""" % (HEAVY,)
 
-def measure(args: list[str], repeat: int = 5) -> dict:
-    """Median wall time (s) and largest peak memory (MB) of a command run ``repeat`` times."""
+
+def measure(args: list[str], repeat: int = 5, env: dict | None = None) -> dict:
+    """Median wall and CPU time (s) and the largest peak memory (MB) of a command run ``repeat`` times."""
     runs = []
     for _ in range(repeat):
-        out = subprocess.run([sys.executable, "-c", _RUNNER, json.dumps(args)], capture_output=True, text=True,
-                             check=True)
+        out = subprocess.run([sys.executable, "-c", _RUNNER, json.dumps(args), json.dumps(env or {})],
+                             capture_output=True, text=True, check=True, cwd=WORKDIR["cwd"])
         runs.append(json.loads(out.stdout))
     codes = {r["code"] for r in runs}
     if codes - {0, 1}:
         raise SystemExit(f"{args} failed: {runs[0]['stderr']}")
     return {"seconds": statistics.median(r["seconds"] for r in runs),
+            "cpu": statistics.median(r["cpu"] for r in runs),
             "peak_mb": max(r["peak_mb"] for r in runs), "runs": repeat}
 
 
-def generated_spar(folder: Path, stations: int, staves: int = 16, length_m: float = 12.0) -> Path:
-    """A generated 12 m spar of ``staves`` staves whose marks give about ``stations`` stations."""
+def loaded_modules(py: str, command: list[str]) -> list[str]:
+    """The stavegen modules and the heavy libraries a command loads."""
+    done = subprocess.run([py, "-c", _MODULES] + command, capture_output=True, text=True, cwd=WORKDIR["cwd"])
+    line = [x for x in done.stderr.splitlines() if x.startswith("MODULES ")]
+    return line[-1].split()[1:] if line else []
+
+
+def import_cost(py: str, command: list[str], repeat: int) -> dict:
+    """Starting Python and importing just what ``command`` loads, measured as a process."""
+    mods = loaded_modules(py, command)
+    stavegen = [m for m in mods if m.startswith("stavegen")]
+    figures = measure([py, "-c", "import " + ", ".join(stavegen)], repeat)
+    figures["libraries"] = [m for m in mods if not m.startswith("stavegen")]
+    return figures
+
+
+def generated_spar(folder: Path, stations: int, staves: int | str = 16, length_m: float = 12.0,
+                   wall: str = '[[0, 46], [8000, 46], [{length}, 32]]', stock: float = 48) -> Path:
+    """A generated 12 m spar of ``staves`` staves whose marks and file positions give about ``stations`` stations."""
     length = length_m * 1000
-    spacing = length / (stations - 1)
+    spacing = length / max(1, stations - 14)  # with the 13 file positions and plug ends: within the limit
+    staves_text = f'"{staves}"' if isinstance(staves, str) else staves
     text = f"""[spar]
 name = "Benchmark spar {stations}"
 units = "mm"
@@ -73,9 +110,9 @@ stations = [[0, 230], [2000, 250], [8000, 250], [{length}, 140]]
 
 [hollow]
 wood = "douglas-fir-coast"
-staves = {staves}
+staves = {staves_text}
 joint = "birdsmouth-flush"
-wall = [[0, 46], [8000, 46], [{length}, 32]]
+wall = {wall.format(length=length)}
 
 [[hollow.plug]]
 from = 0
@@ -86,7 +123,7 @@ from = {length - 600}
 to = {length}
 
 [stock]
-thickness = 48
+thickness = {stock}
 widths = [95, 145, 195]
 lengths = [3000, 3600, 4200, 4800, 6000]
 kerf = 3
@@ -97,144 +134,204 @@ no_scarf = [[1800, 2400]]
 [output]
 mark_spacing = {spacing}
 """
-    path = folder / f"bench-{stations}.toml"
+    path = folder / f"bench-{stations}-{staves}.toml"
     path.write_text(text)
     return path
 
 
-def section_timing(count: int = 2000) -> float:
-    """Microseconds per exact section evaluation (16 flush staves), in this process."""
+def auto_sample(folder: Path, sample: Path) -> Path:
+    """A sample with its stave count (and the day-sailer's wall, tapered) left to stavegen: what `size` works on."""
+    text = sample.read_text()
+    for old, new in (('staves = 12', 'staves = "auto"'), ('wall = "5/8"', 'wall = "auto-tapered"')):
+        text = text.replace(old, new)
+    path = folder / f"auto-{sample.name}"
+    path.write_text(text)
+    return path
+
+
+def section_timing(count: int = 2000) -> tuple[float, float]:
+    """Microseconds per exact section evaluation and per closed-form check (16 flush staves), in this process."""
     sys.path.insert(0, str(ROOT))
     from stavegen.model.spar import Joint
     from stavegen.section.properties import evaluate_section
+    from stavegen.sizing.targets import rounded_ring
 
     t = time.perf_counter()
     for i in range(count):
         evaluate_section(16, Joint("birdsmouth-flush"), 100 + i * 1e-3, 30.0, 1.5)
-    return (time.perf_counter() - t) / count * 1e6
+    exact = (time.perf_counter() - t) / count * 1e6
+    t = time.perf_counter()
+    for i in range(count * 20):
+        rounded_ring(16, 100 + i * 1e-4, 30.0, 1.5)
+    return exact, (time.perf_counter() - t) / (count * 20) * 1e6
+
+
+def run_jobs(py: str, tmp: Path, repeat: int, growth: bool = True) -> dict:
+    results: dict = {}
+    results["floor"] = measure([py, "-c", "import stavegen.cli, stavegen.build, stavegen.pipeline, "
+                                "stavegen.layout.plan, stavegen.sizing.count, stavegen.render.json_doc, "
+                                "stavegen.render.csv_cutlist, stavegen.render.dxf_templates, "
+                                "stavegen.render.pdf_report, stavegen.render.pdf_fullsize"], repeat)
+    results["bare floor"] = measure([py, "-c", "import stavegen.cli"], repeat)
+    for sample in SAMPLES:
+        results[f"build {sample.name}"] = measure([py, "-m", "stavegen", "build", str(sample), "-o",
+                                                   str(tmp / sample.stem)], repeat)
+        results[f"check {sample.name}"] = measure([py, "-m", "stavegen", "check", str(sample)], repeat)
+    for sample in SIZED:  # the day-sailer's mast (inches, tapered wall solved) and the yawl's (mm)
+        auto = auto_sample(tmp, sample)
+        results[f"size {sample.name}"] = measure([py, "-m", "stavegen", "size", str(auto)], repeat)
+        results[f"size {sample.name}, one process"] = measure([py, "-m", "stavegen", "size", str(auto)], repeat,
+                                                              {"STAVEGEN_WORKERS": "1"})
+        results[f"build {auto.name}"] = measure([py, "-m", "stavegen", "build", str(auto), "-o",
+                                                 str(tmp / auto.stem)], repeat)
+    if growth:
+        for n in (100, 1000, 8000):
+            spar = generated_spar(tmp, n)
+            runs = 3 if n < 8000 else 1
+            results[f"check {n} stations"] = measure([py, "-m", "stavegen", "check", str(spar), "--json"], runs)
+            results[f"build {n} stations"] = measure([py, "-m", "stavegen", "build", str(spar), "-o",
+                                                      str(tmp / f"b{n}")], runs)
+        results["build 8000 stations, 24 staves"] = measure(
+            [py, "-m", "stavegen", "build", str(generated_spar(tmp, 8000, staves=24)), "-o", str(tmp / "b24")], 1)
+        for n in (100, 1000):
+            spar = generated_spar(tmp, n, staves="auto", wall='"auto"', stock=72)
+            results[f"size {n} stations"] = measure([py, "-m", "stavegen", "size", str(spar)], 1)
+            results[f"size {n} stations, one process"] = measure([py, "-m", "stavegen", "size", str(spar)], 1,
+                                                                 {"STAVEGEN_WORKERS": "1"})
+    return results
 
 
 def main() -> None:
     parser = argparse.ArgumentParser()
+    parser.add_argument("--from-json", help="only write docs/benchmarks.md from a saved run (last-run.json)")
     parser.add_argument("--write", action="store_true", help="rewrite docs/benchmarks.md")
     parser.add_argument("--repeat", type=int, default=5)
+    parser.add_argument("--before", help="python of an older install: time it on the same sample jobs")
     opts = parser.parse_args()
+    if opts.from_json:
+        write_doc(json.loads(Path(opts.from_json).read_text()))
+        return
     py = sys.executable
     results: dict = {"machine": f"{platform.machine()}, {os.cpu_count()} cores, {platform.python_version()}, "
-                                f"{platform.platform()}"}
-    results["floor"] = measure([py, "-c", FULL_IMPORT], opts.repeat)
-    results["bare floor"] = measure([py, "-c", "import stavegen.cli"], opts.repeat)
+                                f"{platform.platform()}", "load before": os.getloadavg()[0]}
     with tempfile.TemporaryDirectory() as tmp:
         tmp = Path(tmp)
-        for sample in SAMPLES:
-            results[f"build {sample.name}"] = measure([py, "-m", "stavegen", "build", str(sample), "-o",
-                                                       str(tmp / sample.stem)], opts.repeat)
-            results[f"check {sample.name}"] = measure([py, "-m", "stavegen", "check", str(sample), "--json"],
-                                                      opts.repeat)
-        for n in (100, 1000, 10000):
-            spar = generated_spar(tmp, n)
-            results[f"check {n} stations"] = measure([py, "-m", "stavegen", "check", str(spar), "--json"],
-                                                     3 if n < 10000 else 1)
-            results[f"build {n} stations"] = measure([py, "-m", "stavegen", "build", str(spar), "-o",
-                                                      str(tmp / f"b{n}")], 3 if n < 10000 else 1)
-    results["section_us"] = section_timing()
-    floor = results["floor"]["seconds"]
-    lines = [f"machine: {results['machine']}", f"import floor: {floor:.3f} s",
-             f"bare floor (command line only): {results['bare floor']['seconds']:.3f} s"]
-    for key, value in results.items():
-        if isinstance(value, dict) and key not in ("floor", "bare floor"):
-            lines.append(f"{key}: {value['seconds']:.3f} s = {value['seconds'] / floor:.2f} x floor, "
-                         f"peak {value['peak_mb']:.0f} MB")
-    lines.append(f"section evaluation: {results['section_us']:.0f} µs")
-    print("\n".join(lines))
+        WORKDIR["cwd"] = tmp
+        results["jobs"] = run_jobs(py, tmp, opts.repeat)
+        results["imports"] = {}
+        for name, command in (("check", ["check", str(SIZED[0])]),
+                              ("check --json", ["check", str(SIZED[0]), "--json"]),
+                              ("section", ["section", str(SIZED[0]), "--at", "5 ft"]),
+                              ("woods", ["woods"]),
+                              ("init", ["init", str(tmp / "starter.toml"), "--force"]),
+                              ("build", ["build", str(SIZED[0]), "-o", str(tmp / "imports")]),
+                              ("size", ["size", str(auto_sample(tmp, SIZED[0]))])):
+            results["imports"][name] = import_cost(py, command, opts.repeat)
+        if opts.before:
+            (tmp / "before").mkdir()
+            results["before"] = run_jobs(opts.before, tmp / "before", opts.repeat, growth=False)
+            results["before imports"] = {
+                name: import_cost(opts.before, command, opts.repeat)
+                for name, command in (("check", ["check", str(SIZED[0])]),
+                                      ("build", ["build", str(SIZED[0]), "-o", str(tmp / "before-imports")]))}
+    results["load after"] = os.getloadavg()[0]
+    results["section_us"], results["closed_form_us"] = section_timing()
+    for key, value in results["jobs"].items():
+        print(f"{key}: {value['seconds']:.3f} s wall, {value['cpu']:.3f} s CPU, peak {value['peak_mb']:.0f} MB")
+    for key, value in results["imports"].items():
+        print(f"imports of {key}: {value['cpu']:.3f} s CPU ({' '.join(value['libraries'])})")
     (ROOT / "benchmarks" / "last-run.json").write_text(json.dumps(results, indent=2) + "\n")
     if opts.write:
         write_doc(results)
 
 
+def _row(key: str, value: dict, before: dict | None) -> str:
+    was = ""
+    if before and key in before:
+        b = before[key]
+        was = f"{b['seconds']:.2f} s / {b['cpu']:.2f} s"
+    return (f"| {key} | {was} | {value['seconds']:.2f} s / {value['cpu']:.2f} s | {value['peak_mb']:.0f} |")
+
+
 def write_doc(results: dict) -> None:
-    floor = results["floor"]["seconds"]
-    bare = results["bare floor"]["seconds"]
-    rows = []
-    for key, value in results.items():
-        if isinstance(value, dict) and key not in ("floor", "bare floor"):
-            rows.append(f"| {key} | {value['seconds']:.3f} | {value['seconds'] / floor:.2f} | "
-                        f"{value['seconds'] / bare:.1f} | {value['peak_mb']:.0f} |")
-    sample_ratios = [v["seconds"] / floor for k, v in results.items()
-                     if k.startswith("build ") and k.endswith(".toml")]
-    peaks = [v["peak_mb"] for v in results.values() if isinstance(v, dict) and "peak_mb" in v]
-    growth = [results[f"check {n} stations"]["seconds"] for n in (100, 1000, 10000)]
-    build_growth = [results[f"build {n} stations"]["seconds"] for n in (100, 1000, 10000)]
+    jobs, imports, before = results["jobs"], results["imports"], results.get("before")
+    rows = [_row(k, v, before) for k, v in jobs.items() if k not in ("floor", "bare floor")]
+    build_cpu = jobs["build daysailer-mast.toml"]["cpu"]
+    build_ratio = build_cpu / imports["build"]["cpu"]
+    size_ratios = {s.name: jobs[f"size {s.name}"]["seconds"] / jobs[f"build {s.name}"]["seconds"]
+                   for s in SIZED}
+    size_cpu_ratios = {s.name: jobs[f"size {s.name}, one process"]["cpu"] / jobs[f"build {s.name}"]["cpu"]
+                       for s in SIZED}
+    peaks = [v["peak_mb"] for v in jobs.values()]
+    check = [jobs[f"check {n} stations"]["cpu"] for n in (100, 1000, 8000)]
+    build = [jobs[f"build {n} stations"]["cpu"] for n in (100, 1000, 8000)]
+    size = [jobs[f"size {n} stations, one process"]["cpu"] for n in (100, 1000)]
+    import_rows = []
+    for name, value in imports.items():
+        was = ""
+        if results.get("before imports", {}).get(name):
+            was = f"{results['before imports'][name]['cpu']:.2f} s"
+        import_rows.append(f"| {name} | {was} | {value['cpu']:.2f} s | {', '.join(value['libraries'])} |")
     text = f"""# Benchmarks
 
 Speed and memory targets live here and in `benchmarks/`, never in timed
 tests. The whole-process figures below are written by
 `python benchmarks/run_benchmarks.py --write` (rerun it after a change that
-could affect speed); the lumber figures further down by
-`python benchmarks/bench_lumber.py`.
+could affect speed; `--before PYTHON` times an older install on the same
+jobs); the lumber figures further down by `python benchmarks/bench_lumber.py`.
 
 ## Whole process
 
-- Machine: {results['machine']}
-- Method: each figure is a whole process (`python -m stavegen ...`), timed
-  with `time.perf_counter` around `subprocess.run`, the median of several
-  runs (one run at 10,000 stations); peak memory is the child's maximum
-  resident set from `getrusage(RUSAGE_CHILDREN)`. The **import floor** is
-  starting Python and importing stavegen — every module a build loads, with
-  numpy, scipy, shapely, ezdxf and reportlab behind them — measured in the
-  same run: {floor:.3f} s. The **bare floor** is starting Python and importing
-  only the command line (`import stavegen.cli`, which loads the rest lazily):
-  {bare:.3f} s; the ratio to it is shown too, since it is what a user waits
-  for before anything happens.
-- Generated spar: 12 m, 16 flush-birdsmouth staves, tapered wall, two plugs,
-  with `mark_spacing` set to give 100, 1,000 or 10,000 stations.
+- Machine: {results['machine']}; load average {results['load before']:.1f} when the run
+  started and {results['load after']:.1f} when it ended (a shared machine: wall times
+  swing with the load, CPU times much less).
+- Method: each figure is a whole process (`python -m stavegen ...`), the
+  median of several runs (one run for the largest spars): wall time from
+  `time.perf_counter` around `subprocess.run`, CPU time (user + system) and
+  peak memory from `getrusage(RUSAGE_CHILDREN)`. `size` shares its work
+  with worker processes (`stavegen/sizing/parallel.py`) whose CPU the runner
+  cannot count; "one process" runs set `STAVEGEN_WORKERS=1`.
+- Generated spar: 12 m, 16 flush-birdsmouth staves (24 where said),
+  tapered wall, two plugs, with `mark_spacing` set to give about 100, 1,000
+  or 8,000 stations (8,000 is the most stavegen accepts; 1,000 when it
+  compares every stave count). The `size` runs leave the stave count (and
+  the day-sailer mast's wall, tapered) to stavegen; "build auto-..." builds
+  that file, choosing its count on the way (its layout is the chosen
+  count's, not made again).
 
-| run | seconds | × import floor | × bare floor | peak MB |
-| --- | ---: | ---: | ---: | ---: |
+| run | before: wall / CPU | now: wall / CPU | peak MB |
+| --- | ---: | ---: | ---: |
 {chr(10).join(rows)}
 
-Exact section evaluation (16 staves, flush): {results['section_us']:.0f} µs each.
+Exact section evaluation (16 staves, flush): {results['section_us']:.0f} µs each; the
+closed form the sizing searches on: {results['closed_form_us']:.1f} µs.
+
+### Imports of each command
+
+CPU of starting Python and importing what the command loads (found by
+running it), and the libraries among them. `check`, `section`, `woods` and
+`init` load no scipy, ezdxf, reportlab or pydantic.
+
+| command | before | now | libraries loaded |
+| --- | ---: | ---: | --- |
+{chr(10).join(import_rows)}
 
 ### Against the goals
 
 | goal | measured | met |
 | --- | --- | --- |
-| a sample build under 4 × the import floor | worst {max(sample_ratios):.2f} × ({max(sample_ratios) * floor / bare:.1f} × the bare floor) | {"yes" if max(sample_ratios) < 4 else "no"} |
+| a sample build within {GOALS['sample_build_over_imports']} × the CPU of importing what it needs | day-sailer mast: {build_cpu:.2f} s against {imports['build']['cpu']:.2f} s, {build_ratio:.2f} × | {"yes" if build_ratio <= GOALS['sample_build_over_imports'] else "no"} |
+| `size` under 3 × one build of the sample as given (wall) | {", ".join(f"{k}: {v:.2f} ×" for k, v in size_ratios.items())} | {"yes" if max(size_ratios.values()) < 3 else "no"} |
+| the same in CPU, one process | {", ".join(f"{k}: {v:.2f} ×" for k, v in size_cpu_ratios.items())} | {"yes" if max(size_cpu_ratios.values()) < 3 else "no"} |
 | peak memory under 300 MB | worst {max(peaks):.0f} MB | {"yes" if max(peaks) < 300 else "no"} |
-| check time linear in stations (100 → 1,000 → 10,000) | {growth[0]:.2f} s → {growth[1]:.2f} s → {growth[2]:.2f} s | see note |
-| build time linear in stations | {build_growth[0]:.2f} s → {build_growth[1]:.2f} s → {build_growth[2]:.2f} s | see note |
-
-Growth: the per-station work above the fixed start-up cost is
-{(growth[2] - growth[1]) / 9000 * 1e3:.2f} ms per station between 1,000 and 10,000 stations for
-`check`, against {(growth[1] - growth[0]) / 900 * 1e3:.2f} ms between 100 and 1,000; for `build`,
-{(build_growth[2] - build_growth[1]) / 9000 * 1e3:.2f} ms against {(build_growth[1] - build_growth[0]) / 900 * 1e3:.2f} ms. The build
-grows less than linearly past 1,000 stations because the templates mark no
-two stations closer than 10 mm (closer marks cannot be read), while the JSON
-keeps every station.
-
-### What profiling found (cProfile, 1,000- and 10,000-station spars)
-
-- The stave plan rebuilt its arrays of station figures on every lookup,
-  which made laying out quadratic in stations (24 s for a 1,000-station
-  build): the arrays are now built once.
-- The DXF writer's bounding box (ezdxf's extents over every entity) took a
-  third of a large build: the pen now keeps the extents as it draws, checked
-  in the tests against ezdxf's exact box.
-- The interference check turned each stave with shapely's affine
-  transform; turning all of them with one numpy matrix halved the time of a
-  section (about 0.6 ms to 0.25 ms).
-- A 10,000-station build drew over a million DXF entities (every mark on
-  every segment) and peaked at 650 MB; thinning template marks to 10 mm
-  brought it to under 300 MB. What is left is ezdxf writing its entities and
-  reportlab drawing the full-size tiles, both linear in what is drawn.
-- A sample build is mostly start-up: importing numpy, scipy, shapely, ezdxf
-  and reportlab costs about a second; stavegen's own work on a sample is a
-  few hundred milliseconds.
+| check CPU linear in stations (100 → 1,000 → 8,000) | {check[0]:.2f} s → {check[1]:.2f} s → {check[2]:.2f} s | {(check[2] - check[1]) / 7000 * 1e3:.2f} ms a station past 1,000, {(check[1] - check[0]) / 900 * 1e3:.2f} ms before |
+| build CPU linear in stations | {build[0]:.2f} s → {build[1]:.2f} s → {build[2]:.2f} s | {(build[2] - build[1]) / 7000 * 1e3:.2f} ms a station past 1,000, {(build[1] - build[0]) / 900 * 1e3:.2f} ms before |
+| size CPU linear in stations (100 → 1,000) | {size[0]:.2f} s → {size[1]:.2f} s | {(size[1] - size[0]) / 900 * 1e3:.2f} ms a station |
 """
     doc = ROOT / "docs" / "benchmarks.md"
-    # Keep the sections other benchmark scripts wrote (from their "## " heading on).
+    # Keep the hand-written sections (from "### What profiling found" on).
     old = doc.read_text() if doc.exists() else ""
-    keep = old[old.index("## Lumber order"):] if "## Lumber order" in old else ""
+    keep = old[old.index("### What profiling found"):] if "### What profiling found" in old else ""
     doc.write_text(text + ("\n" + keep if keep else ""))
 
 

@@ -1,3 +1,4 @@
 from .cli import main
 
-main()
+if __name__ == "__main__":  # imported again as __mp_main__ in worker processes, where nothing must run
+    main()

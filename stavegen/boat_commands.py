@@ -14,12 +14,25 @@ import typer
 from rich.console import Console
 from rich.text import Text
 
-from .boat_build import is_boat_file, run_boat_build
 from .errors import InputError
 
 EXIT_MISSED = 1
 
 __all__ = ["is_boat_file", "check_boat", "size_boat", "init_boat", "run_boat_build"]
+
+
+def is_boat_file(path: Path) -> bool:
+    """Whether the file is a boat file; read without loading the layout (and scipy) that `check` never needs."""
+    from .model.boat import is_boat
+    from .model.loader import read_toml
+
+    return is_boat(read_toml(path))
+
+
+def run_boat_build(path: Path, folder: Path, console: Console):
+    from .boat_build import run_boat_build as run
+
+    return run(path, folder, console)
 
 
 def check_boat(path: Path, json_out: bool, console: Console) -> None:
@@ -58,7 +71,7 @@ def size_boat(path: Path, write: Optional[Path], console: Console) -> None:
         model = bs.spar
         console.rule(Text(f"{bs.tag}: {model.name} ({bs.file})"))
         with counting(f"{bs.tag}: sizing and laying out every stave count") as tell:
-            comparison = compare_stave_counts(replace(model, hollow=replace(model.hollow, staves="auto")), tell)
+            comparison = compare_stave_counts(replace(model, hollow=replace(model.hollow, staves="auto")), progress=tell)
         console.print(fit(candidates_table(model, comparison)))
         for line in candidate_notes(comparison):
             console.print(Prose(line, style="dim"))

@@ -26,7 +26,7 @@ def write_outputs(result: Design, folder: Path, step: Callable[[str], None] | No
     """
     from .render import dxf_templates
     from .render.csv_cutlist import to_csv
-    from .render.json_doc import to_json
+    from .render.json_doc import write_json
     from .render.pdf_fullsize import write_fullsize
     from .render.pdf_report import write_report
 
@@ -34,7 +34,7 @@ def write_outputs(result: Design, folder: Path, step: Callable[[str], None] | No
     names = output_names(result.spar.slug)
     with OutputSet(folder) as out:
         tell(names["json"])
-        out.add_text(names["json"], to_json(result))
+        out.add(names["json"], lambda p: write_json(result, p))
         tell(names["csv"])
         out.add_text(names["csv"], to_csv(result))
         tell(names["report"])

@@ -159,6 +159,7 @@ def size(
                                               "in (comments kept)."),
     set_staves: bool = typer.Option(False, "--set-staves", help="With --write, also replace the file's stave count "
                                                                 "with the chosen one."),
+    force: bool = typer.Option(False, "--force", help="Let --write overwrite an existing file."),
 ) -> None:
     """Compare every stave count (4 to 24) and show why one is chosen; solve the wall where it is "auto"
     (every spar of a boat)."""
@@ -170,15 +171,20 @@ def size(
         return size_boat(spar, write, _console())
     from .model.loader import load_spar, read_spar_text
     from .model.rewrite import solved_values, with_solved_values
-    from .outputs import OutputSet
+    from .outputs import not_replaceable, write_file
     from .render.console import candidate_notes, candidates_table
     from .render.fit import Prose, fit
     from .render.progress import counting
     from .sizing.count import compare_stave_counts
 
     model = load_spar(spar)
+    if write is not None:  # refused before the comparison's seconds of work, not after
+        why = not_replaceable(write) or (None if force or not write.exists() else
+                                         "already exists; pass --force to overwrite it")
+        if why:
+            raise InputError(why, "--write", str(write))
     with counting("sizing and laying out every stave count") as tell:
-        comparison = compare_stave_counts(_replace(model, hollow=_replace(model.hollow, staves="auto")), tell)
+        comparison = compare_stave_counts(_replace(model, hollow=_replace(model.hollow, staves="auto")), progress=tell)
     console = _console()
     for line in model.notices:
         console.print(Prose(Text("warning: ", style="bold yellow") + Text(line)))
@@ -207,9 +213,7 @@ def size(
                             "stave count)"))
         return
     text = with_solved_values(read_spar_text(spar), original, filled)
-    with OutputSet(write.parent if str(write.parent) else Path(".")) as out:
-        out.add_text(write.name, text)
-        out.commit()
+    write_file(write, text, force=force, key="--write")
     was = {"staves": model.hollow.staves, "wall": model.hollow.wall, "stations": model.hollow.diameter}
     said = "; ".join(f"hollow.{key} = {value} (was {_as_written(was[key])})" for key, value in changes)
     console.print(Prose(f"wrote {write}: {said}"))
@@ -249,7 +253,7 @@ def init(
 ) -> None:
     """Write a commented starter spar file (with --boat, a starter boat and its spar files) to edit."""
     from .model.starter import starter_text
-    from .outputs import OutputSet
+    from .outputs import write_file
 
     if units not in ("in", "mm"):
         raise InputError(f'{units!r} is not "in" or "mm"', "--units")
@@ -259,11 +263,7 @@ def init(
         from .boat_commands import init_boat
 
         return init_boat(path, units, force, _console())
-    if path.exists() and not force:
-        raise InputError("already exists; pass --force to overwrite it", source=str(path))
-    with OutputSet(path.parent if str(path.parent) else Path(".")) as out:
-        out.add_text(path.name, starter_text(units))
-        out.commit()
+    write_file(path, starter_text(units), force=force)
     _console().print(f"wrote {escape(str(path))}: edit it, then run [bold]stavegen check {escape(str(path))}[/]")
 
 
@@ -301,5 +301,47 @@ def serve(
     run_server(spar, bundled_sample(DEFAULT_SPAR), host=host, port=port, open_browser=not no_browser)
 
 
+class _ClosedPipeGuard:
+    """sys.stdout that survives a reader going away (``stavegen check ... | head -1``).
+
+    When the pipe is closed, further output goes to the null device, so the
+    command finishes and exits with its own code (0 or 1), not a traceback.
+    """
+
+    def __init__(self, stream) -> None:
+        self._stream = stream
+
+    def _silence(self) -> None:
+        try:
+            null = os.open(os.devnull, os.O_WRONLY)
+            os.dup2(null, self._stream.fileno())
+            os.close(null)
+        except (OSError, ValueError):
+            pass
+
+    def write(self, text: str) -> int:
+        try:
+            return self._stream.write(text)
+        except BrokenPipeError:
+            self._silence()
+            return len(text)
+
+    def flush(self) -> None:
+        try:
+            self._stream.flush()
+        except BrokenPipeError:
+            self._silence()
+
+    def __getattr__(self, name: str):
+        return getattr(self._stream, name)
+
+
 def main() -> None:  # console-script entry point
-    app()
+    sys.stdout = _ClosedPipeGuard(sys.stdout)
+    try:
+        app()
+    finally:
+        try:
+            sys.stdout.flush()
+        except (OSError, ValueError):
+            pass

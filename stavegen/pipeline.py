@@ -4,13 +4,17 @@ from __future__ import annotations
 
 from dataclasses import dataclass, field
 from pathlib import Path
-from typing import Any, Callable
+from typing import TYPE_CHECKING, Any, Callable
 
 from .checks.advice import warnings_for
 from .checks.assess import Assessment, assess
 from .errors import InputError
 from .model.loader import load_spar
 from .model.spar import Spar
+from .stations.evaluate import SectionCache
+
+if TYPE_CHECKING:
+    from .sizing.solve import Solved
 
 
 @dataclass(frozen=True)
@@ -45,24 +49,43 @@ def design(spar: Spar, layout: bool = False, step: Callable[[str], None] | None 
     """Check the spar (solving what is ``auto``); with ``layout``, also make the shop plan.
 
     ``step``, if given, is told what is being worked out as each step starts (for a progress display).
+    Sections are worked out once for the sizing, the check and the layout; when the stave count was
+    chosen, the chosen count's check and layout (made to choose it) are the design's.
     """
     tell = step or (lambda words: None)
     try:
+        shop = result = None
+        lines: tuple[str, ...] = ()
+        cache = None
         if not spar.resolved:
             tell("solving what the spar file leaves to stavegen")
-        spar, solved = resolve(spar)
-        tell("checking the sections against the plan")
-        result = assess(spar)
-        shop = None
-        if layout:
+            solved = _solve(spar)
+            spar, lines, cache = solved.spar, solved.lines, solved.sections
+            if solved.comparison is not None:
+                result = solved.comparison.chosen.assessment
+                shop = solved.comparison.chosen.layout if layout else None
+        cache = cache or SectionCache(spar)
+        if result is None:
+            tell("checking the sections against the plan")
+            result = assess(spar, cache=cache)
+        if layout and shop is None:
             from .layout.plan import lay_out
 
             tell("laying out the staves, scarfs and plugs")
-            shop = lay_out(spar, step=tell)
+            shop = lay_out(spar, cache, step=tell)
     except InputError as exc:
         raise exc.located(spar.source, spar.units)
     warnings = tuple(spar.notices) + tuple(warnings_for(result))  # the loader's first: they concern the figures
-    return Design(spar=spar, assessment=result, warnings=warnings, layout=shop, solved=solved)
+    return Design(spar=spar, assessment=result, warnings=warnings, layout=shop, solved=lines)
+
+
+def _solve(spar: Spar) -> "Solved":
+    from .sizing.solve import solve
+
+    try:
+        return solve(spar)
+    except InputError as exc:
+        raise exc.located(spar.source)
 
 
 def design_file(path: str | Path) -> Design:

@@ -137,9 +137,9 @@ def _figures(spar: Spar, stretches, stiffness, load: float) -> SparFigures:
     )
 
 
-def assess(spar: Spar, marks: tuple[StationMark, ...] | None = None) -> Assessment:
-    """Check the resolved spar station by station and as a whole."""
-    cache = SectionCache(spar)
+def assess(spar: Spar, marks: tuple[StationMark, ...] | None = None, cache: SectionCache | None = None) -> Assessment:
+    """Check the resolved spar station by station and as a whole (``cache``: sections to share with the layout)."""
+    cache = cache or SectionCache(spar)
     stations: tuple[Station, ...] = evaluate_stations(spar, marks, cache)
     checks = tuple(check_station(spar, s) for s in stations)
     used_marks = tuple(StationMark(s.z, s.reasons) for s in stations)

@@ -12,6 +12,7 @@ from __future__ import annotations
 
 import bisect
 from dataclasses import dataclass
+from functools import cached_property
 
 import numpy as np
 
@@ -76,10 +77,14 @@ class Segment:
 
         Read off the segment's own edges, which are straight between the stations.
         """
-        def across(edge: tuple[Point, ...]) -> float:
-            return float(np.interp(x, [p[0] for p in edge], [p[1] for p in edge]))
+        (nx, ny), (sx, sy) = self._edge_arrays
+        return float(np.interp(x, nx, ny)), float(np.interp(x, sx, sy))
 
-        return across(self.notch_edge), across(self.square_edge)
+    @cached_property
+    def _edge_arrays(self) -> tuple[tuple[np.ndarray, np.ndarray], ...]:
+        """Both edges as arrays of x and y, made once (remaking them on every lookup was quadratic)."""
+        return tuple((np.array([p[0] for p in edge]), np.array([p[1] for p in edge]))
+                     for edge in (self.notch_edge, self.square_edge))
 
 
 TICK_GAP = 10.0  # mm: closer station marks would run their labels together on a template

@@ -7,6 +7,7 @@ appear only in :attr:`Spar.units`, which says how to print.
 from __future__ import annotations
 
 from dataclasses import dataclass, field
+from functools import cached_property
 from typing import Literal, Union
 
 import numpy as np
@@ -42,7 +43,13 @@ class Profile:
 
     def at(self, z: float | np.ndarray) -> float | np.ndarray:
         """Value at ``z`` (mm), interpolated linearly between the given positions."""
-        return np.interp(z, self.z, self.value)
+        return np.interp(z, *self._arrays)
+
+    @cached_property
+    def _arrays(self) -> tuple[np.ndarray, np.ndarray]:
+        """The positions and values as arrays, made once: converting the tuples on every lookup made a
+        lookup cost as much as the profile is long (quadratic work for a wall solved station by station)."""
+        return np.asarray(self.z, dtype=float), np.asarray(self.value, dtype=float)
 
     @property
     def is_constant(self) -> bool:

@@ -500,8 +500,20 @@ class TemplateSheet:
 
 
 def setup_document(units: str):
-    """A new DXF document with our layers, in the spar's units."""
+    """A new DXF document with our layers, in the spar's units.
+
+    Identical input gives an identical file: ezdxf's switch for fixed metadata
+    (documented for comparing documents) writes constant creation and update
+    dates ($TDCREATE, $TDUPDATE), nil $FINGERPRINTGUID/$VERSIONGUID and a
+    constant ezdxf marker in place of the clock and random GUIDs; handles are
+    handed out in drawing order ($HANDSEED follows them). ezdxf lists the
+    object classes in use in the order of a Python set, which follows the
+    hash seed; registering them here in sorted order fixes that order.
+    """
+    ezdxf.options.write_fixed_meta_data_for_testing = True
     doc = ezdxf.new(DXF_VERSION, setup=False)
+    for name in sorted(doc.entitydb.dxf_types_in_use()):
+        doc.classes.add_class(name)
     doc.units = INSUNITS[units]
     doc.header["$INSUNITS"] = INSUNITS[units]
     doc.header["$MEASUREMENT"] = MEASUREMENT[units]

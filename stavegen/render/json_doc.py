@@ -6,19 +6,21 @@ import json
 import math
 
 import numpy as np
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 from .. import __version__
 from ..cautions import CAUTIONS
 from ..checks.ratios import StationCheck
 from ..model.woods import Wood
-from ..layout.lumber import BoardSize, LumberOrder
-from ..layout.operations import Machining, StationSettings
-from ..layout.plan import Layout
-from ..layout.segments import Segment
 from ..pipeline import Design
 from .figures import Figures
 from .wording import step_words
+
+if TYPE_CHECKING:  # for annotations only: the layout loads scipy.optimize, which `check --json` never needs
+    from ..layout.lumber import BoardSize, LumberOrder
+    from ..layout.operations import Machining, StationSettings
+    from ..layout.plan import Layout
+    from ..layout.segments import Segment
 
 SCHEMA_VERSION = 1
 
@@ -294,3 +296,11 @@ def _clean(value: Any) -> Any:
 
 def to_json(design: Design) -> str:
     return json.dumps(_clean(document(design)), indent=2, ensure_ascii=False) + "\n"
+
+
+def write_json(design: Design, path) -> None:
+    """:func:`to_json` into the file at ``path``, the same bytes, written as it is encoded (a long spar's
+    JSON is never held whole in memory)."""
+    with open(path, "w", encoding="utf-8") as out:
+        json.dump(_clean(document(design)), out, indent=2, ensure_ascii=False)
+        out.write("\n")

@@ -12,6 +12,7 @@ spar file's name, the build date and "page n of m".
 
 from __future__ import annotations
 
+import bisect
 import math
 from dataclasses import dataclass
 from pathlib import Path
@@ -289,10 +290,14 @@ def _rough_width(r: Report, z: float) -> float | None:
     """The rough (rip) width the layout computed at station z, if the layout has that station."""
     if r.layout is None:
         return None
-    for st in r.layout.plan.stations:
-        if abs(st.z - z) <= MERGE_TOLERANCE:
-            return st.rough_width
+    stations = r.layout.plan.stations  # heel to head: the first within the tolerance, found by bisection
+    i = bisect.bisect_left(stations, z - MERGE_TOLERANCE, key=lambda st: st.z)
+    if i < len(stations) and abs(stations[i].z - z) <= MERGE_TOLERANCE:
+        return stations[i].rough_width
     return None
+
+
+STATION_ROWS_PER_TABLE = 200  # an even number: the stripes run on across blocks
 
 
 def station_table(r: Report) -> list:
@@ -328,11 +333,19 @@ def station_table(r: Report) -> list:
             marks.append((i, not c.ok))
     widths = [18, 14, 15, 13, 17, 17, 14, 14, 12, 14, 9, 24]
     scale = r.width / (sum(widths) * MM)
-    table = _table([list(row) for row in rows], widths=[w * MM * scale for w in widths])
-    table.setStyle(TableStyle([("ALIGN", (10, 0), (-1, -1), "LEFT"), ("LEFTPADDING", (11, 0), (11, -1), 6)]))
-    for i, short in marks:
-        table.setStyle(TableStyle([("FONT", (0, i), (-1, i), BOLD, 7.5)] +
-                                  ([("TEXTCOLOR", (0, i), (-1, i), FAIL_RED)] if short else [])))
+    tables = []
+    # Blocks of rows, each its own table with the header: reportlab measures every row left each time a
+    # table breaks over a page, which made one table of thousands of stations quadratic in them.
+    for start in range(1, max(len(rows), 2), STATION_ROWS_PER_TABLE):
+        table = _table([list(row) for row in [rows[0]] + rows[start:start + STATION_ROWS_PER_TABLE]],
+                       widths=[w * MM * scale for w in widths])
+        table.setStyle(TableStyle([("ALIGN", (10, 0), (-1, -1), "LEFT"), ("LEFTPADDING", (11, 0), (11, -1), 6)]))
+        for i, short in marks:
+            if start <= i < start + STATION_ROWS_PER_TABLE:
+                j = i - start + 1
+                table.setStyle(TableStyle([("FONT", (0, j), (-1, j), BOLD, 7.5)] +
+                                          ([("TEXTCOLOR", (0, j), (-1, j), FAIL_RED)] if short else [])))
+        tables.append(table)
     rough = ("Rough width adds the edge allowance jointed off each edge. " if r.layout is not None else "")
     ff = least_strength.hollow.form_factor
     form = (f"Strength ratio compares the moment each section carries at rupture, MOR x S x F, where F is the "
@@ -346,7 +359,7 @@ def station_table(r: Report) -> list:
                     f"the exact line); walls, diameters and rough widths are rounded up. {rough}Notch depth is along "
                     f"the width from the notched edge to the V's apex; apex height is above the stave's inner face. "
                     f"EI ratio target {a.ei_target:.3f}; strength ratio target {a.strength_target:.3f}. {form}"),
-                "small"), Spacer(1, 4), table]
+                "small"), Spacer(1, 4), *tables]
 
 
 # Section drawing ------------------------------------------------------------------------------------------------

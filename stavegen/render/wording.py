@@ -12,12 +12,15 @@ summary alike. Figures come straight from
 from __future__ import annotations
 
 from dataclasses import dataclass
+from typing import TYPE_CHECKING
 
-from ..layout.lumber import BoardSize, LumberOrder
 from ..layout.machining import CutterSettings, Lean, SawPass
 from ..layout.operations import Step
 from ..units import MM_PER_FOOT, MM_PER_INCH, format_inches, format_tape
 from .figures import Figures
+
+if TYPE_CHECKING:  # for annotations only: the lumber solver loads scipy.optimize, which `check` never needs
+    from ..layout.lumber import BoardSize, LumberOrder
 
 QUARTER_INCH = MM_PER_INCH / 4  # rough thickness is sold in quarters: 4/4 = 1 in, 5/4 = 1 1/4 in (lumber rules)
 

@@ -1,4 +1,4 @@
-"""Choosing the number of staves: every candidate N laid out in full and compared.
+"""Choosing the number of staves: every candidate N checked, the ones that can win laid out, and compared.
 
 For each N (4 to 24; a birdsmouth needs 5 or more) with the joint asked for,
 the wall (or diameters) are solved when the file says ``"auto"``, the spar
@@ -12,10 +12,21 @@ stave's width between 1 and 5 times its thickness everywhere on the
 finished spar. Narrower than it is thick, a stave rolls on the saw table and
 its notch is hard to cut; wider than five thicknesses, it needs a deep
 rounding and bends poorly to the glue-up.
+
+Work saved, none of it changing the answer: each count's sections are
+worked out once and shared by its sizing, check and layout; a count whose
+least possible order (:func:`board_feet_floor`) is more than the two
+smallest orders found so far is not laid out (it could be neither the
+choice nor the runner-up the reason names); the laying out goes in rounds,
+cheapest floor first, and rounds and counts are shared between this process
+and a pool of worker processes (:mod:`.parallel`), each result depending on
+its own count only, so the same input gives the same comparison on any
+machine, loaded or not.
 """
 
 from __future__ import annotations
 
+import math
 from dataclasses import dataclass, replace
 from typing import Callable
 
@@ -23,11 +34,15 @@ from ..checks.assess import Assessment, assess
 from ..errors import DesignError, InputError
 from ..layout.plan import Layout, lay_out
 from ..model.spar import MAX_STAVES, MIN_STAVES, Spar
+from ..section.integrals import ring_moments
 from ..stations.evaluate import SectionCache
-from ..stations.grid import intervals
+from ..stations.grid import intervals, refuse_too_many
+from .parallel import Pool
 
 WORKABLE_WIDTH_OVER_THICKNESS = (1.0, 5.0)  # common practice (no source): see the module's note
 BOARD_FEET_TIE = 1e-6
+MOST_STATIONS_COMPARED = 1_000  # every count's check is kept: 20 of them stay under 300 MB up to here
+BOARD_FOOT_MM3 = 144 * 25.4**3  # 144 in³ (North American lumber grading rules)
 Progress = Callable[[int, int, str], None]  # (done, total, words): told as each count's result comes in
 
 
@@ -50,6 +65,8 @@ class Candidate:
     glue_area: float = 0.0
     cuts: int = 0
     v_bit_one_pass: bool = False
+    floor: float = 0.0  # board feet no order for this count can go below (:func:`board_feet_floor`)
+    outbid: bool = False  # not laid out: its floor is above the two smallest orders of other counts
 
     @property
     def meets_target(self) -> bool:
@@ -85,6 +102,8 @@ class Candidate:
             low, high = WORKABLE_WIDTH_OVER_THICKNESS
             return (f"stave narrower than {low:g} thickness" if a < low
                     else f"stave wider than {high:g} thicknesses")
+        if self.outbid:
+            return "would buy more wood than the counts laid out, whatever the cutting plan (not laid out)"
         if not self.fits_stock:
             return self.stock_problem or "does not come out of the stock"
         return ""
@@ -100,6 +119,8 @@ class Candidate:
         if not self.workable:
             return "stave too narrow" if self.width_over_thickness[0] < WORKABLE_WIDTH_OVER_THICKNESS[0] \
                 else "stave too wide"
+        if self.outbid:
+            return "more wood"
         return "not from this stock"
 
 
@@ -122,31 +143,74 @@ def _integral(spar: Spar, cache: SectionCache, per_length) -> float:
     return total
 
 
-def _evaluate(spar: Spar, staves: int) -> Candidate:
-    from .solve import size_spar
+def board_feet_floor(spar: Spar, result: Assessment) -> float:
+    """Board feet (waste included) below which no lumber order for this spar can go, from its stations alone.
+
+    Every stave is cut from one strip or more ripped from boards, a strip at
+    least as wide as the stave's rough width (finished width + 2 × edge
+    allowance) wherever it runs, heel end allowance to head end allowance;
+    a board of dressed width W and nominal width W_n, nominal thickness T_n,
+    holds strips whose widths sum to no more than W, so a strip of width r
+    costs at least T_n · W_n · r / W board feet per unit length, on the
+    cheapest board (least W_n / W) wide enough for it. Scarf overlaps, kerfs
+    and board ends only add. The order buys at least (1 + waste) times the
+    board feet its cutting plan uses (conventions: the boards to buy).
+    Widths are straight between stations, so the integral over them is exact.
+    """
+    stock = spar.stock
+    boards = sorted(zip(stock.widths, stock.nominal_widths))
+    edge = 2 * stock.edge_allowance
+    e = spar.hollow.end_allowance
+    zs = [c.station.z for c in result.stations]
+    rough = [c.station.section.stave_width + edge for c in result.stations]
+
+    def factor(r: float) -> float:  # nominal board mm² per mm² of strip of rough width r: the cheapest that fits
+        fits = [nominal / width for width, nominal in boards if width >= r]
+        return stock.nominal_thickness * min(fits) if fits else math.inf
+
+    if factor(max(rough)) == math.inf:
+        return math.inf
+    # factor(r) never falls as r grows (fewer boards fit), and r is straight between stations: over each
+    # stretch the factor of the narrower end times the exact ∫ r dz is a lower bound.
+    area = e * (factor(rough[0]) * rough[0] + factor(rough[-1]) * rough[-1])
+    for z0, z1, r0, r1 in zip(zs, zs[1:], rough, rough[1:]):
+        area += factor(min(r0, r1)) * (z1 - z0) * (r0 + r1) / 2
+    return (1 + stock.waste) * spar.hollow.staves * area / BOARD_FOOT_MM3 - 1e-6
+
+
+def _assessed(spar: Spar, staves: int) -> tuple[Candidate, SectionCache | None]:
+    """Stave count ``staves``: solved, checked and measured, not yet laid out; with its sections when it
+    is one to lay out."""
+    from .solve import Solved, solve
 
     trial = replace(spar, hollow=replace(spar.hollow, staves=staves))
     try:
-        trial, solved = size_spar(trial) if not trial.resolved else (trial, ())
-        result = assess(trial)
+        solved = solve(trial) if not trial.resolved else Solved(trial, ())
+        trial = solved.spar
+        cache = solved.sections or SectionCache(trial)
+        result = assess(trial, cache=cache)
     except DesignError as exc:
-        return Candidate(staves=staves, refused=exc.in_units(spar.units).problem)
-    cache = SectionCache(trial)
+        return Candidate(staves=staves, refused=exc.in_units(spar.units).problem), None
     stations = [c.station for c in result.stations]
     ratios = [s.section.stave_width / s.section.thickness for s in stations]
     widths = [s.section.stave_width for s in stations]
-    planed = _integral(trial, cache, lambda sec: staves * sec.stave_polygon().area - sec.area)
+    planed = _integral(trial, cache, lambda sec: staves * abs(ring_moments(sec.stave_outline).area) - sec.area)
     glue = _integral(trial, cache, lambda sec: staves * sec.glue_line)
-    base = dict(staves=staves, spar=trial, solved=solved, assessment=result, widest=max(widths),
-                narrowest=min(widths), width_over_thickness=(min(ratios), max(ratios)), planed_away=planed,
-                glue_area=glue)
     low, high = WORKABLE_WIDTH_OVER_THICKNESS
-    if not result.passed or not (low <= min(ratios) and max(ratios) <= high):
-        return Candidate(**base)
+    layable = result.passed and low <= min(ratios) and max(ratios) <= high
+    candidate = Candidate(staves=staves, spar=trial, solved=solved.lines, assessment=result, widest=max(widths),
+                          narrowest=min(widths), width_over_thickness=(min(ratios), max(ratios)),
+                          planed_away=planed, glue_area=glue, floor=board_feet_floor(trial, result) if layable else 0.0)
+    return candidate, (cache if layable else None)
+
+
+def _laid_out(candidate: Candidate, sections: SectionCache) -> Candidate:
+    """The candidate with its layout and lumber order (or the stock's reason it has none)."""
+    trial = candidate.spar
     try:
-        layout = lay_out(trial, cache)
+        layout = lay_out(trial, sections)
     except InputError as exc:
-        return Candidate(**base, stock_problem=exc.in_units(spar.units).problem)
+        return replace(candidate, stock_problem=exc.in_units(trial.units).problem)
     stock = trial.stock
     rough = max(seg.rough_width for seg in layout.segments)
     rips = int((max(stock.widths) + stock.kerf) // (rough + stock.kerf))
@@ -157,26 +221,59 @@ def _evaluate(spar: Spar, staves: int) -> Candidate:
             + passes * len(layout.segments)                   # notch or bevel passes
             + 2 * layout.scarfs.count)                        # both halves of every scarf
     router = layout.machining.widest.settings.router
-    return Candidate(**base, layout=layout, rips_per_board=rips, cuts=cuts,
-                     v_bit_one_pass=bool(router and router.one_pass_flat))
+    return replace(candidate, layout=layout, rips_per_board=rips, cuts=cuts,
+                   v_bit_one_pass=bool(router and router.one_pass_flat))
 
 
-def compare_stave_counts(spar: Spar, progress: Progress | None = None) -> Comparison:
-    """Lay out every stave count and choose one; InputError on hollow.staves when none will do.
+def _runner_up_limit(done: list[Candidate]) -> float:
+    """The second smallest order among the candidates laid out (∞ while there are fewer than two)."""
+    orders = sorted(c.board_feet for c in done if c.eligible)
+    return orders[1] + BOARD_FEET_TIE if len(orders) > 1 else math.inf
 
-    ``progress``, if given, is told (counts done, counts in all, words) as each count's result comes in.
+
+def compare_stave_counts(spar: Spar, pool: Pool | None = None, progress: Progress | None = None) -> Comparison:
+    """Check every stave count, lay out those that can win, and choose one; InputError on hollow.staves when
+    none will do. ``pool`` shares the work with worker processes (one is made when not given).
+
+    ``progress``, if given, is told (steps done, steps in all, words) as each count's check and each
+    layout comes in; the steps in all fall as counts are ruled out before being laid out.
     """
     if spar.stock is None:
         raise InputError('staves = "auto" needs a [stock] table: the choice is by the wood to buy', "hollow.staves")
     first = MIN_STAVES if spar.hollow.joint.kind == "bevel" else MIN_STAVES + 1
+    counts = list(range(first, MAX_STAVES + 1))
+    refuse_too_many(spar, MOST_STATIONS_COMPARED, f" when it compares the {len(counts)} stave counts")
     tell = progress or (lambda done, total, words="": None)
-    counts = range(first, MAX_STAVES + 1)
-    results = []
-    tell(0, len(counts), f"sizing and laying out {first} to {MAX_STAVES} staves")
-    for n in counts:
-        results.append(_evaluate(spar, n))
-        tell(len(results), len(counts), f"sizing and laying out {first} to {MAX_STAVES} staves: {n} done")
-    candidates = tuple(results)
+    steps = {"done": 0, "total": 2 * len(counts), "words": f"checking {first} to {MAX_STAVES} staves"}
+
+    def one_more() -> None:
+        steps["done"] += 1
+        tell(steps["done"], steps["total"], steps["words"])
+
+    tell(0, steps["total"], steps["words"])
+    with (pool or Pool()) as workers:
+        assessed = workers.map(_assessed, [(spar, n) for n in counts], each=one_more)
+        candidates = [c for c, _ in assessed]
+        sections = {c.staves: cache for c, cache in assessed if cache is not None}
+        del assessed
+        waiting = sorted((c for c in candidates if c.staves in sections), key=lambda c: (c.floor, c.staves))
+        steps.update(total=len(counts) + len(waiting), words="laying out the counts that can win")
+        tell(steps["done"], steps["total"], steps["words"])
+        done: list[Candidate] = []
+        while waiting:
+            limit = _runner_up_limit(done)
+            for c in waiting:
+                if c.floor > limit:
+                    del sections[c.staves]
+                    steps["total"] -= 1
+            waiting = [c for c in waiting if c.floor <= limit]
+            batch, waiting = waiting[:workers.size], waiting[workers.size:]
+            done += workers.map(_laid_out, [(c, sections.pop(c.staves)) for c in batch], each=one_more)
+        sections.clear()
+    laid = {c.staves: c for c in done}
+    limit = _runner_up_limit(done)
+    candidates = tuple(laid.get(c.staves) or (replace(c, outbid=True) if c.floor > limit else c)
+                       for c in candidates)
     eligible = [c for c in candidates if c.eligible]
     if not eligible:
         reasons = sorted({c.why_not() for c in candidates})
@@ -189,9 +286,11 @@ def compare_stave_counts(spar: Spar, progress: Progress | None = None) -> Compar
     others = sorted((c for c in eligible if c is not chosen), key=lambda c: c.board_feet)
     reason = (f"{chosen.staves} staves: the least wood to buy, {chosen.board_feet:.1f} board feet, of the "
               f"{len(eligible)} stave counts that meet the target with a workable stave from this stock")
+    outbid = sum(c.outbid for c in candidates)
+    if outbid:
+        reason += f" and {outbid} more that would need more wood whatever the cutting plan"
     if others:
         reason += f" (next: {others[0].staves} staves, {others[0].board_feet:.1f} board feet)"
     if len(tied) > 1:
         reason += "; tied on board feet, fewer staves chosen"
     return Comparison(candidates=candidates, chosen=chosen, reason=reason)
-

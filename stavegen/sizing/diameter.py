@@ -24,8 +24,9 @@ from dataclasses import dataclass
 from ..errors import DesignError
 from ..model.spar import Profile, Spar
 from ..units import format_exact, format_length
-from .roots import Miss, Window, window
-from .targets import Criterion, Point, check_at, criteria_of, place, points_of, ratio_text
+from .roots import Miss, Window, common_windows, window
+from .targets import (Criterion, Point, check_at, closed_form_applies, closed_form_check_at, closed_form_checker,
+                      closed_form_trusted, criteria_of, place, points_of, ratio_text)
 from .wall import BORE_CLEARANCE, BORE_CORNERS, CORNER_MINIMUM
 
 KEY = "hollow.stations"
@@ -56,13 +57,36 @@ def scale_range(spar: Spar, point: Point) -> tuple[float, str, float, str]:
     return low, low_by, high, (CORNER_MINIMUM if corner else BORE_CORNERS)
 
 
-def scale_window(spar: Spar, point: Point, criteria: tuple[Criterion, ...]) -> Window | Miss:
-    """The scale factors that meet every criterion at ``point``, or what none can reach there."""
+def scale_window(spar: Spar, point: Point, criteria: tuple[Criterion, ...], trust: bool = False) -> Window | Miss:
+    """The scale factors that meet every criterion at ``point``, or what none can reach there.
+
+    ``trust``: search on the closed-form section from the start (see :func:`~.roots.window`).
+    """
     lo, lo_by, hi, hi_by = scale_range(spar, point)
     if lo >= hi:
         return Window(lo, hi, lo_by, hi_by)
     t = float(spar.hollow.wall.at(point.z))
-    return window(lambda k: check_at(spar, point, k * point.plan_diameter / 2, t), criteria, lo, hi, lo_by, hi_by)
+    quick = None
+    if closed_form_applies(spar):
+        closed = closed_form_checker(spar, point)
+        quick = lambda k: closed(k * point.plan_diameter / 2, t)  # noqa: E731
+    return window(lambda k: check_at(spar, point, k * point.plan_diameter / 2, t), criteria, lo, hi, lo_by, hi_by,
+                  quick, trust)
+
+
+def meets_scale(spar: Spar, point: Point, criteria: tuple[Criterion, ...], k: float) -> bool:
+    """Whether the scale factor ``k`` meets every criterion at ``point`` within the range the wall allows there
+    (closed form for flush and bevel joints; every solved size is checked again on the exact section)."""
+    lo, _, hi, _ = scale_range(spar, point)
+    if not lo <= k <= hi:
+        return False
+    t = float(spar.hollow.wall.at(point.z))
+    radius = k * point.plan_diameter / 2
+    try:
+        check = (closed_form_check_at if closed_form_applies(spar) else check_at)(spar, point, radius, t)
+    except DesignError:
+        return False
+    return all(c.ratio(check) >= c.target for c in criteria)
 
 
 def _low_reason(spar: Spar, point: Point, by: str, k: float, criteria: tuple[Criterion, ...]) -> str:
@@ -98,26 +122,36 @@ def _conflict(spar: Spar, point: Point, low: Window, capped: Point, high: Window
                        f", but {cap}; use a thicker wall", KEY)
 
 
-def _windows(spar: Spar, criteria: tuple[Criterion, ...]) -> list[tuple[Point, Window]]:
-    out = []
-    for point in points_of(spar):
-        found = scale_window(spar, point, criteria)
-        if isinstance(found, Miss):
-            c = found.criterion
-            raise DesignError(f"no diameter reaches {c.name} {c.target:.3f} at {place(spar, point)}: the largest "
-                              f"round the wall allows (× {found.best_size:.4f}) gives only "
-                              f"{ratio_text(found.best, c.target)} before it breaks into the bore; use a thicker wall",
-                              KEY)
-        if found.empty:
-            raise _conflict(spar, point, found, point, found, criteria)
-        out.append((point, found))
-    return out
+def _window_at(spar: Spar, point: Point, criteria: tuple[Criterion, ...], trust: bool = False) -> Window:
+    """The point's window of scale factors; DesignError when none reaches the target there or none fits."""
+    found = scale_window(spar, point, criteria, trust)
+    if isinstance(found, Miss):
+        c = found.criterion
+        raise DesignError(f"no diameter reaches {c.name} {c.target:.3f} at {place(spar, point)}: the largest "
+                          f"round the wall allows (× {found.best_size:.4f}) gives only "
+                          f"{ratio_text(found.best, c.target)} before it breaks into the bore; use a thicker wall",
+                          KEY)
+    if found.empty:
+        raise _conflict(spar, point, found, point, found, criteria)
+    return found
 
 
-def solve_diameter_scale(spar: Spar) -> DiameterSolution:
-    """The least scale factor k ≥ 1 on the plan's diameters that meets the target, with the wall as given."""
+def solve_diameter_scale(spar: Spar, skip: bool = False, trust: bool = False) -> DiameterSolution:
+    """The least scale factor k ≥ 1 on the plan's diameters that meets the target, with the wall as given.
+
+    ``skip``: points the factor found so far already meets get no root search of their own
+    (:func:`~.roots.common_windows`). ``trust``: root searches on the closed-form section from the
+    start, where it agrees with the exact one on this spar (:func:`~.roots.window`).
+    """
     criteria = criteria_of(spar)
-    windows = _windows(spar, criteria)
+    points = points_of(spar)
+    if trust:
+        lo, _, hi, _ = scale_range(spar, points[0])
+        k = (lo + hi) / 2
+        trust = lo < hi and closed_form_trusted(spar, points[0], criteria, k * points[0].plan_diameter / 2,
+                                                float(spar.hollow.wall.at(points[0].z)))
+    meets = (lambda p, k: meets_scale(spar, p, criteria, k)) if skip else None
+    windows = common_windows(points, lambda p: _window_at(spar, p, criteria, trust), meets)
     point, low = max(windows, key=lambda pw: pw[1].lower)
     capped, high = min(windows, key=lambda pw: pw[1].upper)
     if low.lower > high.upper:

@@ -17,14 +17,15 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
-from typing import Callable
+from typing import Callable, Sequence, TypeVar
 
 from scipy.optimize import brentq, minimize_scalar
 
 from ..checks.ratios import StationCheck
 from ..errors import DesignError
-from .targets import Criterion
+from .targets import Criterion, agrees
 
+P = TypeVar("P")
 XTOL = 1e-12  # absolute tolerance of the root (mm, or a scale factor near 1)
 NOTCH = "the notch"  # a bound set by where the joint's geometry stops being buildable
 
@@ -112,11 +113,17 @@ def _buildable_range(check: Callable[[float], StationCheck], lo: float, hi: floa
 
 
 def window(check: Callable[[float], StationCheck], criteria: tuple[Criterion, ...], lo: float, hi: float,
-           lo_by: str, hi_by: str) -> Window | Miss:
+           lo_by: str, hi_by: str, quick: Callable[[float], StationCheck] | None = None,
+           trust_quick: bool = False) -> Window | Miss:
     """Where in [lo, hi] the point meets every criterion, or the first criterion no size there reaches.
 
     ``check(size)`` gives the point's check at a trial size; it may raise
     DesignError where the joint cannot be built (at small sizes, or at large ones).
+    ``quick(size)``, if given, is the same check in closed form: the searches
+    use it once it agrees with ``check`` at the least buildable size, or
+    from the start with ``trust_quick`` (the caller has it agree elsewhere on
+    the spar and checks the solution on the exact section: where the joint
+    cannot be built at the size found, it searches again without).
     """
     cache: dict[float, StationCheck] = {}
 
@@ -125,15 +132,25 @@ def window(check: Callable[[float], StationCheck], criteria: tuple[Criterion, ..
             cache[x] = check(x)
         return cache[x]
 
-    start, stop = _buildable_range(at, lo, hi)
-    if start > lo:
-        lo, lo_by = start, NOTCH
-    if stop < hi:
-        hi, hi_by = stop, NOTCH
+    if not (trust_quick and quick is not None):
+        start, stop = _buildable_range(at, lo, hi)
+        if start > lo:
+            lo, lo_by = start, NOTCH
+        if stop < hi:
+            hi, hi_by = stop, NOTCH
+    ratios = at
+    if quick is not None and (trust_quick or agrees(at(lo), quick(lo), criteria)):
+        quick_cache: dict[float, StationCheck] = {}
+
+        def ratios(x: float) -> StationCheck:
+            if x not in quick_cache:
+                quick_cache[x] = quick(x)
+            return quick_cache[x]
+
     lower, lower_by, upper, upper_by = lo, lo_by, hi, hi_by
     for criterion in criteria:
         def excess(x: float, c: Criterion = criterion) -> float:
-            return c.ratio(at(x)) - c.target
+            return c.ratio(ratios(x)) - c.target
 
         low_end, high_end = excess(lo), excess(hi)
         if low_end >= 0 and high_end >= 0:
@@ -158,3 +175,36 @@ def window(check: Callable[[float], StationCheck], criteria: tuple[Criterion, ..
             if x < upper:
                 upper, upper_by = x, criterion.name
     return Window(lower, upper, lower_by, upper_by)
+
+
+def common_windows(points: Sequence[P], window_of: Callable[[P], Window],
+                   meets: Callable[[P, float], bool] | None = None) -> list[tuple[P, Window]]:
+    """The windows a size common to every point is read from (the largest lower bound, the least upper one).
+
+    With ``meets`` (a cheap test of one size at one point), a point that
+    already meets the largest lower bound found so far gets no window of its
+    own: its window holds that size, so it can neither raise the common size
+    nor cap it below that. The common size only grows; each skipped point is
+    tested again at the final one and given its window if it falls short
+    there. The windows come back in the points' order, so that ties go where
+    they would with every window worked out.
+    """
+    found: dict[int, Window] = {}
+    skipped: dict[int, float] = {}  # point index → the size it was seen to meet
+    best: float | None = None
+    for i, point in enumerate(points):
+        if meets is not None and best is not None and meets(point, best):
+            skipped[i] = best
+            continue
+        found[i] = window_of(point)
+        best = found[i].lower if best is None else max(best, found[i].lower)
+    while skipped:
+        best = max(w.lower for w in found.values())
+        short = [i for i, size in skipped.items() if size != best and not meets(points[i], best)]
+        if not short:
+            break
+        for i in short:
+            del skipped[i]
+            found[i] = window_of(points[i])
+        skipped = {i: best for i in skipped}  # met by the size before, and by this one (tested above)
+    return [(points[i], found[i]) for i in sorted(found)]

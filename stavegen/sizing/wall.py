@@ -24,14 +24,16 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
+from typing import Callable
 
 import numpy as np
 
 from ..errors import DesignError
 from ..model.spar import AUTO_TAPERED, Profile, Spar
 from ..units import format_exact, format_length, format_length_up
-from .roots import INSIDE, NOTCH, NOTCH_UPPER, UPPER, Miss, Window, window
-from .targets import Criterion, Point, check_at, criteria_of, place, points_of, ratio_text
+from .roots import INSIDE, NOTCH, NOTCH_UPPER, UPPER, Miss, Window, common_windows, window
+from .targets import (Criterion, Point, check_at, closed_form_applies, closed_form_check_at, closed_form_checker,
+                      closed_form_trusted, criteria_of, place, points_of, ratio_text)
 
 KEY = "hollow.wall"
 BORE_CLEARANCE = 1e-9  # mm: the least wall stands this far clear of the round reaching the bore's corners
@@ -69,13 +71,61 @@ def _radius(spar: Spar, z: float) -> float:
     return float(spar.hollow.diameter.at(z)) / 2
 
 
-def wall_window(spar: Spar, point: Point, criteria: tuple[Criterion, ...]) -> Window | Miss:
-    """The walls (mm) that meet every criterion at ``point``, or what no wall can reach there."""
+def wall_window(spar: Spar, point: Point, criteria: tuple[Criterion, ...], trust: bool = False) -> Window | Miss:
+    """The walls (mm) that meet every criterion at ``point``, or what no wall can reach there.
+
+    ``trust``: search on the closed-form section from the start (see :func:`~.roots.window`).
+    """
     radius = _radius(spar, point.z)
     lo, lo_by, hi = wall_range(spar, radius)
     if lo >= hi:
         return Window(lo, hi, lo_by, NO_BORE)
-    return window(lambda t: check_at(spar, point, radius, t), criteria, lo, hi, lo_by, NO_BORE)
+    quick = None
+    if closed_form_applies(spar):
+        closed = closed_form_checker(spar, point)
+        quick = lambda t: closed(radius, t)  # noqa: E731
+    return window(lambda t: check_at(spar, point, radius, t), criteria, lo, hi, lo_by, NO_BORE, quick, trust)
+
+
+def _trusted(spar: Spar, criteria: tuple[Criterion, ...], point: Point) -> bool:
+    """Whether the closed form agrees with the exact section at ``point``, mid-way through its range of walls."""
+    radius = _radius(spar, point.z)
+    lo, _, hi = wall_range(spar, radius)
+    return lo < hi and closed_form_trusted(spar, point, criteria, radius, (lo + hi) / 2)
+
+
+def meets_wall(spar: Spar, point: Point, criteria: tuple[Criterion, ...], wall: float) -> bool:
+    """Whether ``wall`` (mm) meets every criterion at ``point`` and lies in the range the round allows there
+    (closed form for flush and bevel joints; every solved wall is checked again on the exact section)."""
+    radius = _radius(spar, point.z)
+    lo, _, hi = wall_range(spar, radius)
+    if not lo <= wall <= hi:
+        return False
+    try:
+        check = (closed_form_check_at if closed_form_applies(spar) else check_at)(spar, point, radius, wall)
+    except DesignError:
+        return False
+    return all(c.ratio(check) >= c.target for c in criteria)
+
+
+def _meets(spar: Spar, criteria: tuple[Criterion, ...]) -> Callable[[Point, float], bool]:
+    """:func:`meets_wall` for this spar, the closed form at each point made once."""
+    if not closed_form_applies(spar):
+        return lambda point, wall: meets_wall(spar, point, criteria, wall)
+    checkers: dict[float, Callable[[float, float], object]] = {}
+
+    def meets(point: Point, wall: float) -> bool:
+        radius = _radius(spar, point.z)
+        lo, _, hi = wall_range(spar, radius)
+        if not lo <= wall <= hi:
+            return False
+        key = (point.z, point.at_station)
+        if key not in checkers:
+            checkers[key] = closed_form_checker(spar, point)
+        check = checkers[key](radius, wall)
+        return all(c.ratio(check) >= c.target for c in criteria)
+
+    return meets
 
 
 def _show(spar: Spar, mm: float) -> str:
@@ -125,18 +175,16 @@ def _unreachable(spar: Spar, point: Point, miss: Miss) -> DesignError:
                        f"(hollow.stations = \"auto\" finds them)", KEY)
 
 
-def _windows(spar: Spar, criteria: tuple[Criterion, ...], plugs: bool = True) -> list[tuple[Point, Window]]:
-    out = []
-    for point in points_of(spar, plugs):
-        found = wall_window(spar, point, criteria)
-        if isinstance(found, Miss):
-            raise _unreachable(spar, point, found)
-        if found.empty:
-            raise DesignError(f"no wall fits at {place(spar, point)}: {_need(spar, point, found.lower_by, criteria)}"
-                              f" needs at least {_show(spar, found.lower)}, but "
-                              f"{_cap(spar, point, found.upper_by, found.upper, criteria)}", KEY)
-        out.append((point, found))
-    return out
+def _window_at(spar: Spar, point: Point, criteria: tuple[Criterion, ...], trust: bool = False) -> Window:
+    """The point's window of walls; DesignError when no wall reaches the target there or none fits."""
+    found = wall_window(spar, point, criteria, trust)
+    if isinstance(found, Miss):
+        raise _unreachable(spar, point, found)
+    if found.empty:
+        raise DesignError(f"no wall fits at {place(spar, point)}: {_need(spar, point, found.lower_by, criteria)}"
+                          f" needs at least {_show(spar, found.lower)}, but "
+                          f"{_cap(spar, point, found.upper_by, found.upper, criteria)}", KEY)
+    return found
 
 
 def _check_stock(spar: Spar, needs: list[tuple[Point, float, str]], criteria: tuple[Criterion, ...]) -> None:
@@ -151,10 +199,18 @@ def _check_stock(spar: Spar, needs: list[tuple[Point, float, str]], criteria: tu
                           f"{_show(spar, wall)}; use boards at least that thick (stock.thickness)", KEY)
 
 
-def solve_constant_wall(spar: Spar) -> WallSolution:
-    """The least constant wall (mm) that meets every criterion at every point."""
+def solve_constant_wall(spar: Spar, skip: bool = False, trust: bool = False) -> WallSolution:
+    """The least constant wall (mm) that meets every criterion at every point.
+
+    ``skip``: points the wall found so far already meets get no root search of their own
+    (:func:`~.roots.common_windows`). ``trust``: root searches on the closed-form section from the
+    start, where it agrees with the exact one on this spar (:func:`~.roots.window`).
+    """
     criteria = criteria_of(spar)
-    windows = _windows(spar, criteria)
+    points = points_of(spar)
+    trust = trust and _trusted(spar, criteria, points[0])
+    meets = _meets(spar, criteria) if skip else None
+    windows = common_windows(points, lambda p: _window_at(spar, p, criteria, trust), meets)
     point, low = max(windows, key=lambda pw: pw[1].lower)
     capped, high = min(windows, key=lambda pw: pw[1].upper)
     if low.lower > high.upper:
@@ -191,12 +247,15 @@ def _raise_to_meet(values: list[float], zs: list[float], k: int, need: float) ->
     return max(values[k] - a, values[k + 1] - b)
 
 
-def _settled(zs: list[float], values: list[float], windows: list[tuple[Point, Window]]) -> Profile:
+def _settled(zs: list[float], values: list[float], windows: list[tuple[Point, Window | None]],
+             meets: Callable[[Point, float], bool]) -> Profile:
     """The schedule, with a station's value moved up by units in the last place wherever the profile's own
-    interpolation (which may reach a station from the stretch before it) gives a point less than it needs."""
+    interpolation (which may reach a station from the stretch before it) gives a point less than it needs.
+    A point without a window (skipped: met by the line between its stations) is asked with ``meets``."""
     for _ in range(64):
         wall = Profile(tuple(zs), tuple(values))
-        short = [(p, w) for p, w in windows if float(wall.at(p.z)) < w.lower]
+        short = [(p, w) for p, w in windows
+                 if (float(wall.at(p.z)) < w.lower if w is not None else not meets(p, float(wall.at(p.z))))]
         if not short:
             return wall
         for point, _ in short:
@@ -207,13 +266,39 @@ def _settled(zs: list[float], values: list[float], windows: list[tuple[Point, Wi
     return Profile(tuple(zs), tuple(values))
 
 
-def solve_tapered_wall(spar: Spar) -> WallSolution:
+def _tapered_windows(spar: Spar, criteria: tuple[Criterion, ...], skip: bool,
+                     trust: bool) -> list[tuple[Point, Window | None]]:
+    """Every point's window, heel to head (stations and stretch middles alternate). With ``skip``, a middle
+    that the straight line between its two stations' least walls already meets gets None: thickening only
+    raises that line, so its own least wall would never be asked for."""
+    points = points_of(spar, plugs=False)
+    trust = trust and _trusted(spar, criteria, points[0])
+    if not skip:
+        return [(p, _window_at(spar, p, criteria, trust)) for p in points]
+    meets = _meets(spar, criteria)
+    out: list[tuple[Point, Window | None]] = [(points[0], _window_at(spar, points[0], criteria, trust))]
+    for i in range(1, len(points), 2):
+        middle, after = points[i], points[i + 1]
+        try:
+            next_window = _window_at(spar, after, criteria, trust)
+        except DesignError:
+            _window_at(spar, middle, criteria, trust)  # the middle comes first: its error, if any, is the one told
+            raise
+        before = out[-1]
+        line = float(np.interp(middle.z, [before[0].z, after.z], [before[1].lower, next_window.lower]))
+        out.append((middle, None if meets(middle, line) else _window_at(spar, middle, criteria, trust)))
+        out.append((after, next_window))
+    return out
+
+
+def solve_tapered_wall(spar: Spar, skip: bool = False, trust: bool = False) -> WallSolution:
     """The least wall (mm) at each station for an open bore, linear between.
 
-    Thickened where a stretch's middle would fall short.
+    Thickened where a stretch's middle would fall short. ``skip``: see :func:`_tapered_windows`;
+    ``trust``: see :func:`solve_constant_wall`.
     """
     criteria = criteria_of(spar)
-    windows = _windows(spar, criteria, plugs=False)
+    windows = _tapered_windows(spar, criteria, skip, trust)
     stations = [(p, w) for p, w in windows if p.at_station]
     middles = [(p, w) for p, w in windows if not p.at_station]
     zs = [p.z for p, _ in stations]
@@ -222,6 +307,8 @@ def solve_tapered_wall(spar: Spar) -> WallSolution:
     for _ in range(MAX_THICKENING_PASSES):
         changed = False
         for k, (_, w) in enumerate(middles):
+            if w is None:
+                continue
             raised = _raise_to_meet(values, zs, k, w.lower)
             if raised > 0:
                 changed = True
@@ -229,14 +316,21 @@ def solve_tapered_wall(spar: Spar) -> WallSolution:
                     thickened.add(k)
         if not changed:
             break
-    wall = _settled(zs, values, windows)
+
+    meets = _meets(spar, criteria)
+    wall = _settled(zs, values, windows, meets)
     for point, w in windows:
         t = float(wall.at(point.z))
+        if w is None:
+            if not meets(point, t):  # cannot happen by the argument above; if roundoff says otherwise, ask all
+                return solve_tapered_wall(spar, skip=False, trust=trust)
+            continue
         if t > w.upper * (1 + 1e-12):
             raise DesignError(f"no wall schedule works: thickened to {_show(spar, t)} to meet the target between "
                               f"stations, {_cap(spar, point, w.upper_by, w.upper, criteria)}", KEY)
-    # Thickening never takes a station past the most any point needs, so the needs bound the stock.
-    _check_stock(spar, [(p, w.lower, w.lower_by) for p, w in windows], criteria)
+    # Thickening never takes a station past the most any point needs, so the needs bound the stock (a skipped
+    # middle needs no more than the larger of its stations' least walls).
+    _check_stock(spar, [(p, w.lower, w.lower_by) for p, w in windows if w is not None], criteria)
     k = int(np.argmax(values))
     point, w = stations[k]
     grown = values[k] > w.lower * (1 + THICKENING_REPORTED)

@@ -7,6 +7,7 @@ from dataclasses import dataclass
 from ..model.spar import Profile, Spar
 
 MERGE_TOLERANCE = 0.05  # mm: positions closer than this are one station
+MOST_STATIONS = 8_000  # a build stays under 300 MB up to here, 24 staves and all (docs/benchmarks.md)
 
 
 @dataclass(frozen=True)
@@ -22,6 +23,7 @@ def station_marks(spar: Spar, extra: dict[str, list[float]] | None = None) -> tu
 
     ``extra`` adds positions with a reason of the caller's (scarf ends, segment ends).
     """
+    refuse_too_many(spar)
     found: list[tuple[float, str]] = [(0.0, "heel"), (spar.length, "head")]
     found += [(z, "plan") for z in spar.plan.diameter.z]
     if spar.hollow.diameter_given:
@@ -55,3 +57,31 @@ def station_marks(spar: Spar, extra: dict[str, list[float]] | None = None) -> tu
 def intervals(positions: list[float] | tuple[float, ...]) -> list[tuple[float, float, float]]:
     """(start, middle, end) of each stretch between neighbouring positions, for Simpson's rule."""
     return [(a, (a + b) / 2, b) for a, b in zip(positions, positions[1:])]
+
+
+def refuse_too_many(spar: Spar, most: int = MOST_STATIONS, why: str = "") -> None:
+    """InputError, naming the key, when the spar would have more than ``most`` stations (counted before any
+    is made, so a spacing of a micron is refused at once): work and memory grow with them."""
+    from ..errors import InputError
+    from ..units import format_length, format_length_up
+
+    file_keys = {"plan.stations": len(spar.plan.diameter.z)}
+    if spar.hollow.diameter_given:
+        file_keys["hollow.stations"] = len(spar.hollow.diameter.z)
+    if isinstance(spar.hollow.wall, Profile) and not spar.hollow.wall.is_constant:
+        file_keys["hollow.wall"] = len(spar.hollow.wall.z)
+    fixed = 2 + sum(file_keys.values()) + 2 * len(spar.hollow.plugs)
+    step = spar.output.mark_spacing
+    marks = spar.length / step if step > 0 else float("inf")
+    if fixed + marks <= most:
+        return
+    limit = f"stavegen works with at most {most:,} stations{why}"
+    if marks >= max(file_keys.values()):
+        least = format_length_up(spar.length / max(1, most - fixed), spar.units)
+        shown = format_length(step, spar.units)
+        count = "more than a million" if marks > 1e6 else f"{int(marks) + fixed:,}"
+        raise InputError(f"{shown} puts {count} stations on the spar; {limit}: use a spacing of at least {least}",
+                         "output.mark_spacing", spar.source)
+    key = max(file_keys, key=lambda k: file_keys[k])
+    raise InputError(f"{file_keys[key]:,} positions; with the marks that makes {int(marks) + fixed:,} stations, "
+                     f"and {limit}", key, spar.source)
