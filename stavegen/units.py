@@ -401,10 +401,10 @@ class UnitSystem:
 
 
 def _significant(value: float, unit: str) -> str:
-    """Three significant figures (at least one decimal), grouped: ``5.51 in²``, ``1,234.5 in⁴``."""
+    """Four significant figures (at least one decimal), grouped: ``5.512 in²``, ``1,234.5 in⁴``."""
     if value == 0:
         return f"0 {unit}"
-    decimals = max(1, 2 - math.floor(math.log10(abs(value))))
+    decimals = max(1, 3 - math.floor(math.log10(abs(value))))
     return f"{value:,.{decimals}f} {unit}"
 
 

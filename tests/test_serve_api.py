@@ -134,9 +134,10 @@ def test_section_figures_and_drawing(client, run):
     rounds = svg.findall(f".//{SVG}circle[@class='round']")
     assert float(rounds[0].get("r")) == pytest.approx(od / 2, abs=1e-3)  # the drawing keeps 3 decimals
     area_row = next(v for k, v in body["figures"]["rows"] if k == "wood area")
-    wood = float(area_row.replace(",", "").split()[0])
+    assert area_row.endswith(" in²")  # an inch spar: in² (4 significant figures), 1 in² = 645.16 mm² exactly
+    wood = float(area_row.replace(",", "").split()[0]) * 645.16
     drawn = sum(_shoelace(p.get("d")) for p in svg.findall(f".//{SVG}path[@class='finished']"))
-    assert drawn == pytest.approx(wood, rel=2e-4)
+    assert drawn == pytest.approx(wood, rel=4e-4)
     stave = ET.fromstring(body["stave_svg"])
     assert float(stave.get("data-thickness-mm")) == pytest.approx(0.5 * 25.4, abs=1e-3)
 

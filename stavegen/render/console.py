@@ -242,13 +242,13 @@ def machining_table(spar: Spar, settings: CutterSettings) -> Table:
     table = Table(title="Cutter settings", show_header=False, title_justify="left",
                   caption=f"{FENCE_NOTE} {GUARD_NOTE}", caption_justify="left")
     table.add_column("", style="bold")
-    table.add_column("", justify="right", no_wrap=True)
-    for row in cutter_rows(Figures(spar), settings):
+    table.add_column("", justify="right")
+    for row in cutter_rows(Figures(spar), settings):  # values wrap between figures on a narrow terminal
         if row.heading:
             table.add_section()
-            table.add_row(row.label, row.value, style="cyan")
+            table.add_row(row.label, Prose(row.value), style="cyan")
         else:
-            table.add_row(row.label, row.value)
+            table.add_row(row.label, Prose(row.value))
     return table
 
 
@@ -260,7 +260,7 @@ def woods_table(woods: list[Wood], units: str) -> Table:
     table = Table(title="Built-in woods, 12 % moisture content", header_style="bold", title_justify="left",
                   caption=notes, caption_justify="left")
     for col in ("key", "wood", "SG", f"MOR, {stress}", f"MOE, {stress}", "density", "source"):
-        table.add_column(col, justify="left" if col in ("key", "wood") else "right", no_wrap=True)
+        table.add_column(col, justify="left" if col in ("key", "wood") else "right", no_wrap=col != "wood")
     system = "psi" if units == "in" else "mpa"
     for w in woods:
         density = f"{w.density / KG_M3_PER_LB_FT3:.1f} lb/ft³" if units == "in" else f"{w.density:.0f} kg/m³"
