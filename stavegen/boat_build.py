@@ -35,6 +35,7 @@ def boat_output_names(bd: BoatDesign) -> dict[str, str]:
     for bs in bd.boat.spars:
         own = output_names(bs.spar.slug)
         names[f"{bs.tag}:templates"] = own["templates"]
+        names[f"{bs.tag}:cut"] = own["cut"]
         names[f"{bs.tag}:fullsize"] = own["fullsize"]
     return names
 
@@ -65,6 +66,8 @@ def write_boat_outputs(bd: BoatDesign, folder: Path, step: Callable[[str], None]
             tell(names[f"{bs.tag}:templates"])
             view = bd.spar_view(i)
             out.add(names[f"{bs.tag}:templates"], lambda p, v=view: dxf_templates.write_templates(v, p))
+            tell(names[f"{bs.tag}:cut"])
+            out.add(names[f"{bs.tag}:cut"], lambda p, v=view: dxf_templates.write_cut_sheet(v, p))
         return out.commit()
 
 

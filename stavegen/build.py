@@ -16,7 +16,7 @@ from .render.console import print_build_summary
 def output_names(slug: str) -> dict[str, str]:
     """The files a build writes, by what they are."""
     return {"json": f"{slug}.json", "csv": f"{slug}-cutlist.csv", "templates": f"{slug}-templates.dxf",
-            "report": f"{slug}-report.pdf", "fullsize": f"{slug}-fullsize.pdf"}
+            "cut": f"{slug}-cut.dxf", "report": f"{slug}-report.pdf", "fullsize": f"{slug}-fullsize.pdf"}
 
 
 def write_outputs(result: Design, folder: Path, step: Callable[[str], None] | None = None) -> list[Path]:
@@ -43,6 +43,8 @@ def write_outputs(result: Design, folder: Path, step: Callable[[str], None] | No
         out.add(names["fullsize"], lambda p: write_fullsize(result, p))
         tell(names["templates"])
         out.add(names["templates"], lambda p: dxf_templates.write_templates(result, p))
+        tell(names["cut"])
+        out.add(names["cut"], lambda p: dxf_templates.write_cut_sheet(result, p))
         return out.commit()
 
 

@@ -175,7 +175,7 @@ def test_build_a_boat_writes_one_set_of_papers(run, tmp_path):
     names = sorted(p.name for p in out.iterdir())
     assert names == sorted(["day-sailer.json", "day-sailer-cutlist.csv", "day-sailer-report.pdf",
                             *[f"day-sailer-{s}-{k}" for s in ("mast", "boom", "gaff")
-                              for k in ("templates.dxf", "fullsize.pdf")]])
+                              for k in ("templates.dxf", "cut.dxf", "fullsize.pdf")]])
     doc = json.loads((out / "day-sailer.json").read_text())
     assert [s["spar"]["name"] for s in doc["spars"]] == ["Day-sailer mast", "Day-sailer boom", "Day-sailer gaff"]
     alone = tmp_path / "alone"

@@ -452,3 +452,43 @@ def test_build_draws_the_boards_when_the_file_asks(run, tmp_path):
     dxf = read_dxf(boards_out / "day-sailer-mast-templates.dxf")
     assert len(dxf.on("BOARD-OUTLINE")) == len(design(load_spar(tmp_path / "daysailer-mast.toml"),
                                                       layout=True).layout.lumber.boards)
+
+
+# The sheet in its own unit, the cut layer apart, clean outlines, a cut-only sheet ----------------------------
+
+
+@pytest.mark.parametrize("name", SPAR_SAMPLES)
+def test_cut_only_sheet_and_clean_outlines(tmp_path, name):
+    """The cut-only sheet holds the templates' cut outlines and nothing else, at the same coordinates; no outline
+    has a vertex on a straight run (a station on a straight stretch is no corner for a router's CAM)."""
+    from stavegen.render.dxf_templates import write_cut_sheet
+
+    result = design(load_spar(SAMPLES / name), layout=True)
+    _, full = templates_of(result, tmp_path)
+    write_cut_sheet(result, tmp_path / "cut.dxf")
+    cut = read_dxf(tmp_path / "cut.dxf")
+    assert {e.layer for e in cut.entities} == {CUT} and {e.kind for e in cut.entities} == {"LWPOLYLINE"}
+    assert sorted(e.points for e in cut.entities) == sorted(e.points for e in full.on(CUT))
+    assert len(cut.entities) == len(result.layout.segments)
+    for e in cut.entities:
+        pts = e.points
+        for i in range(len(pts)):
+            (ax, ay), (bx, by), (cx, cy) = pts[i - 1], pts[i], pts[(i + 1) % len(pts)]
+            cross = (bx - ax) * (cy - by) - (by - ay) * (cx - bx)
+            assert abs(cross) > 1e-9 * math.hypot(bx - ax, by - ay) * math.hypot(cx - bx, cy - by)
+
+
+@pytest.mark.parametrize("name", SPAR_SAMPLES)
+def test_header_sizes_in_the_sheets_unit_and_the_cut_layer_apart(tmp_path, name):
+    result = design(load_spar(SAMPLES / name), layout=True)
+    _, dxf = templates_of(result, tmp_path)
+    k = MM_PER[result.spar.units]
+    text = float(dxf.header["$TEXTSIZE"][0][1])
+    assert text == pytest.approx((5 / 32 if k == 25.4 else 4.0), rel=1e-9)  # a readable height in the sheet's unit
+    lo = [float(v) for _, v in dxf.header["$LIMMIN"]]
+    hi = [float(v) for _, v in dxf.header["$LIMMAX"]]
+    xs = [x for e in dxf.on(CUT) for x, _ in e.points]
+    assert lo[0] <= min(xs) and max(xs) <= hi[0]  # limits hold the drawing, in its own unit
+    assert hi[0] - lo[0] < 1.5 * (max(xs) - min(xs)) + 1000 / k
+    colours = {name: int(layer.first(62)) for name, layer in dxf.layers.items() if name in LAYERS}
+    assert all(c != colours[CUT] for n, c in colours.items() if n != CUT)

@@ -91,25 +91,25 @@ class Assessment:
 
     def shortfalls(self) -> list[str]:
         """One sentence for each target missed: where, and by how much."""
+        strength_words = ("the plan's strength" if self.strength_target == 1.0
+                          else f"the least the spar file accepts, {self.strength_target:.3f}")
+        missed = (
+            ("EI ratio", lambda c: c.ei_ratio, lambda c: c.ei_ok, self.ei_target,
+             f"the target {self.ei_target:.3f}", self.weakest_stiffness),
+            ("strength ratio", lambda c: c.strength_ratio, lambda c: c.strength_ok, self.strength_target,
+             strength_words, self.weakest_strength),
+        )
         out = []
-        if not self.stiffness_met:
-            s = self.weakest_stiffness
-            out.append(f"EI ratio {s.ei_ratio:.3f} at {where(self.spar, s.station.z)} is below the target "
-                       f"{self.ei_target:.3f} (short by {100 * (1 - s.ei_ratio / self.ei_target):.1f} %)")
-            below = [c for c in self.stations if not c.ei_ok]
+        for name, ratio, ok, target, words, weakest in missed:
+            below = [c for c in self.stations if not ok(c)]
+            if not below:
+                continue
+            line = (f"{name} {ratio(weakest):.3f} at {where(self.spar, weakest.station.z)} is below {words} "
+                    f"(short by {100 * (1 - ratio(weakest) / target):.1f} %)")
             if len(below) > 1:
-                out[-1] += (f"; {len(below)} stations fall short, from {where(self.spar, below[0].station.z)}"
-                            f" to {where(self.spar, below[-1].station.z)}")
-        if not self.strength_met:
-            s = self.weakest_strength
-            target = self.strength_target
-            asked = "the plan's strength" if target == 1.0 else f"the least the spar file accepts, {target:.3f}"
-            out.append(f"strength ratio {s.strength_ratio:.3f} at {where(self.spar, s.station.z)} is below "
-                       f"{asked} (short by {100 * (1 - s.strength_ratio / target):.1f} %)")
-            below = [c for c in self.stations if not c.strength_ok]
-            if len(below) > 1:
-                out[-1] += (f"; {len(below)} stations fall short, from {where(self.spar, below[0].station.z)}"
-                            f" to {where(self.spar, below[-1].station.z)}")
+                line += (f"; {len(below)} stations fall short, from {where(self.spar, below[0].station.z)}"
+                         f" to {where(self.spar, below[-1].station.z)}")
+            out.append(line)
         return out
 
 

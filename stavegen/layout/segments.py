@@ -11,6 +11,7 @@ between the stations, which include every change of taper.
 from __future__ import annotations
 
 import bisect
+import math
 from dataclasses import dataclass
 from functools import cached_property
 
@@ -87,6 +88,30 @@ class Segment:
                      for edge in (self.notch_edge, self.square_edge))
 
 
+COLLINEAR = 1e-9  # relative: a corner turning less than this is no corner (a station on a straight run)
+
+
+def without_collinear(ring: tuple[Point, ...]) -> tuple[Point, ...]:
+    """A closed outline with the vertices that lie on a straight run between their neighbours left out.
+
+    Stations on a straight stretch of taper put points along an edge that are no
+    corner; a router's CAM wants only the corners. Repeated points go too.
+    """
+    pts = list(ring)
+    changed = True
+    while changed and len(pts) > 3:
+        changed = False
+        for i in range(len(pts)):
+            a, b, c = pts[i - 1], pts[i], pts[(i + 1) % len(pts)]
+            ux, uy, vx, vy = b[0] - a[0], b[1] - a[1], c[0] - b[0], c[1] - b[1]
+            lu, lv = math.hypot(ux, uy), math.hypot(vx, vy)
+            if lu == 0 or lv == 0 or (abs(ux * vy - uy * vx) <= COLLINEAR * lu * lv and ux * vx + uy * vy > 0):
+                del pts[i]
+                changed = True
+                break
+    return tuple(pts)
+
+
 TICK_GAP = 10.0  # mm: closer station marks would run their labels together on a template
 
 
@@ -124,7 +149,8 @@ def make_segment(plan: StavePlan, stave: int, index: int, start: float, end: flo
         notch_edge, square_edge = tuple(lower), tuple(upper)
     else:
         notch_edge, square_edge = (lower[0], lower[-1]), tuple(upper)
-    outline = tuple([lower[0], lower[-1]] if plan.taper != "symmetric" else lower) + tuple(reversed(upper))
+    outline = without_collinear(tuple([lower[0], lower[-1]] if plan.taper != "symmetric" else lower)
+                                + tuple(reversed(upper)))
     widths = [b - a for (_, a), (_, b) in zip(lower, upper)]
     # Finished stave wood in the segment: width × thickness, trapezoid rule (exact for straight runs
     # of width when the thickness is constant; within 1e-6 for any realistic wall taper).

@@ -53,7 +53,7 @@ MEASUREMENT = {"in": 0, "mm": 1}  # DXF $MEASUREMENT: 0 imperial, 1 metric
 # Layer name: (ACI colour, lineweight in 1/100 mm, what it holds). Colours and lineweights by layer.
 CUT = "STAVE-CUT"
 LAYERS: dict[str, tuple[int, int, str]] = {
-    CUT: (7, 35, "stave segment outlines: the only lines to cut"),
+    CUT: (3, 35, "stave segment outlines: the only lines to cut (green: no other layer has its colour)"),
     "MARK-NOTCH-EDGE": (1, 50, "the edge that takes the birdsmouth V (drawn over the cut line)"),
     "MARK-SQUARE-EDGE": (5, 25, "the square edge (drawn over the cut line)"),
     "MARK-STATIONS": (94, 18, "station ticks across the stave, and their leaders"),
@@ -518,6 +518,14 @@ def setup_document(units: str):
     doc.header["$INSUNITS"] = INSUNITS[units]
     doc.header["$MEASUREMENT"] = MEASUREMENT[units]
     doc.header["$LWDISPLAY"] = 1
+    # Header sizes in the drawing's own unit (a new document's are metric: 2.5 high text, A3 limits in mm).
+    style = Style.for_units(units)
+    text = to_unit(style.text, units)
+    for name in ("$TEXTSIZE", "$DIMTXT", "$DIMASZ"):
+        doc.header[name] = text
+    doc.header["$DIMEXO"] = text / 4
+    doc.header["$DIMEXE"] = text / 2
+    doc.header["$DIMGAP"] = text / 4
     doc.styles.get("Standard").dxf.font = "txt"
     for name, (colour, weight, what) in LAYERS.items():
         layer = doc.layers.add(name, color=colour, lineweight=weight)
@@ -559,6 +567,9 @@ def set_extents(doc, pen: Pen) -> None:
     low, high = (pen.low[0], pen.low[1], 0.0), (pen.high[0], pen.high[1], 0.0)
     msp.reset_extents(low, high)
     doc.update_extents()
+    msp.reset_limits((low[0], low[1]), (high[0], high[1]))  # the drawing's limits: its extents, its own unit
+    doc.header["$LIMMIN"] = (low[0], low[1])
+    doc.header["$LIMMAX"] = (high[0], high[1])
     ezdxf.zoom.center(msp, ((low[0] + high[0]) / 2, (low[1] + high[1]) / 2),
                       (high[0] - low[0], high[1] - low[1]))
 
@@ -566,3 +577,27 @@ def set_extents(doc, pen: Pen) -> None:
 def write_templates(design: Design, path: str | Path, place: Placer | None = None) -> None:
     """Write the DXF cutting templates of ``design`` to ``path`` (placed as the spar file asks, or by ``place``)."""
     template_document(design, place).saveas(Path(path))
+
+
+def cut_document(design: Design, place: Placer | None = None):
+    """The cut-only sheet: the template sheet with nothing but the outlines to cut (layer STAVE-CUT).
+
+    For a CAM program that cannot switch layers off: the same placement, the
+    same outlines at the same coordinates, no marks, text or end views.
+    """
+    full = template_document(design, place)
+    doc = setup_document(design.spar.units)
+    msp = doc.modelspace()
+    pen = Pen(msp, design.spar.units)
+    for e in full.modelspace().query(f'LWPOLYLINE[layer=="{CUT}"]'):
+        points = list(e.get_points("xy"))  # copied as they are, in the sheet's unit
+        for x, y in points:
+            pen._reach(x, y, 0.0)
+        msp.add_lwpolyline(points, close=True, dxfattribs={"layer": CUT})
+    set_extents(doc, pen)
+    return doc
+
+
+def write_cut_sheet(design: Design, path: str | Path, place: Placer | None = None) -> None:
+    """Write the cut-only DXF sheet of ``design`` to ``path``."""
+    cut_document(design, place).saveas(Path(path))

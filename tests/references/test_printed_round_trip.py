@@ -21,7 +21,7 @@ from stavegen.pipeline import design, resolve
 from stavegen.checks.assess import assess
 from stavegen.render.csv_cutlist import to_csv
 
-from conftest import cut_list, spar_dict
+from conftest import SPAR_SAMPLES, cut_list, spar_dict
 
 
 def printed_stations(run, path) -> list[tuple[str, str, str]]:
@@ -121,3 +121,19 @@ def test_rounding_to_the_nearest_would_fail():
     assert nearest < exact, "pick a case whose nearest 1/32 lies below the solved wall"
     down = dict(data, hollow=dict(data["hollow"], wall=f"{math.floor(nearest * 32)}/32 in"))
     assert not assess(parse_spar(down, "x.toml")).passed
+
+
+@pytest.mark.parametrize("path", [p for p in SPAR_SAMPLES if "too-light" not in p.name], ids=lambda p: p.stem)
+def test_samples_printed_back_still_pass(run, tmp_path, path):
+    """Every passing sample, its walls and diameters replaced by the station table's printed figures, passes."""
+    import tomllib
+
+    import tomlkit
+
+    data = tomllib.loads(path.read_text(encoding="utf-8"))
+    units = data["spar"].get("units", "in")
+    rows = printed_stations(run, path)
+    again = tmp_path / path.name
+    again.write_text(tomlkit.dumps(rebuilt(data, rows, units, wall=True, diameters=True)))
+    result = run(["check", again])
+    assert result.exit_code == 0, result.stdout
