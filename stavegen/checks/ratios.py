@@ -1,11 +1,12 @@
 """Stiffness and strength of the hollow section against the solid round of the plans.
 
-EI ratio       = k_lam · E_wall · I_wall + E_plug · I_bore           over  E_plan · I_plan
-strength ratio = MOR_wall · S_hollow · F_hollow                     over  MOR_plan · S_plan · F_round
+EI ratio       = Σ Eᵢ Iᵢ over the section's regions                 over  E_plan · I_plan
+strength ratio = minᵢ σᵢ · EI / (Eᵢ cᵢ) (· F for wood)              over  MOR_plan · S_plan · F_round
 
-A plug (solid blocking) counts as a transformed section: I_bore scaled by
-E_plug / E_wall adds to the wall's I. The lamination credit k_lam is given to
-the staves' wood only, never to a plug. Units: mm, N, N·mm², N·mm.
+The section is a set of material regions (staves, plug, sheathing layers,
+reinforcement strips; :mod:`stavegen.section.regions` computes every figure
+of it). The lamination credit k_lam is given to the staves' wood only, in
+stiffness only. Units: mm, N, N·mm², N·mm.
 
 Form factors. Wood's modulus of rupture comes from rectangular test beams; a
 beam of another shape breaks at a different extreme-fibre stress. Newlin and
@@ -29,8 +30,8 @@ import math
 from dataclasses import dataclass
 
 from ..model.spar import Plug, Spar
-from ..section.properties import Section
-from ..stations.evaluate import Station
+from ..section.regions import Limit, RegionSection
+from ..stations.evaluate import Station, regions_of
 
 # Form factors relative to a rectangular test beam (Newlin & Trayer 1924, from memory — verify).
 ROUND_FORM_FACTOR = 1.18
@@ -59,6 +60,9 @@ class Stiffness:
     moment_capacity: float
     mass_per_length: float
     form_factor: float = 1.0
+    regions: RegionSection | None = None
+    first_limit: Limit | None = None
+    """For the hollow section: its material regions, and the one whose material reaches its limit first."""
 
 
 def solid_round(spar: Spar, diameter: float) -> Stiffness:
@@ -74,28 +78,21 @@ def solid_round(spar: Spar, diameter: float) -> Stiffness:
     )
 
 
-def hollow_round(spar: Spar, section: Section, plug: Plug | None) -> Stiffness:
-    """The hollow section, with the plug's transformed section where the bore is blocked."""
-    wood = spar.hollow.wood
-    ei = spar.hollow.lamination_factor * wood.moe * section.inertia
-    transformed = section.inertia
-    mass = wood.density * 1e-9 * section.area
-    z_wall, z_bore = section.plastic_moduli
-    plastic = z_wall
-    if plug is not None:
-        n = plug.wood.moe / wood.moe
-        ei += plug.wood.moe * section.bore_inertia
-        transformed += n * section.bore_inertia
-        plastic += n * z_bore
-        mass += plug.wood.density * 1e-9 * section.bore.area
-    elastic = transformed / section.radius
-    factor = form_factor(plastic / elastic)
+def hollow_round(spar: Spar, regions: RegionSection) -> Stiffness:
+    """The hollow section's figures, read off its material regions (:mod:`stavegen.section.regions`).
+
+    E·I is the transformed section's; the moment at rupture is the least at which any material reaches its
+    limit, the wood's credited with the form factor of the wood's own shape (staves and plug).
+    """
+    first = regions.first_limit(lambda r: form_factor(r.wood_shape_factor()))
     return Stiffness(
-        inertia=transformed,
-        ei=ei,
-        moment_capacity=wood.mor * elastic * factor,
-        mass_per_length=mass,
-        form_factor=factor,
+        inertia=regions.strength_ei / regions.reference,
+        ei=regions.ei,
+        moment_capacity=first.moment,
+        mass_per_length=regions.mass_per_length,
+        form_factor=first.form_factor if first.region.is_wood else form_factor(regions.wood_shape_factor()),
+        regions=regions,
+        first_limit=first,
     )
 
 
@@ -144,7 +141,7 @@ def check_station(spar: Spar, station: Station) -> StationCheck:
     return StationCheck(
         station=station,
         plan=solid_round(spar, station.plan_diameter),
-        hollow=hollow_round(spar, station.section, station.plug),
+        hollow=hollow_round(spar, regions_of(spar, station)),
         ei_target=ei_target,
         strength_target=strength_target,
     )

@@ -8,9 +8,11 @@ apothem a_o = R + planing allowance. Positions mm from the heel.
 from __future__ import annotations
 
 from dataclasses import dataclass
+from functools import partial
 
 from ..model.spar import Plug, Profile, Spar
 from ..section.properties import Section, evaluate_section
+from ..section.regions import PLUG, STAVE, Region, RegionSection, isotropic, section_of
 from ..units import Way, format_length, system
 from .grid import MERGE_TOLERANCE, StationMark, station_marks
 
@@ -26,6 +28,57 @@ class Station:
     wall: float
     plug: Plug | None
     section: Section
+    regions: RegionSection | None = None
+    """The section's material regions (staves, plug, layers, strips): :func:`regions_at`, made by
+    :func:`evaluate_stations`; None where a caller left it to :func:`regions_of`."""
+
+
+def _stave_shape(section) -> object:
+    """The finished staves as shapely polygons: each stave clipped by the round (a 720-sided polygon per
+    quarter turn: drawing and outside measurement only, the figures are exact)."""
+    import shapely
+    from shapely.geometry import Point, Polygon
+
+    from ..section.staves import placed_ring
+
+    disc = Point(0.0, 0.0).buffer(section.radius, quad_segs=180)
+    ring = placed_ring(Polygon(section.stave_outline), section.staves, range(section.staves))
+    return shapely.MultiPolygon([p for p in shapely.intersection(ring, disc) if not p.is_empty])
+
+
+def _bore_shape(section) -> object:
+    from shapely.geometry import Polygon
+
+    from ..section.properties import bore_ring
+
+    return Polygon(bore_ring(section.staves, section.inner_apothem))
+
+
+def regions_at(spar: Spar, section: Section, plug: Plug | None, z: float | None = None) -> RegionSection:
+    """The material regions of ``section`` at ``z`` (mm from the heel): the staves, the plug filling the bore
+    where there is one. The one place a section's regions are made; checks, sizing and renderers read them.
+
+    ``section`` may be the exact :class:`Section` or the sizing's closed form (anything with ``wall`` and
+    ``bore`` moments, ``plastic_moduli``, ``radius`` and ``bore_corner_radius``).
+    """
+    h = spar.hollow
+    wood = h.wood
+    z_wall, z_bore = section.plastic_moduli
+    exact = isinstance(section, Section)
+    regions = [Region(STAVE, wood, isotropic(section.wall), section.radius, h.lamination_factor * wood.moe,
+                      plastic=z_wall, shape=partial(_stave_shape, section) if exact else None,
+                      pieces=section.staves if exact else 1)]
+    if plug is not None:
+        regions.append(Region(PLUG, plug.wood, isotropic(section.bore), section.bore_corner_radius, plug.wood.moe,
+                              plastic=z_bore, shape=partial(_bore_shape, section) if exact else None))
+    return section_of(regions, wood.moe)
+
+
+def regions_of(spar: Spar, station: Station) -> RegionSection:
+    """The station's regions: those it carries, else made now (:func:`regions_at`)."""
+    if station.regions is not None:
+        return station.regions
+    return regions_at(spar, station.section, station.plug, station.z)
 
 
 def where(spar: Spar, z: float) -> str:
@@ -110,14 +163,16 @@ def evaluate_stations(spar: Spar, marks: tuple[StationMark, ...] | None = None,
     stations = []
     for mark in marks:
         section = cache.at(mark.z)
+        plug = plug_at_station(spar, mark.z)
         stations.append(Station(
             z=mark.z,
             reasons=mark.reasons,
             plan_diameter=float(spar.plan.diameter.at(mark.z)),
             diameter=2 * section.radius,
             wall=float(spar.hollow.wall.at(mark.z)),
-            plug=plug_at_station(spar, mark.z),
+            plug=plug,
             section=section,
+            regions=regions_at(spar, section, plug, mark.z),
         ))
     return tuple(stations)
 
