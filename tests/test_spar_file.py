@@ -34,7 +34,11 @@ ESC = "\x1b"
 
 # A spar dict that sets every table, for probing keys one at a time.
 FULL = spar_dict(
-    hollow={"plug": [{"from": 0, "to": 300}]},
+    hollow={"plug": [{"from": 0, "to": 300}], "layer": [{"material": "glass-6oz", "plies": 2, "from": 0, "to": 2000}],
+            "strip": [{"material": "mine", "width": 15, "thickness": 0.5, "place": "inner-face", "from": 0,
+                       "to": 2500}]},
+    materials={"mine": {"name": "My tape", "E_mpa": 90000, "density_kg_m3": 1500, "strength_mpa": 500,
+                        "ply_thickness": 0.3, "source": "test figures"}},
     stock={"thickness": 22, "widths": [95, 145], "lengths": [3000, 3600]},
     output={"paper": "a4"},
 )
@@ -46,12 +50,16 @@ _SETUP = {
     "hollow.notch": lambda d: (d["hollow"].update(joint="birdsmouth-custom", notch={"depth": 10, "apex_height": 5})
                                or d["hollow"]["notch"]),
     "hollow.plug": lambda d: d["hollow"]["plug"][0],
+    "hollow.layer": lambda d: d["hollow"]["layer"][0],
+    "hollow.strip": lambda d: d["hollow"]["strip"][0],
+    "materials.NAME": lambda d: d["materials"]["mine"],
     "stock": lambda d: d["stock"],
     "output": lambda d: d["output"],
     "wood": lambda d: (d["hollow"].update(wood={"name": "Test wood", "moe": 11000, "mor": 80, "density": 450})
                        or d["hollow"]["wood"]),
 }
-_WHERE = {"hollow.plug": "hollow.plug[1]", "wood": "hollow.wood"}
+_WHERE = {"hollow.plug": "hollow.plug[1]", "wood": "hollow.wood", "hollow.layer": "hollow.layer[1]",
+          "hollow.strip": "hollow.strip[1]", "materials.NAME": "materials.mine"}
 
 
 def _probe_cases():
@@ -106,7 +114,7 @@ def test_starter_holds_every_key(units):
 
 
 def _uncomment(text: str, names: set[str]) -> str:
-    return re.sub(r"^# ([a-z_]+) = ", lambda m: f"{m.group(1)} = " if m.group(1) in names else m.group(0), text,
+    return re.sub(r"^# ([A-Za-z_0-9]+) = ", lambda m: f"{m.group(1)} = " if m.group(1) in names else m.group(0), text,
                   flags=re.M)
 
 
@@ -139,11 +147,23 @@ def test_starter_optional_values_and_blocks_load(units):
     assert parse_spar(tomllib.loads(notch), "s.toml").hollow.joint.depth > 0
     # A wood of one's own, as a table in place of the staves' wood.
     lines = [ln for ln in text.splitlines() if not ln.startswith('wood = "douglas-fir-coast"')]
-    own = _uncomment("\n".join(lines).replace("# [hollow.wood]", "[hollow.wood]"),
-                     {"name", "moe", "mor", "density", "source"})
+    head, _, tail = "\n".join(lines).partition("# Materials of your own")
+    own = _uncomment(head.replace("# [hollow.wood]", "[hollow.wood]"),
+                     {"name", "moe", "mor", "density", "source"}) + "# " + tail
     wood = parse_spar(tomllib.loads(own), "s.toml").hollow.wood
     assert wood.name == "My wood" and wood.source == "the table the figures come from"
     assert 1000 <= wood.moe <= 40000
+    # A material of one's own, and the sheathing and strip blocks switched on with it.
+    mine = text.replace("# [materials.NAME]", "[materials.mine]").replace("# [[hollow.layer]]", "[[hollow.layer]]")
+    mine = mine.replace("# [[hollow.strip]]", "[[hollow.strip]]")
+    head, _, tail = mine.partition("[[hollow.layer]]")
+    tail, _, materials = tail.partition("[materials.mine]")
+    tail = _uncomment(tail, {"material", "plies", "width"})
+    materials = _uncomment(materials, {"E_mpa", "density_kg_m3", "strength_mpa", "ply_thickness"})
+    mine = head + "[[hollow.layer]]" + tail + "[materials.mine]" + materials
+    spar = parse_spar(tomllib.loads(mine), "s.toml")
+    assert spar.hollow.layers[0].material.key == "glass-6oz" and spar.hollow.layers[0].plies == 2
+    assert spar.hollow.strips[0].material.key == "carbon-ud"
 
 
 def test_typo_is_reported_as_unknown_with_the_nearest_key_before_any_missing():

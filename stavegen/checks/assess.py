@@ -122,7 +122,9 @@ def _stretch_figures(spar: Spar, cache: SectionCache, marks: tuple[StationMark, 
     for stretch in stretches:
         plug = spar.hollow.plug_at(stretch[1])
         plan.append(tuple(solid_round(spar, float(spar.plan.diameter.at(z))) for z in stretch))
-        hollow.append(tuple(hollow_round(spar, regions_at(spar, cache.at(z), plug, z)) for z in stretch))
+        middle = stretch[1]  # a stretch never straddles a plug's, a layer's or a strip's end: its middle decides
+        hollow.append(tuple(hollow_round(spar, regions_at(spar, cache.at(z, cover=middle), plug, middle))
+                            for z in stretch))
     return stretches, plan, hollow
 
 

@@ -9,6 +9,7 @@ key), then the values, then their plausibility (:func:`_plausibility`).
 
 from __future__ import annotations
 
+import contextvars
 import difflib
 import math
 import os
@@ -40,15 +41,20 @@ from .spar import (
     WALL_SOLVES,
     Hollow,
     Joint,
+    Layer,
     OutputOptions,
     Plan,
     Plug,
     Profile,
     Spar,
     Stock,
+    Strip,
 )
-from .woods import Wood, known_wood_keys, wood_table
+from .materials import Laminate, known_laminate_keys, laminate_table
+from .woods import BASIS_WORDS, Wood, known_wood_keys, wood_table
 
+_OWN: contextvars.ContextVar[dict[str, Any]] = contextvars.ContextVar("own_materials", default={})
+"""The spar file's own ``[materials.NAME]`` while it is read: woods and laminates by name."""
 POSITION_TOLERANCE = 0.5  # mm: a station this close to an end counts as at the end
 LARGEST_FILE = 1 << 20  # bytes: a spar file is a few kilobytes; anything over a mebibyte is not one
 _QUARTERS = re.compile(r"^\s*(\d{1,3})\s*/\s*4\s*$")
@@ -146,6 +152,10 @@ def _check_all_names(data: Any, path: str, decl: schema.Table) -> None:
                 _check_all_names(item, f"{where}[{i + 1}]", schema.TABLES[_decl_path(decl, key.name)])
         elif key.kind == "wood" and isinstance(value, dict):
             _check_all_names(value, where, schema.WOOD)
+        elif key.kind == "materials" and isinstance(value, dict):
+            for name, item in value.items():
+                if isinstance(item, dict):
+                    _check_names(item, f"{where}.{key_text(name)}", schema.MATERIAL)
 
 
 def _kind(value: Any) -> str:
@@ -275,8 +285,13 @@ def _profile(value: Any, units: str, key: str, length: float, what: str, whole_l
     return Profile(tuple(zs), tuple(vs))
 
 
-def _wood(value: Any, units: str, key: str) -> Wood:
+def _wood(value: Any, units: str, key: str, own: dict[str, Any] | None = None) -> Wood:
     table = wood_table()
+    own = own if own is not None else _OWN.get()
+    if isinstance(value, str) and value in own:
+        if not isinstance(own[value], Wood):
+            raise InputError(f"{shown(value)} is a laminate (strength_mpa); a wood takes mor_mpa", key)
+        return own[value]
     if isinstance(value, str):
         if value not in table:
             near = difflib.get_close_matches(value.lower(), list(table), n=1, cutoff=0.6)
@@ -303,6 +318,123 @@ def _wood(value: Any, units: str, key: str) -> Wood:
         return Wood(key=re.sub(r"[^a-z0-9]+", "-", name.lower()).strip("-"), name=name, moe=moe, mor=mor,
                     density=density, source=source)
     raise InputError(f"expected a wood name or a table, got {_kind(value)}", key)
+
+
+def _own_materials(value: Any, units: str) -> dict[str, Wood | Laminate]:
+    """The spar file's own ``[materials.NAME]``: a wood (with ``mor_mpa``) or a laminate (``strength_mpa``)."""
+    if value is None:
+        return {}
+    if not isinstance(value, dict):
+        raise InputError(f"expected [materials.NAME] tables, got {_kind(value)}", "materials")
+    out: dict[str, Wood | Laminate] = {}
+    for name, item in value.items():
+        key = f"materials.{key_text(name)}"
+        t = _Table(item, key, units, schema.MATERIAL)
+        label = t.get("name") or str(name)
+        moe, density = t.get("E_mpa"), t.get("density_kg_m3")
+        mor, strength = t.get("mor_mpa"), t.get("strength_mpa")
+        source = t.get("source")
+        if (mor is None) == (strength is None):
+            raise t.fail("strength_mpa", "give mor_mpa for a wood or strength_mpa for a laminate (one of them)")
+        limit = mor if mor is not None else strength
+        if limit >= moe:
+            raise t.fail("mor_mpa" if mor is not None else "strength_mpa",
+                         "must be far below the modulus E_mpa (both in MPa)")
+        if mor is not None:
+            if t.has("ply_thickness"):
+                raise t.fail("ply_thickness", "is for a laminate (strength_mpa), not a wood (mor_mpa)")
+            if not 1000 <= moe <= 40000:
+                raise InputError("modulus {moe} is outside the range of woods ({low} to {high})", t.key("E_mpa"),
+                                 units=units, figures={"moe": stress_figure(moe), "low": stress_figure(1000),
+                                                       "high": stress_figure(40000)})
+            if not 100 <= density <= 1400:
+                raise InputError("density {density} is outside the range of woods ({low} to {high})",
+                                 t.key("density_kg_m3"), units=units,
+                                 figures={"density": density_figure(density), "low": density_figure(100),
+                                          "high": density_figure(1400)})
+            out[str(name)] = Wood(key=str(name), name=label, moe=moe, mor=mor, density=density, source=source)
+        else:
+            out[str(name)] = Laminate(key=str(name), name=label, moe=moe, strength=strength, density=density,
+                                      ply_thickness=t.get("ply_thickness"), source=source, kind="own")
+    return out
+
+
+def _laminate(value: Any, key: str, own: dict[str, Any]) -> Laminate:
+    """A laminate by name: the file's own ``[materials.NAME]`` first, then the built-in ones."""
+    table = laminate_table()
+    if not isinstance(value, str):
+        raise InputError(f"expected the name of a laminate, got {_kind(value)}", key)
+    if value in own:
+        found = own[value]
+        if not isinstance(found, Laminate):
+            raise InputError(f"{shown(value)} is a wood (mor_mpa); a layer or strip takes a laminate "
+                             "(strength_mpa)", key)
+        return found
+    if value in table:
+        return table[value]
+    names = list(own) + known_laminate_keys()
+    near = difflib.get_close_matches(value.lower(), names, n=1, cutoff=0.6)
+    hint = f"did you mean {near[0]}? " if near else ""
+    raise InputError(f"unknown laminate {shown(value)}; {hint}known: {', '.join(names)}, or a [materials.NAME] "
+                     "table with E_mpa, strength_mpa, density_kg_m3, ply_thickness", key)
+
+
+def _span(t: "_Table", length: float) -> tuple[float | None, float | None]:
+    start = t.get("from") if t.has("from") else None
+    end = t.get("to") if t.has("to") else None
+    if end is not None and end > length + POSITION_TOLERANCE:
+        raise t.fail("to", "is past the spar's length")
+    if start is not None and start >= length - POSITION_TOLERANCE:
+        raise t.fail("from", "is at or past the head")
+    if start is not None and end is not None and end <= start:
+        raise t.fail("to", "must be after from")
+    return start, (min(end, length) if end is not None else None)
+
+
+def _thickness(t: "_Table", material: Laminate) -> tuple[float, int | None]:
+    """(thickness mm, plies) from ``plies`` or ``thickness``: exactly one, plies needing a ply thickness."""
+    plies, thickness = t.get("plies") if t.has("plies") else None, t.get("thickness") if t.has("thickness") else None
+    if plies is not None and thickness is not None:
+        raise t.fail("thickness", "give plies or thickness, not both")
+    if thickness is not None:
+        return thickness, None
+    plies = 1 if plies is None else plies
+    if plies != int(plies):
+        raise t.fail("plies", f"must be a whole number of plies, got {plies:g}")
+    if material.ply_thickness is None:
+        raise t.fail("plies", f"{shown(material.key)} has no ply_thickness; give thickness instead")
+    return int(plies) * material.ply_thickness, int(plies)
+
+
+def _layers(value: Any, units: str, length: float, own: dict[str, Any]) -> tuple[Layer, ...]:
+    if value is None:
+        return ()
+    if not isinstance(value, list):
+        raise InputError("expected [[hollow.layer]] tables", "hollow.layer")
+    out = []
+    for i, item in enumerate(value):
+        t = _Table(item, f"hollow.layer[{i + 1}]", units, schema.LAYER)
+        material = _laminate(t.raw("material"), t.key("material"), own)
+        thickness, plies = _thickness(t, material)
+        start, end = _span(t, length)
+        out.append(Layer(material=material, thickness=thickness, plies=plies, start=start, end=end))
+    return tuple(out)
+
+
+def _strips(value: Any, units: str, length: float, own: dict[str, Any]) -> tuple[Strip, ...]:
+    if value is None:
+        return ()
+    if not isinstance(value, list):
+        raise InputError("expected [[hollow.strip]] tables", "hollow.strip")
+    out = []
+    for i, item in enumerate(value):
+        t = _Table(item, f"hollow.strip[{i + 1}]", units, schema.STRIP)
+        material = _laminate(t.raw("material"), t.key("material"), own)
+        thickness, plies = _thickness(t, material)
+        start, end = _span(t, length)
+        out.append(Strip(material=material, width=t.get("width"), thickness=thickness, plies=plies,
+                         place=t.get("place"), start=start, end=end))
+    return tuple(out)
 
 
 def _joint(t: _Table) -> Joint:
@@ -385,11 +517,23 @@ def _hollow(t: _Table, units: str, length: float, plan: Plan) -> Hollow:
     else:
         diameter, given = plan.diameter, False
     plugs = _plugs(t.raw("plug"), units, length, wood)
+    own = _OWN.get()
+    layers = _layers(t.raw("layer"), units, length, own)
+    strips = _strips(t.raw("strip"), units, length, own)
     hollow = Hollow(wood=wood, staves=staves, joint=joint, wall=wall, diameter=diameter, diameter_given=given,
-                    plugs=plugs, strength_target_given=t.has("min_strength_ratio"), **t.fields())
+                    plugs=plugs, strength_target_given=t.has("min_strength_ratio"), layers=layers, strips=strips,
+                    **t.fields())
+    if layers and isinstance(diameter, Profile):
+        for z, d in zip(diameter.z, diameter.value):
+            sheath = hollow.sheath(z, length)
+            if 2 * sheath >= d / 2:
+                raise InputError("the layers, {sheath} thick, leave too little wood inside a {d} diameter at {z} "
+                                 "from the heel", "hollow.layer", units=units,
+                                 figures={"sheath": length_figure(sheath), "d": length_figure(d),
+                                          "z": position_figure(z)})
     if isinstance(wall, Profile) and isinstance(diameter, Profile):
         for z, thick in zip(wall.z, wall.value):
-            radius = float(diameter.at(z)) / 2
+            radius = float(diameter.at(z)) / 2 - hollow.sheath(z, length)
             if thick >= radius:
                 raise InputError("wall {wall} is as thick as the spar's radius ({radius}) at {z} from the heel: "
                                  "there is no bore", "hollow.wall", units=units,
@@ -499,6 +643,14 @@ def _plausibility(spar: Spar) -> tuple[str, ...]:
     """Refuse figures no spar could have (a slipped digit, a wrong unit); one warning line for unlikely ones."""
     notices: list[str] = []
     show = lambda mm: format_length(mm, spar.units)  # noqa: E731
+    woods = [("plan.wood", spar.plan.wood), ("hollow.wood", spar.hollow.wood)]
+    woods += [(f"hollow.plug[{i + 1}].wood", p.wood) for i, p in enumerate(spar.hollow.plugs)]
+    bases = {w.basis for _, w in woods}
+    if len(bases) > 1:
+        said = "; ".join(f"{key} {w.name}: {BASIS_WORDS.get(w.basis, w.basis)}" for key, w in woods)
+        notices.append(f"the woods' figures are of different kinds ({said}): a graded class's characteristic "
+                       "strength is several times below a clear-wood mean, so the comparison is not like for "
+                       "like; use figures of one kind.")
     profiles = [("plan.stations", spar.plan.diameter)]
     if spar.hollow.diameter_given and isinstance(spar.hollow.diameter, Profile):
         profiles.append(("hollow.stations", spar.hollow.diameter))
@@ -563,6 +715,8 @@ def parse_spar(data: dict[str, Any], source: str = "") -> Spar:
         name = spar_t.get("name")
         length = spar_t.get("length")
         head_load = spar_t.get("head_load")
+        own = _own_materials(top.raw("materials"), units)
+        token = _OWN.set(own)
         plan_t = top.sub("plan")
         plan = Plan(
             wood=_wood(plan_t.raw("wood"), units, plan_t.key("wood")),
@@ -577,6 +731,9 @@ def parse_spar(data: dict[str, Any], source: str = "") -> Spar:
         notices = _plausibility(spar)
     except InputError as exc:
         raise exc.located(source, units)
+    finally:
+        if "token" in locals():
+            _OWN.reset(token)
     return Spar(name=name, units=units, length=length, plan=plan, hollow=hollow, stock=stock, output=output,
                 source=source, head_load=head_load, head_load_given=spar_t.has("head_load"), notices=notices)
 

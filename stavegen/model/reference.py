@@ -100,11 +100,36 @@ def _table(decl: schema.Table) -> list[str]:
     return out + [""]
 
 
+def _built_in() -> list[str]:
+    """The built-in woods and laminates, each with its figures and source, from the data files."""
+    from .materials import laminate_table
+    from .woods import BASIS_WORDS, wood_table
+
+    out = ["## Built-in woods", "", "Names for `plan.wood`, `hollow.wood` and a plug's `wood`. Every figure is "
+           "for the wood at 12 % moisture content; the basis says whether it is a clear-wood mean or a graded "
+           "class's characteristic value (EN 338), and stavegen warns when a file mixes the two.", "",
+           "| name | wood | E, MPa | MOR, MPa | density, kg/m³ | basis | source |",
+           "| --- | --- | --- | --- | --- | --- | --- |"]
+    for w in wood_table().values():
+        out.append(f"| `{w.key}` | {_cell(w.name)} | {w.moe:,.0f} | {w.mor:.1f} | {w.density:.0f} | "
+                   f"{_cell(BASIS_WORDS.get(w.basis, w.basis))} | {_cell(w.source)} |")
+    out += ["", "## Built-in laminates", "", "Names for a `[[hollow.layer]]`'s or `[[hollow.strip]]`'s `material`. "
+            "Figures along the spar for the laminate as laid by hand; a ply's thickness, fibre and resin are "
+            "what one ply takes (the report's cloth and resin come from them).", "",
+            "| name | laminate | E, MPa | strength, MPa | density, kg/m³ | ply, mm | fibre, g/m² | resin, g/m² | "
+            "source |", "| --- | --- | --- | --- | --- | --- | --- | --- | --- |"]
+    for m in laminate_table().values():
+        out.append(f"| `{m.key}` | {_cell(m.name)} | {m.moe:,.0f} | {m.strength:.0f} | {m.density:.0f} | "
+                   f"{m.ply_thickness:g} | {m.fibre_g_m2:g} | {m.resin_g_m2:g} | {_cell(m.source)} |")
+    return out + [""]
+
+
 def reference_markdown() -> str:
     """The whole reference, as docs/spar-file.md holds it."""
     out = [_INTRO]
     for decl in schema.SPAR_FILE:
         out += _table(decl)
+    out += _built_in()
     out.append(_KINDS_HEAD.rstrip("\n"))
     used = {key.kind for decl in schema.SPAR_FILE for key in decl.keys}
     for kind, words in schema.KINDS.items():

@@ -18,7 +18,8 @@ from dataclasses import dataclass
 from dataclasses import field as _field
 from typing import Any
 
-from .spar import DEFAULT_STRENGTH_TARGET, JOINTS, MAX_STAVES, MIN_STAVES, NOTCH_CUTS, PAPERS, SEPARATIONS, TAPERS
+from .spar import (DEFAULT_STRENGTH_TARGET, JOINTS, MAX_STAVES, MIN_STAVES, NOTCH_CUTS, PAPERS, SEPARATIONS,
+                   STRIP_PLACES, TAPERS)
 
 
 @dataclass(frozen=True)
@@ -78,6 +79,7 @@ KINDS: dict[str, str] = {
     "ranges": "a list of `[from, to]` pairs of positions from the heel",
     "quarters": "quarters of an inch as a string (`\"5/4\"` is 1 1/4 in, in any file), or a length",
     "table": "a table",
+    "materials": "tables `[materials.NAME]`, one for each material of the file's own (see [materials.NAME])",
     "tables": "an array of tables, each written `[[...]]`",
 }
 
@@ -202,6 +204,62 @@ PLUG = Table("hollow.plug", "Solid blocking filling the bore over a range (heel,
         aside=_u('"douglas-fir-coast"', '"douglas-fir-coast"')),
 ), note="Plugs must not overlap and must end within the spar.")
 
+LAYER = Table("hollow.layer", "Sheathing over the rounded wood: cloth (or any laminate) in epoxy, one "
+              "`[[hollow.layer]]` table for each, innermost first.", array=True,
+              short="sheathing over the wood: cloth", keys=(
+    Key("material", "text", "a built-in laminate (`stavegen materials` lists them) or one of `[materials]`",
+        example=_u('"glass-6oz"', '"glass-6oz"')),
+    Key("plies", "number", "how many plies", default=Words("1 (or thickness)"), low=1.0, high=50.0,
+        example=_u("2", "2")),
+    Key("thickness", "length", "the layer's cured thickness, in place of plies", default=UNSET,
+        aside=_u('"1/64"', "0.5")),
+    Key("from", "length", "where the layer starts, from the heel", default=Words("the heel"), zero_ok=True,
+        aside=_u("0", "0")),
+    Key("to", "length", "where it ends, from the heel", default=Words("the head"), zero_ok=True,
+        aside=_u('"6 ft"', "1800")),
+), note="The layers lie outside the wood after rounding. The finished diameters (`hollow.stations`, or the "
+        "plan's) are the outside of the finished spar, layers included: the wood is rounded to the diameter "
+        "less twice the layers there. Give `plies` (times the laminate's ply thickness) or `thickness`. Over "
+        "a stretch (`from`, `to`), a station at the layer's very end is checked without it.")
+
+STRIP = Table("hollow.strip", "Reinforcement: unidirectional tape along every stave, one `[[hollow.strip]]` "
+              "table for each.", array=True, short="reinforcing tape in every stave: carbon", keys=(
+    Key("material", "text", "a built-in laminate or one of `[materials]`", example=_u('"carbon-ud"', '"carbon-ud"')),
+    Key("width", "length", "the tape's width", example=_u('"3/4"', "20")),
+    Key("plies", "number", "how many plies of tape", default=Words("1 (or thickness)"), low=1.0, high=50.0,
+        example=_u("2", "2")),
+    Key("thickness", "length", "the strip's cured thickness, in place of plies", default=UNSET,
+        aside=_u('"1/32"', "0.7")),
+    Key("place", "choice", "where the tape lies", default="inner-face", choices=STRIP_PLACES,
+        example=_u('"inner-face"', '"inner-face"'),
+        choice_notes={"inner-face": "laid along the middle of each stave's inner face before glue-up, in the bore",
+                      "groove": "let into a groove along the middle of each stave's outer face, its outer corners "
+                                "on the finished round (the templates give the groove)"}),
+    Key("from", "length", "where the strips start, from the heel", default=Words("the heel"), zero_ok=True,
+        aside=_u("0", "0")),
+    Key("to", "length", "where they end, from the heel", default=Words("the head"), zero_ok=True,
+        aside=_u('"6 ft"', "1800")),
+), note="Each stave carries one strip; the section counts them as a region of their own. A strip in the bore "
+        "leaves less room for a plug, which is counted less the strips.")
+
+MATERIAL = Table("materials.NAME", "A material of the file's own, used by its NAME wherever a wood or a laminate "
+                 "is asked for: a wood (with `mor_mpa`) or a laminate (with `strength_mpa` and `ply_thickness`).",
+                 short="materials of your own", keys=(
+    Key("name", "text", "what it is called", default=Words("NAME"), longest=80, aside=_u('"Larch"', '"Larch"')),
+    Key("E_mpa", "number", "modulus of elasticity along the spar, MPa", low=0.0, low_open=True, high=1e6,
+        example=_u("12000", "12000")),
+    Key("density_kg_m3", "number", "density, kg/m³ (a wood's at 12 % moisture content)", low=0.0, low_open=True,
+        high=25000.0, example=_u("590", "590")),
+    Key("mor_mpa", "number", "a wood's modulus of rupture, MPa", default=UNSET, low=0.0, low_open=True,
+        aside=_u("93", "93")),
+    Key("strength_mpa", "number", "a laminate's strength along the spar (the lesser of tension and "
+        "compression), MPa", default=UNSET, low=0.0, low_open=True, aside=_u("500", "500")),
+    Key("ply_thickness", "length", "a laminate's cured thickness per ply", default=UNSET, aside=_u('"1/64"', "0.3")),
+    Key("source", "text", "where the figures come from", default="defined in the spar file", longest=300,
+        example=_u('"the table the figures come from"', '"the table the figures come from"')),
+), note="A wood of your own: clear-wood figures at 12 % moisture content from a source you trust. A laminate: "
+        "figures for the laminate as you will lay it (by hand they are well below a prepreg's).")
+
 HOLLOW = Table("hollow", "The stave-built spar you will make.", required=True, short="the spar you will build",
                keys=(
     Key("wood", "wood", "the staves' wood", example=_u('"douglas-fir-coast"', '"douglas-fir-coast"')),
@@ -265,6 +323,8 @@ HOLLOW = Table("hollow", "The stave-built spar you will make.", required=True, s
                                      "fixed table-saw or router-table set-up cuts it, so the figures are given "
                                      "station by station for a CNC router"}),
     Key("plug", "tables", "solid blocking in the bore (see [[hollow.plug]])", default=Words("none")),
+    Key("layer", "tables", "sheathing over the wood (see [[hollow.layer]])", default=Words("none")),
+    Key("strip", "tables", "reinforcing tape in every stave (see [[hollow.strip]])", default=Words("none")),
 ))
 
 STOCK = Table("stock", "The boards the staves are ripped from; needed by `build`, `size` and "
@@ -331,9 +391,10 @@ TOP = Table("", "The spar file.", required=True, keys=(
     Key("hollow", "table", HOLLOW.meaning),
     Key("stock", "table", STOCK.meaning, default=UNSET),
     Key("output", "table", OUTPUT.meaning, default=Words("the defaults below")),
+    Key("materials", "materials", MATERIAL.meaning, default=Words("none")),
 ))
 
-SPAR_FILE: tuple[Table, ...] = (SPAR, PLAN, HOLLOW, NOTCH, PLUG, STOCK, OUTPUT, WOOD)
+SPAR_FILE: tuple[Table, ...] = (SPAR, PLAN, HOLLOW, NOTCH, PLUG, LAYER, STRIP, STOCK, OUTPUT, WOOD, MATERIAL)
 """Every table, in the order the reference and the starter file give them."""
 
 TABLES: dict[str, Table] = {t.path: t for t in (TOP,) + SPAR_FILE}

@@ -12,6 +12,7 @@ from typing import Literal, Union
 
 import numpy as np
 
+from .materials import Laminate
 from .woods import Wood
 
 AUTO = "auto"
@@ -24,6 +25,7 @@ TAPERS = ("square-edge", "symmetric")
 NOTCH_CUTS = ("thickest-wall", "follow-wall")
 DEFAULT_STRENGTH_TARGET = 1.0  # the hollow spar at least as strong as the plan unless the file accepts less
 DEFAULT_HEAD_LOAD = 1000.0  # N: the reference sideways head load for comparing deflections (1 kN)
+STRIP_PLACES = ("inner-face", "groove")  # where reinforcing tape lies in each stave
 PAPERS = ("letter", "a4")
 SEPARATIONS = ("saw", "router")  # how neighbouring pieces are parted on a board (stock.separate_with)
 MIN_STAVES, MAX_STAVES = 4, 24
@@ -95,6 +97,45 @@ class Plug:
         return self.start <= z <= self.end
 
 
+def _covers(start: float | None, end: float | None, z: float, length: float, tol: float) -> bool:
+    """Whether a stretch from ``start`` to ``end`` (None: the heel, the head) covers ``z``: strictly inside,
+    or at a spar end it reaches; at an inner end the other side counts (as at a plug's)."""
+    lo = 0.0 if start is None else start
+    hi = length if end is None else end
+    return (lo + tol < z < hi - tol) or (z <= tol and lo <= tol) or (z >= length - tol and hi >= length - tol)
+
+
+@dataclass(frozen=True)
+class Layer:
+    """Sheathing over the rounded wood: a laminate ``thickness`` mm thick (``plies`` of it, when counted so),
+    from ``start`` to ``end`` mm from the heel (None: the heel, the head)."""
+
+    material: Laminate
+    thickness: float
+    plies: int | None = None
+    start: float | None = None
+    end: float | None = None
+
+    def covers(self, z: float, length: float, tol: float = 0.05) -> bool:
+        return _covers(self.start, self.end, z, length, tol)
+
+
+@dataclass(frozen=True)
+class Strip:
+    """Reinforcing tape ``width`` × ``thickness`` mm along every stave (``place``: "inner-face" or "groove")."""
+
+    material: Laminate
+    width: float
+    thickness: float
+    plies: int | None = None
+    place: str = "inner-face"
+    start: float | None = None
+    end: float | None = None
+
+    def covers(self, z: float, length: float, tol: float = 0.05) -> bool:
+        return _covers(self.start, self.end, z, length, tol)
+
+
 @dataclass(frozen=True)
 class Plan:
     """The solid spar drawn in the plans: the stiffness and strength target."""
@@ -129,12 +170,25 @@ class Hollow:
     notch_cut: str = "thickest-wall"
     plugs: tuple[Plug, ...] = ()
     diameter_given: bool = False
+    layers: tuple[Layer, ...] = ()
+    strips: tuple[Strip, ...] = ()
 
     def plug_at(self, z: float) -> Plug | None:
         for plug in self.plugs:
             if plug.covers(z):
                 return plug
         return None
+
+    def layers_at(self, z: float, length: float) -> tuple[Layer, ...]:
+        """The sheathing layers over the wood at ``z`` (mm from the heel), innermost first."""
+        return tuple(layer for layer in self.layers if layer.covers(z, length))
+
+    def strips_at(self, z: float, length: float) -> tuple[Strip, ...]:
+        return tuple(strip for strip in self.strips if strip.covers(z, length))
+
+    def sheath(self, z: float, length: float) -> float:
+        """How much the layers at ``z`` add to the radius (mm): the wood is rounded to the finished radius less this."""
+        return sum(layer.thickness for layer in self.layers_at(z, length))
 
 
 @dataclass(frozen=True)

@@ -86,17 +86,22 @@ def starter_text(units: str = "in") -> str:
            "# Replace every figure below with your own plans' figures before you cut wood.", ""]
     out += _table(schema.SPAR, units) + [""]
     out += _table(schema.PLAN, units) + [""]
-    out += _table(schema.HOLLOW, units, skip=("notch", "plug")) + [""]
+    out += _table(schema.HOLLOW, units, skip=("notch", "plug", "layer", "strip")) + [""]
     out += _table(schema.NOTCH, units, off=True) + [""]
     out += _table(schema.PLUG, units) + [""]
     out += _comment_lines("[[hollow.plug]]", "and masthead")
     for key in schema.PLUG.keys:
         if key.name in _MASTHEAD_PLUG:
             out += _key(key, units, value=_MASTHEAD_PLUG[key.name], comment=False)
+    out += [""] + _table(schema.LAYER, units, off=True) + [""]
+    out += _table(schema.STRIP, units, off=True) + [""]
     out += [""] + _table(schema.STOCK, units) + [""]
     out += _table(schema.OUTPUT, units) + [""]
     out += ["# A wood of your own: wherever a wood is asked for (plan, hollow, a plug), a table in place of the",
             "# wood's key. For the staves, delete wood = ... under [hollow] and write:"]
     out += _table(schema.WOOD, units, off=True)
+    out += ["", "# Materials of your own, used by NAME wherever a wood or a laminate is asked for (a wood with",
+            "# mor_mpa, a laminate with strength_mpa and ply_thickness):"]
+    out += _table(schema.MATERIAL, units, off=True)
     text = "\n".join(out).replace("# [wood]", "# [hollow.wood]", 1) + "\n"
     return text

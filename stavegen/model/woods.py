@@ -24,6 +24,9 @@ class Wood:
     density: float
     specific_gravity: float | None = None
     source: str = "defined in the spar file"
+    basis: str = "clear"
+    """What the figures are: "clear" (means of small clear specimens, the Wood Handbook's kind) or "EN 338"
+    (characteristic values of a graded strength class, knots and all)."""
     family = "wood"  # not a field: every Wood is a wood (laminates say "laminate")
 
     @property
@@ -41,14 +44,18 @@ def wood_table() -> dict[str, Wood]:
         key: Wood(
             key=key,
             name=row["name"],
-            moe=row["moe_mpsi"] * 1e6 * MPA_PER_PSI,
-            mor=row["mor_psi"] * MPA_PER_PSI,
+            moe=row["moe_mpsi"] * 1e6 * MPA_PER_PSI if "moe_mpsi" in row else float(row["moe_mpa"]),
+            mor=row["mor_psi"] * MPA_PER_PSI if "mor_psi" in row else float(row["mor_mpa"]),
             density=float(row["density_kg_m3"]),
-            specific_gravity=row["specific_gravity"],
+            specific_gravity=row.get("specific_gravity"),
             source=row["source"],
+            basis=row.get("basis", "clear"),
         )
         for key, row in rows.items()
     }
+
+
+BASIS_WORDS = {"clear": "clear-wood means", "EN 338": "graded-timber characteristic values (EN 338)"}
 
 
 def known_wood_keys() -> list[str]:

@@ -51,9 +51,10 @@ def scale_range(spar: Spar, point: Point) -> tuple[float, str, float, str]:
     plan_radius = point.plan_diameter / 2
     cos = math.cos(math.pi / h.staves)
     corner = h.min_corner_wall or 0.0
-    bore = t / plan_radius * (1 + 1e-9)
+    sheath = h.sheath(point.z, spar.length) if h.layers else 0.0  # the wood is rounded this far inside
+    bore = (t + sheath) / plan_radius * (1 + 1e-9)
     low, low_by = (1.0, PLAN) if bore <= 1.0 else (bore, BORE_CLOSES)
-    high = (t - h.planing_allowance - corner * cos - BORE_CLEARANCE) / (1 - cos) / plan_radius
+    high = ((t - h.planing_allowance - corner * cos - BORE_CLEARANCE) / (1 - cos) + sheath) / plan_radius
     return low, low_by, high, (CORNER_MINIMUM if corner else BORE_CORNERS)
 
 

@@ -26,7 +26,7 @@ from ..errors import DesignError
 from ..model.spar import Plug, Spar
 from ..section.integrals import Moments
 from ..section.properties import bore_ring
-from ..stations.evaluate import Station, hollow_section, plug_at_station, where
+from ..stations.evaluate import Station, hollow_section, plug_at_station, where, wood_radius
 from ..units import Way, system
 from ..stations.grid import station_marks
 
@@ -96,14 +96,15 @@ def place(spar: Spar, point: Point) -> str:
 
 
 def check_at(spar: Spar, point: Point, radius: float, wall: float) -> StationCheck:
-    """The section of finished ``radius`` and ``wall`` (mm) at ``point``, as it would be built, against the plan.
+    """The section of finished ``radius`` (layers included) and ``wall`` (mm) at ``point``, as it would be built,
+    against the plan.
 
     As built: staves dressed to the wall rounded up onto the builder's grid, the bore the wall's
     (:func:`~stavegen.stations.evaluate.hollow_section`); for flush and bevel staves that is the
     exact section of the wall itself.
     """
     thickness = system(spar.units).on_grid(wall, Way.UP)
-    section = hollow_section(spar, radius, wall, place(spar, point), thickness=thickness)
+    section = hollow_section(spar, wood_radius(spar, radius, point.z), wall, place(spar, point), thickness=thickness)
     station = Station(z=point.z, reasons=point.reasons, plan_diameter=point.plan_diameter, diameter=2 * radius,
                       wall=wall, plug=point.plug, section=section)
     return check_station(spar, station)
@@ -126,6 +127,7 @@ class RoundedRing:
     plastic_moduli: tuple[float, float]  # Z = ∫|y| dA of the wall and of the bore, as Section gives them
     staves: int = 0
     corner_reach: float = 0.0
+    inner_apothem: float = 0.0
 
     @property
     def bore_inertia(self) -> float:
@@ -182,7 +184,7 @@ def rounded_ring(staves: int, radius: float, wall: float, planing_allowance: flo
     return RoundedRing(radius=radius, thickness=wall, area=math.pi * radius**2 - bore_area,
                        inertia=math.pi * radius**4 / 4 - bore_i,
                        bore=Moments(bore_area, 0.0, 0.0, bore_i, bore_i, 0.0), plastic_moduli=best,
-                       staves=staves, corner_reach=a / math.cos(math.pi / staves))
+                       staves=staves, corner_reach=a / math.cos(math.pi / staves), inner_apothem=a)
 
 
 def closed_form_checker(spar: Spar, point: Point) -> Callable[[float, float], StationCheck]:
@@ -191,7 +193,7 @@ def closed_form_checker(spar: Spar, point: Point) -> Callable[[float, float], St
     h = spar.hollow
 
     def check(radius: float, wall: float) -> StationCheck:
-        section = rounded_ring(h.staves, radius, wall, h.planing_allowance)
+        section = rounded_ring(h.staves, wood_radius(spar, radius, point.z), wall, h.planing_allowance)
         station = Station(z=point.z, reasons=point.reasons, plan_diameter=point.plan_diameter,
                           diameter=2 * radius, wall=wall, plug=point.plug, section=section)  # type: ignore[arg-type]
         return check_station(spar, station)

@@ -31,6 +31,7 @@ import numpy as np
 from ..errors import DesignError
 from ..model.spar import AUTO_TAPERED, Profile, Spar
 from ..units import format_exact, format_length, format_length_up
+from ..stations.evaluate import wood_radius
 from .roots import INSIDE, NOTCH, NOTCH_UPPER, UPPER, Miss, Window, common_windows, window
 from .targets import (Criterion, Point, check_at, closed_form_applies, closed_form_check_at, closed_form_checker,
                       closed_form_trusted, criteria_of, place, points_of, ratio_text)
@@ -54,13 +55,15 @@ class WallSolution:
     thickened: int = 0
 
 
-def wall_range(spar: Spar, radius: float) -> tuple[float, str, float]:
+def wall_range(spar: Spar, radius: float, z: float | None = None) -> tuple[float, str, float]:
     """Thinnest wall (mm) a finished ``radius`` allows, what sets it, and the thickest (just under the radius).
 
     Thinnest: t ≥ R + p − (R − c_min)·cos(π/N) + clearance, from the bore's
     corner radius a_i / cos(π/N) ≤ R − c_min (c_min = hollow.min_corner_wall or 0).
     """
     h = spar.hollow
+    if z is not None:
+        radius = wood_radius(spar, radius, z)  # the wood under the layers
     cos = math.cos(math.pi / h.staves)
     corner = h.min_corner_wall or 0.0
     thinnest = radius + h.planing_allowance - (radius - corner) * cos + BORE_CLEARANCE
@@ -77,7 +80,7 @@ def wall_window(spar: Spar, point: Point, criteria: tuple[Criterion, ...], trust
     ``trust``: search on the closed-form section from the start (see :func:`~.roots.window`).
     """
     radius = _radius(spar, point.z)
-    lo, lo_by, hi = wall_range(spar, radius)
+    lo, lo_by, hi = wall_range(spar, radius, point.z)
     if lo >= hi:
         return Window(lo, hi, lo_by, NO_BORE)
     quick = None
@@ -90,7 +93,7 @@ def wall_window(spar: Spar, point: Point, criteria: tuple[Criterion, ...], trust
 def _trusted(spar: Spar, criteria: tuple[Criterion, ...], point: Point) -> bool:
     """Whether the closed form agrees with the exact section at ``point``, mid-way through its range of walls."""
     radius = _radius(spar, point.z)
-    lo, _, hi = wall_range(spar, radius)
+    lo, _, hi = wall_range(spar, radius, point.z)
     return lo < hi and closed_form_trusted(spar, point, criteria, radius, (lo + hi) / 2)
 
 
@@ -98,7 +101,7 @@ def meets_wall(spar: Spar, point: Point, criteria: tuple[Criterion, ...], wall: 
     """Whether ``wall`` (mm) meets every criterion at ``point`` and lies in the range the round allows there
     (closed form for flush and bevel joints; every solved wall is checked again on the exact section)."""
     radius = _radius(spar, point.z)
-    lo, _, hi = wall_range(spar, radius)
+    lo, _, hi = wall_range(spar, radius, point.z)
     if not lo <= wall <= hi:
         return False
     try:
@@ -116,7 +119,7 @@ def _meets(spar: Spar, criteria: tuple[Criterion, ...]) -> Callable[[Point, floa
 
     def meets(point: Point, wall: float) -> bool:
         radius = _radius(spar, point.z)
-        lo, _, hi = wall_range(spar, radius)
+        lo, _, hi = wall_range(spar, radius, point.z)
         if not lo <= wall <= hi:
             return False
         key = (point.z, point.at_station)

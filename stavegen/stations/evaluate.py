@@ -7,12 +7,15 @@ apothem a_o = R + planing allowance. Positions mm from the heel.
 
 from __future__ import annotations
 
+import math
 from dataclasses import dataclass
 from functools import partial
 
-from ..model.spar import Plug, Profile, Spar
+from ..model.spar import Plug, Profile, Spar, Strip
 from ..section.properties import Section, evaluate_section
-from ..section.regions import PLUG, STAVE, Region, RegionSection, isotropic, section_of
+from ..errors import DesignError
+from ..section.integrals import Moments, disc_moments
+from ..section.regions import LAYER, PLUG, STAVE, STRIP, Region, RegionSection, isotropic, section_of
 from ..units import Way, format_length, system
 from .grid import MERGE_TOLERANCE, StationMark, station_marks
 
@@ -54,23 +57,111 @@ def _bore_shape(section) -> object:
     return Polygon(bore_ring(section.staves, section.inner_apothem))
 
 
+def _annulus_shape(inner: float, outer: float) -> object:
+    from shapely.geometry import Point
+
+    return Point(0.0, 0.0).buffer(outer, quad_segs=180).difference(Point(0.0, 0.0).buffer(inner, quad_segs=180))
+
+
+def _strip_shape(staves: int, width: float, bottom: float, top: float) -> object:
+    import shapely
+    from shapely.geometry import box
+
+    from ..section.staves import placed_ring
+
+    return shapely.MultiPolygon(list(placed_ring(box(-width / 2, bottom, width / 2, top), staves, range(staves))))
+
+
+def _rectangle_ring(staves: int, width: float, bottom: float, top: float) -> Moments:
+    """N rectangles [−w/2, w/2] × [bottom, top], one on each stave's axis, turned by 2π/N each: exact, isotropic
+    (Roark, rectangle: I = w h³/12 about its own axis; here integrated about the spar's axis)."""
+    h = top - bottom
+    ixx = width * (top**3 - bottom**3) / 3
+    iyy = h * width**3 / 12
+    half = staves * (ixx + iyy) / 2
+    return Moments(staves * width * h, 0.0, 0.0, half, half, 0.0)
+
+
+def _ring_abs_y(staves: int, area: float, centre: float) -> float:
+    """∫|y| dA of N small pieces of ``area`` at ``centre`` mm from the axis on each stave's axis (the diameter
+    through stave 0's middle, as the wall's plastic modulus is taken): the pieces as points at their centroids."""
+    return sum(area * abs(centre * math.cos(2 * math.pi * k / staves)) for k in range(staves))
+
+
+def strip_span(strip: Strip, staves: int, radius: float, inner_apothem: float, at: str = "",
+               units: str = "mm") -> tuple[float, float]:
+    """Where a strip lies across its stave (mm from the axis along the stave's middle): (bottom, top).
+
+    On the inner face: from a_i − t to a_i, in the bore. In a groove: its outer corners on the finished round
+    of the wood, √(R² − (w/2)²), down by its thickness. Raises DesignError where it does not fit.
+    """
+    tan = math.tan(math.pi / staves)
+    show = lambda mm: format_length(mm, units)  # noqa: E731
+    where_ = f" at {at}" if at else ""
+    if strip.place == "groove":
+        if strip.width / 2 >= radius:
+            raise DesignError(f"a strip {show(strip.width)} wide is wider than the spar{where_}", "hollow.strip")
+        top = math.sqrt(radius**2 - (strip.width / 2) ** 2)
+        bottom = top - strip.thickness
+        if bottom <= inner_apothem:
+            raise DesignError(f"the groove for a strip {show(strip.thickness)} thick goes through the stave{where_} "
+                              f"(wall after rounding {show(top - inner_apothem)} under it)", "hollow.strip")
+    else:
+        top, bottom = inner_apothem, inner_apothem - strip.thickness
+        if bottom <= 0:
+            raise DesignError(f"strips {show(strip.thickness)} thick fill the bore{where_}", "hollow.strip")
+    if strip.width / 2 > bottom * tan:
+        raise DesignError(f"strips {show(strip.width)} wide do not fit {staves} staves{where_}: at most "
+                          f"{show(2 * bottom * tan)} there", "hollow.strip")
+    return bottom, top
+
+
 def regions_at(spar: Spar, section: Section, plug: Plug | None, z: float | None = None) -> RegionSection:
     """The material regions of ``section`` at ``z`` (mm from the heel): the staves, the plug filling the bore
-    where there is one. The one place a section's regions are made; checks, sizing and renderers read them.
+    where there is one, the strips in every stave and the sheathing layers over the wood that cover ``z``.
+    The one place a section's regions are made; checks, sizing and renderers read them.
 
-    ``section`` may be the exact :class:`Section` or the sizing's closed form (anything with ``wall`` and
-    ``bore`` moments, ``plastic_moduli``, ``radius`` and ``bore_corner_radius``).
+    ``section`` is the wood's (its radius the wood's, rounded under the layers); it may be the exact
+    :class:`Section` or the sizing's closed form (anything with ``wall`` and ``bore`` moments,
+    ``plastic_moduli``, ``radius``, ``inner_apothem``, ``staves`` and ``bore_corner_radius``). ``z`` None: no
+    layers or strips.
     """
     h = spar.hollow
     wood = h.wood
     z_wall, z_bore = section.plastic_moduli
     exact = isinstance(section, Section)
-    regions = [Region(STAVE, wood, isotropic(section.wall), section.radius, h.lamination_factor * wood.moe,
+    n = section.staves
+    wall, bore = isotropic(section.wall), isotropic(section.bore)
+    strip_regions = []
+    for strip in (h.strips_at(z, spar.length) if z is not None else ()):
+        bottom, top = strip_span(strip, n, section.radius, section.inner_apothem, where(spar, z), spar.units)
+        ring = _rectangle_ring(n, strip.width, bottom, top)
+        cut = _ring_abs_y(n, strip.width * (top - bottom), (top + bottom) / 2)
+        if strip.place == "groove":
+            wall, z_wall = wall - ring, z_wall - cut
+        else:
+            bore, z_bore = bore - ring, z_bore - cut
+        reach = math.hypot(strip.width / 2, top if strip.place != "groove" else top)
+        strip_regions.append(Region(STRIP, strip.material, ring, reach, strip.material.moe,
+                                    shape=partial(_strip_shape, n, strip.width, bottom, top), pieces=n,
+                                    label=f"strips, {strip.place}"))
+    regions = [Region(STAVE, wood, wall, section.radius, h.lamination_factor * wood.moe,
                       plastic=z_wall, shape=partial(_stave_shape, section) if exact else None,
-                      pieces=section.staves if exact else 1)]
+                      pieces=n if exact else 1)]
     if plug is not None:
-        regions.append(Region(PLUG, plug.wood, isotropic(section.bore), section.bore_corner_radius, plug.wood.moe,
+        regions.append(Region(PLUG, plug.wood, bore, section.bore_corner_radius, plug.wood.moe,
                               plastic=z_bore, shape=partial(_bore_shape, section) if exact else None))
+    regions += strip_regions
+    inner = section.radius
+    for k, layer in enumerate(h.layers):
+        if z is None or not layer.covers(z, spar.length):
+            continue
+        outer = inner + layer.thickness
+        ring = disc_moments(outer) - disc_moments(inner)
+        regions.append(Region(LAYER, layer.material, ring, outer, layer.material.moe,
+                              shape=partial(_annulus_shape, inner, outer),
+                              label=f"layer {k + 1}"))
+        inner = outer
     return section_of(regions, wood.moe)
 
 
@@ -79,6 +170,12 @@ def regions_of(spar: Spar, station: Station) -> RegionSection:
     if station.regions is not None:
         return station.regions
     return regions_at(spar, station.section, station.plug, station.z)
+
+
+def wood_radius(spar: Spar, radius: float, z: float) -> float:
+    """The radius the wood is rounded to (mm) where the finished radius, layers included, is ``radius``."""
+    sheath = spar.hollow.sheath(z, spar.length) if spar.hollow.layers else 0.0
+    return radius - sheath
 
 
 def where(spar: Spar, z: float) -> str:
@@ -142,10 +239,11 @@ class SectionCache:
         self._thickness = stave_thickness(spar)
         self._cache: dict[tuple[float, float], Section] = {}
 
-    def at(self, z: float) -> Section:
-        """The finished section at ``z`` mm from the heel."""
+    def at(self, z: float, cover: float | None = None) -> Section:
+        """The wood's finished section at ``z`` mm from the heel: rounded to the finished radius less the layers
+        there (those covering ``cover``, default ``z``: a stretch's middle decides at a layer's end)."""
         spar = self.spar
-        radius = float(spar.hollow.diameter.at(z)) / 2
+        radius = wood_radius(spar, float(spar.hollow.diameter.at(z)) / 2, z if cover is None else cover)
         wall = float(spar.hollow.wall.at(z))
         key = (round(radius, 9), round(wall, 9))
         section = self._cache.get(key)
@@ -168,7 +266,7 @@ def evaluate_stations(spar: Spar, marks: tuple[StationMark, ...] | None = None,
             z=mark.z,
             reasons=mark.reasons,
             plan_diameter=float(spar.plan.diameter.at(mark.z)),
-            diameter=2 * section.radius,
+            diameter=float(spar.hollow.diameter.at(mark.z)),
             wall=float(spar.hollow.wall.at(mark.z)),
             plug=plug,
             section=section,

@@ -12,7 +12,8 @@ MOST_STATIONS = 8_000  # a build stays under 300 MB up to here, 24 staves and al
 
 @dataclass(frozen=True)
 class StationMark:
-    """A position (mm from the heel) and why it is there: heel, head, plan, hollow, wall, mark, plug."""
+    """A position (mm from the heel) and why it is there: heel, head, plan, hollow, wall, mark, plug,
+    layer, strip."""
 
     z: float
     reasons: tuple[str, ...]
@@ -32,6 +33,8 @@ def station_marks(spar: Spar, extra: dict[str, list[float]] | None = None) -> tu
         found += [(z, "wall") for z in spar.hollow.wall.z]
     for plug in spar.hollow.plugs:
         found += [(plug.start, "plug"), (plug.end, "plug")]
+    for reason, spans in (("layer", spar.hollow.layers), ("strip", spar.hollow.strips)):
+        found += [(z, reason) for span in spans for z in (span.start, span.end) if z is not None]
     step = spar.output.mark_spacing
     k = 1
     while k * step < spar.length - MERGE_TOLERANCE:
@@ -70,7 +73,8 @@ def refuse_too_many(spar: Spar, most: int = MOST_STATIONS, why: str = "") -> Non
         file_keys["hollow.stations"] = len(spar.hollow.diameter.z)
     if isinstance(spar.hollow.wall, Profile) and not spar.hollow.wall.is_constant:
         file_keys["hollow.wall"] = len(spar.hollow.wall.z)
-    fixed = 2 + sum(file_keys.values()) + 2 * len(spar.hollow.plugs)
+    fixed = 2 + sum(file_keys.values()) + 2 * (len(spar.hollow.plugs) + len(spar.hollow.layers)
+                                               + len(spar.hollow.strips))
     step = spar.output.mark_spacing
     marks = spar.length / step if step > 0 else float("inf")
     if fixed + marks <= most:

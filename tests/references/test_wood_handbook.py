@@ -24,14 +24,52 @@ HANDBOOK = {
     "eastern-white-pine": (0.35, 8600, 1.24),
     "white-ash": (0.60, 15000, 1.74),
     "white-oak": (0.68, 15200, 1.78),
+    "western-larch": (0.52, 13000, 1.87),
+    "white-spruce": (0.36, 9400, 1.43),
+    "engelmann-spruce": (0.35, 9300, 1.30),
+    "noble-fir": (0.39, 10700, 1.72),
+    "red-pine": (0.46, 11000, 1.63),
+}
+# key: (MOR MPa, E MPa, density kg/m³), clear-wood means of European handbooks (e.g. Wagenführ, Holzatlas),
+# from memory — verify.
+EUROPEAN = {
+    "norway-spruce": (78, 10000, 460),
+    "european-larch": (93, 12000, 590),
+    "scots-pine": (87, 11500, 520),
+}
+# key: (f_m,k MPa, E_0,mean MPa, mean density kg/m³), EN 338 strength classes of graded softwood, from memory —
+# verify. Characteristic values of graded timber, not clear-wood means.
+EN338 = {
+    "en338-c24": (24, 11000, 420),
+    "en338-c30": (30, 12000, 460),
 }
 
 
-def test_twelve_woods_with_source_labels():
+def test_every_wood_with_its_source():
     table = wood_table()
-    assert set(table) == set(HANDBOOK)
-    for wood in table.values():
-        assert "FPL-GTR-282" in wood.source and "from memory" in wood.source and "verify" in wood.source
+    assert set(table) == set(HANDBOOK) | set(EUROPEAN) | set(EN338)
+    for key, wood in table.items():
+        assert "from memory" in wood.source and "verify" in wood.source
+        if key in HANDBOOK:
+            assert "FPL-GTR-282" in wood.source and wood.basis == "clear"
+        elif key in EN338:
+            assert "EN 338" in wood.source and wood.basis == "EN 338"
+        else:
+            assert wood.basis == "clear"
+
+
+@pytest.mark.parametrize("key", sorted(EUROPEAN) + sorted(EN338))
+def test_metric_rows(key):
+    mor, moe, density = {**EUROPEAN, **EN338}[key]
+    wood = wood_table()[key]
+    assert (wood.mor, wood.moe, wood.density) == (mor, moe, density)
+
+
+def test_graded_class_far_below_clear_wood():
+    """Common practice: a graded class's characteristic bending strength is a fraction of the clear-wood mean of
+    the same species (knots, slope of grain, the fifth percentile): C24 against clear Norway spruce."""
+    table = wood_table()
+    assert table["en338-c24"].mor < table["norway-spruce"].mor / 2.5
 
 
 @pytest.mark.parametrize("key", sorted(HANDBOOK))
