@@ -26,6 +26,21 @@ class SparFigures:
 
 
 @dataclass(frozen=True)
+class RegionTotal:
+    """One material region along the whole spar: its weight (kg), and what it adds to E·I (its E·I over the
+    wood's at the same station: staves and plug) at the station of least EI ratio and at most, least."""
+
+    kind: str
+    label: str
+    material: object
+    mass: float
+    ei_added_at_weakest: float
+    ei_added_least: float
+    ei_added_most: float
+    stations: int
+
+
+@dataclass(frozen=True)
 class Assessment:
     """Everything the check found: station by station and for the spar as a whole."""
 
@@ -33,6 +48,8 @@ class Assessment:
     stations: tuple[StationCheck, ...]
     plan: SparFigures
     hollow: SparFigures
+    regions: tuple[RegionTotal, ...] = ()
+    """Every material region along the spar (staves, plugs, each layer, each strip): weight, E·I added."""
 
     @property
     def head_load(self) -> float:
@@ -139,6 +156,47 @@ def _figures(spar: Spar, stretches, stiffness, load: float) -> SparFigures:
     )
 
 
+def _region_key(region) -> tuple[str, str, str]:
+    return (region.kind, region.label, getattr(region.material, "key", ""))
+
+
+def _wood_ei(regions) -> float:
+    return sum(regions.ei_of(r) for r in regions.regions if r.is_wood)
+
+
+def region_totals(stations: tuple[StationCheck, ...], stretches, hollow) -> tuple[RegionTotal, ...]:
+    """Per material region: mass along the spar (Simpson, per stretch) and E·I added at the stations."""
+    masses: dict[tuple[str, str, str], float] = {}
+    found: dict[tuple[str, str, str], object] = {}
+    for (z0, zm, z1), triple in zip(stretches, hollow):
+        per = [{_region_key(r): s.regions.mass_of(r) for r in s.regions.regions} for s in triple]
+        for key in set().union(*per):
+            f0, fm, f1 = (p.get(key, 0.0) for p in per)
+            masses[key] = masses.get(key, 0.0) + (z1 - z0) / 6 * (f0 + 4 * fm + f1)
+        for s in triple:
+            for r in s.regions.regions:
+                found.setdefault(_region_key(r), r)
+    weakest = min(stations, key=lambda c: c.ei_ratio)
+    out = []
+    for key, region in found.items():
+        added = []
+        at_weakest = 0.0
+        for c in stations:
+            regions = c.hollow.regions
+            here = [r for r in regions.regions if _region_key(r) == key]
+            if not here:
+                continue
+            share = regions.ei_of(here[0]) / _wood_ei(regions)
+            added.append(share)
+            if c is weakest:
+                at_weakest = share
+        out.append(RegionTotal(kind=region.kind, label=region.label, material=region.material,
+                               mass=masses.get(key, 0.0), ei_added_at_weakest=at_weakest,
+                               ei_added_least=min(added, default=0.0), ei_added_most=max(added, default=0.0),
+                               stations=len(added)))
+    return tuple(out)
+
+
 def assess(spar: Spar, marks: tuple[StationMark, ...] | None = None, cache: SectionCache | None = None) -> Assessment:
     """Check the resolved spar station by station and as a whole (``cache``: sections to share with the layout)."""
     cache = cache or SectionCache(spar)
@@ -151,4 +209,5 @@ def assess(spar: Spar, marks: tuple[StationMark, ...] | None = None, cache: Sect
         stations=checks,
         plan=_figures(spar, stretches, plan, spar.head_load),
         hollow=_figures(spar, stretches, hollow, spar.head_load),
+        regions=region_totals(checks, stretches, hollow),
     )

@@ -62,6 +62,7 @@ class Stiffness:
     form_factor: float = 1.0
     regions: RegionSection | None = None
     first_limit: Limit | None = None
+    limits: tuple[Limit, ...] = ()
     """For the hollow section: its material regions, and the one whose material reaches its limit first."""
 
 
@@ -84,7 +85,8 @@ def hollow_round(spar: Spar, regions: RegionSection) -> Stiffness:
     E·I is the transformed section's; the moment at rupture is the least at which any material reaches its
     limit, the wood's credited with the form factor of the wood's own shape (staves and plug).
     """
-    first = regions.first_limit(lambda r: form_factor(r.wood_shape_factor()))
+    limits = regions.limits(lambda r: form_factor(r.wood_shape_factor()))
+    first = min(limits, key=lambda limit: limit.moment)
     return Stiffness(
         inertia=regions.strength_ei / regions.reference,
         ei=regions.ei,
@@ -93,6 +95,7 @@ def hollow_round(spar: Spar, regions: RegionSection) -> Stiffness:
         form_factor=first.form_factor if first.region.is_wood else form_factor(regions.wood_shape_factor()),
         regions=regions,
         first_limit=first,
+        limits=limits,
     )
 
 

@@ -15,6 +15,7 @@ from .lumber import LumberOrder, Piece, order_lumber
 from .operations import Machining, StationSettings, blank_for, machining  # noqa: F401  (re-exported)
 from .plugs import PlugBlock, plug_blocks
 from .scarfs import ScarfAim, ScarfPlan, ScarfRules, aim_scarfs, segment_bounds
+from .sheathing import ClothItem, cloth_and_resin
 from .segments import Segment, make_segment
 from .staves import StavePlan, stave_plan
 
@@ -30,6 +31,7 @@ class Layout:
     machining: Machining
     lumber: LumberOrder
     scarf_aim: ScarfAim | None = None  # board feet with the slack-first scarfs and with the chosen ones
+    sheathing: tuple[ClothItem, ...] = ()  # cloth, tape and resin for the layers and strips
 
     @property
     def board_of(self) -> dict[str, str]:
@@ -87,7 +89,8 @@ def lay_out(spar: Spar, cache: SectionCache | None = None, step: Callable[[str],
         if choice.aim is None or lumber.board_feet <= choice.aim.board_feet + 1e-6 or scarfs is choice.slack_first:
             break
     return Layout(plan=plan, scarfs=scarfs, staves=staves, plugs=plug_blocks(spar, cache), machining=shop,
-                  lumber=lumber, scarf_aim=choice.aim if scarfs is choice.plan else None)
+                  lumber=lumber, scarf_aim=choice.aim if scarfs is choice.plan else None,
+                  sheathing=cloth_and_resin(spar, cache))
 
 
 def cut_and_order(spar: Spar, cache: SectionCache, base: StavePlan, scarfs: ScarfPlan, rules: ScarfRules,

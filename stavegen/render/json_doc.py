@@ -37,6 +37,29 @@ def _wood(wood: Wood) -> dict[str, Any]:
     }
 
 
+def _material(material) -> dict[str, Any]:
+    """A wood or a laminate, with the figures the check used and their source."""
+    if isinstance(material, Wood):
+        return {"family": "wood", **_wood(material), "basis": material.basis}
+    return {"family": "laminate", "key": material.key, "name": material.name, "E_mpa": material.moe,
+            "strength_mpa": material.strength, "density_kg_m3": material.density,
+            "ply_thickness_mm": material.ply_thickness, "fibre_g_m2": material.fibre_g_m2,
+            "resin_g_m2": material.resin_g_m2, "source": material.source}
+
+
+def _regions(check: StationCheck) -> list[dict[str, Any]]:
+    """One entry per material region of the station's section: E·I_Nmm2 of the station is the sum of E_mpa × I_mm4."""
+    regions = check.hollow.regions
+    if regions is None:
+        return []
+    return [{"material": r.material.key, "kind": r.kind, "label": r.label, "E_mpa": r.modulus,
+             "area_mm2": r.moments.area, "I_mm4": regions.inertia_of(r), "EI_Nmm2": regions.ei_of(r),
+             "EI_share": regions.ei_of(r) / regions.ei, "mass_kg_per_m": regions.mass_of(r) * 1000,
+             "outer_mm": r.reach, "pieces": r.pieces,
+             "limit_moment_Nmm": next((x.moment for x in check.hollow.limits if x.region is r), None)}
+            for r in regions.regions]
+
+
 def _station(check: StationCheck) -> dict[str, Any]:
     s = check.station
     sec = s.section
@@ -71,6 +94,12 @@ def _station(check: StationCheck) -> dict[str, Any]:
         "flat_wall_mm": sec.flat_wall,
         "glue_line_mm": sec.glue_line,
         "reasons": list(s.reasons),
+        "wood_od_mm": 2 * sec.radius,
+        "regions": _regions(check),
+        "first_limit": None if check.hollow.first_limit is None else {
+            "kind": check.hollow.first_limit.region.kind, "label": check.hollow.first_limit.region.label,
+            "material": check.hollow.first_limit.region.material.key,
+            "moment_Nmm": check.hollow.first_limit.moment},
     }
 
 
@@ -132,12 +161,29 @@ def document(design: Design) -> dict[str, Any]:
             "plan_euler_load_N": result.plan.euler_load,
             "hollow_euler_load_N": result.hollow.euler_load,
         },
+        "regions": [{"kind": t.kind, "label": t.label, "material": t.material.key, "mass_kg": t.mass,
+                     "ei_added_at_least_ei_ratio": t.ei_added_at_weakest, "ei_added_least": t.ei_added_least,
+                     "ei_added_most": t.ei_added_most, "stations": t.stations} for t in result.regions],
+        "layers": [{"material": layer.material.key, "plies": layer.plies, "thickness_mm": layer.thickness,
+                    "from_mm": layer.start, "to_mm": layer.end} for layer in hollow.layers],
+        "strips": [{"material": strip.material.key, "plies": strip.plies, "thickness_mm": strip.thickness,
+                    "width_mm": strip.width, "place": strip.place, "from_mm": strip.start, "to_mm": strip.end}
+                   for strip in hollow.strips],
+        "materials": {m.key: _material(m) for m in _materials_used(spar)},
         "warnings": list(design.warnings),
         "cautions": list(CAUTIONS),
     }
     if design.layout is not None:
         doc.update(_layout(design.layout, Figures(spar)))
     return doc
+
+
+def _materials_used(spar) -> list:
+    found = {}
+    for m in [spar.plan.wood, spar.hollow.wood, *(p.wood for p in spar.hollow.plugs),
+              *(x.material for x in spar.hollow.layers), *(x.material for x in spar.hollow.strips)]:
+        found.setdefault(m.key, m)
+    return list(found.values())
 
 
 def _segment(seg: Segment, board: str | None) -> dict[str, Any]:
@@ -182,6 +228,10 @@ def _layout(layout: Layout, fig: Figures) -> dict[str, Any]:
                    "head_across_corners_mm": p.head.across_corners, "volume_mm3": p.volume, "mass_kg": p.mass}
                   for p in layout.plugs],
         "machining": _machining(layout.machining, fig),
+        "sheathing": [{"kind": c.kind, "label": c.label, "material": c.material.key, "plies": c.plies,
+                       "from_mm": c.start, "to_mm": c.end, "net_area_m2": c.net_area, "piece_width_mm": c.piece_width,
+                       "pieces": c.pieces, "roll_width_mm": c.roll_width, "roll_length_m": c.roll_length,
+                       "roll_area_m2": c.roll_area, "resin_kg": c.resin} for c in layout.sheathing],
         "stock": _stock(layout.lumber),
         "scarf_aim": None if layout.scarf_aim is None else {
             "aimed": layout.scarf_aim.aimed, "board_feet": layout.scarf_aim.board_feet,

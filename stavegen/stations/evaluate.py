@@ -36,9 +36,9 @@ class Station:
     :func:`evaluate_stations`; None where a caller left it to :func:`regions_of`."""
 
 
-def _stave_shape(section) -> object:
-    """The finished staves as shapely polygons: each stave clipped by the round (a 720-sided polygon per
-    quarter turn: drawing and outside measurement only, the figures are exact)."""
+def _stave_shape(section, grooves: tuple[tuple[float, float, float], ...] = ()) -> object:
+    """The finished staves as one shapely polygon (touching faces merged on a 1e-6 mm grid), clipped by the
+    round drawn as a 720-sided polygon: for drawing and measuring, the figures being exact."""
     import shapely
     from shapely.geometry import Point, Polygon
 
@@ -46,15 +46,24 @@ def _stave_shape(section) -> object:
 
     disc = Point(0.0, 0.0).buffer(section.radius, quad_segs=180)
     ring = placed_ring(Polygon(section.stave_outline), section.staves, range(section.staves))
-    return shapely.MultiPolygon([p for p in shapely.intersection(ring, disc) if not p.is_empty])
+    staves = shapely.intersection(shapely.union_all(ring, grid_size=1e-6), disc, grid_size=1e-6)
+    for width, bottom, top in grooves:  # the strips let into grooves: (width, bottom, top) each
+        staves = shapely.difference(staves, _strip_shape(section.staves, width, bottom, top), grid_size=1e-6)
+    return staves
 
 
-def _bore_shape(section) -> object:
+def _bore_shape(section, strips: tuple[tuple[float, float, float], ...] = ()) -> object:
+    """The bore (a plug fills it), less the strips laid on the staves' inner faces ((width, bottom, top) each)."""
     from shapely.geometry import Polygon
 
     from ..section.properties import bore_ring
 
-    return Polygon(bore_ring(section.staves, section.inner_apothem))
+    import shapely
+
+    bore = Polygon(bore_ring(section.staves, section.inner_apothem))
+    for width, bottom, top in strips:
+        bore = shapely.difference(bore, _strip_shape(section.staves, width, bottom, top), grid_size=1e-6)
+    return bore.simplify(0) if strips else bore
 
 
 def _annulus_shape(inner: float, outer: float) -> object:
@@ -133,24 +142,28 @@ def regions_at(spar: Spar, section: Section, plug: Plug | None, z: float | None 
     n = section.staves
     wall, bore = isotropic(section.wall), isotropic(section.bore)
     strip_regions = []
+    in_bore, grooved = [], []
     for strip in (h.strips_at(z, spar.length) if z is not None else ()):
         bottom, top = strip_span(strip, n, section.radius, section.inner_apothem, where(spar, z), spar.units)
         ring = _rectangle_ring(n, strip.width, bottom, top)
         cut = _ring_abs_y(n, strip.width * (top - bottom), (top + bottom) / 2)
         if strip.place == "groove":
             wall, z_wall = wall - ring, z_wall - cut
+            grooved.append((strip.width, bottom, top))
         else:
             bore, z_bore = bore - ring, z_bore - cut
+            in_bore.append((strip.width, bottom, top))
         reach = math.hypot(strip.width / 2, top if strip.place != "groove" else top)
         strip_regions.append(Region(STRIP, strip.material, ring, reach, strip.material.moe,
                                     shape=partial(_strip_shape, n, strip.width, bottom, top), pieces=n,
-                                    label=f"strips, {strip.place}"))
+                                    label=f"strip {h.strips.index(strip) + 1}"))
     regions = [Region(STAVE, wood, wall, section.radius, h.lamination_factor * wood.moe,
-                      plastic=z_wall, shape=partial(_stave_shape, section) if exact else None,
-                      pieces=n if exact else 1)]
+                      plastic=z_wall, shape=partial(_stave_shape, section, tuple(grooved)) if exact else None,
+                      pieces=n if exact else 1, label="staves")]
     if plug is not None:
         regions.append(Region(PLUG, plug.wood, bore, section.bore_corner_radius, plug.wood.moe,
-                              plastic=z_bore, shape=partial(_bore_shape, section) if exact else None))
+                              plastic=z_bore, shape=partial(_bore_shape, section, tuple(in_bore)) if exact else None,
+                              label="plug"))
     regions += strip_regions
     inner = section.radius
     for k, layer in enumerate(h.layers):
