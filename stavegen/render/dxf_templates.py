@@ -164,7 +164,9 @@ def parts_on_boards(layout: Layout, clearance: Callable[[Segment], tuple[float, 
         for rip in board.rips:
             upper = top - rip.offset - edge
             for cut in rip.cuts:
-                seg = segments[cut.piece.label]
+                seg = segments.get(cut.piece.label)
+                if seg is None:  # a piece that is no stave segment (a spigot's layer): its own drawing shows it
+                    continue
                 out.append(Part(seg, (cut.offset, upper - max(y for _, y in seg.outline)), marks_outside=False))
         top -= board.size.width + 2 * gap
     return out
