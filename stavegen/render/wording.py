@@ -11,14 +11,12 @@ summary alike. Figures come straight from
 
 from __future__ import annotations
 
-from ..units import Way
-
 from dataclasses import dataclass
 from typing import TYPE_CHECKING
 
 from ..layout.machining import CutterSettings, Lean, SawPass
 from ..layout.operations import Step
-from ..units import MM_PER_FOOT, MM_PER_INCH, format_inches, format_tape
+from ..units import MM_PER_FOOT, MM_PER_INCH, Way, format_inches, format_tape
 from .figures import Figures
 
 if TYPE_CHECKING:  # for annotations only: the lumber solver loads scipy.optimize, which `check` never needs
