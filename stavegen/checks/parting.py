@@ -74,7 +74,7 @@ def polygon_spigot(wood, staves: int, apothem: float) -> Spigot:
     ring = tuple(bore_ring(staves, apothem))
     inertia = ring_moments(ring).polar / 2
     capacity = min(_polygon_capacity(Polygon(ring), inertia, turn, wood.mor) for turn in (0.0, math.pi / staves))
-    return Spigot(kind="wood-spigot", words=f"{wood.name} spigot, {staves} sides", inertia=inertia,
+    return Spigot(kind="wood-spigot", words=f"{wood.name} spigot", inertia=inertia,
                   ei=wood.moe * inertia, moment_capacity=capacity, bearing_width=2 * apothem, outside=2 * apothem,
                   ring=ring)
 

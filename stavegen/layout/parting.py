@@ -80,6 +80,9 @@ class JointLayout:
     bought_length: float | None  # a tube or a sleeve: the length to buy (mm); None for a wooden spigot
     plugs: tuple[PlugBlock, ...]
     steps: tuple[tuple[str, dict[str, float]], ...]
+    profile: tuple[tuple[float, float, float], ...] = ()
+    """(z, finished radius, half the bore across its flats), mm, from one diameter before the overlap to one past
+    it, at its ends and every change of taper: for drawing the joint."""
 
 
 def part_spans(spar: Spar, check: JointCheck) -> tuple[PartSpan, PartSpan]:
@@ -185,9 +188,17 @@ def _steps(spar: Spar, check: JointCheck, spigot: SpigotBlank | None,
     return tuple(steps)
 
 
+def _profile(spar: Spar, check: JointCheck, cache: SectionCache) -> tuple[tuple[float, float, float], ...]:
+    lo = max(0.0, check.at - check.overlap - check.spar_diameter)
+    hi = min(spar.length, check.at + check.overlap + check.spar_diameter)
+    knots = {lo, hi, check.at, check.at - check.overlap, check.at + check.overlap}
+    knots |= {z for z in spar.hollow.diameter.z if lo < z < hi} | {z for z in spar.hollow.wall.z if lo < z < hi}
+    return tuple((z, cache.at(z).radius, cache.at(z).inner_apothem) for z in sorted(knots))
+
+
 def joint_layout(spar: Spar, check: JointCheck, cache: SectionCache, first_plug: int) -> JointLayout:
     spigot = _spigot(spar, check, cache) if check.kind == "wood-spigot" else None
     plugs = plug_blocks(spar, cache, _joint_plugs(spar, check), first=first_plug)
     return JointLayout(check=check, parts=part_spans(spar, check), keep_clear=keep_clear(check), spigot=spigot,
                        bought_length=None if spigot is not None else 2 * check.overlap, plugs=plugs,
-                       steps=_steps(spar, check, spigot, plugs))
+                       steps=_steps(spar, check, spigot, plugs), profile=_profile(spar, check, cache))
