@@ -34,6 +34,7 @@ def _wood(wood: Wood) -> dict[str, Any]:
         "mor_mpa": wood.mor,
         "density_kg_m3": wood.density,
         "specific_gravity": wood.specific_gravity,
+        "compression_perp_mpa": wood.compression_perp,
         "source": wood.source,
     }
 
@@ -137,7 +138,8 @@ def document(design: Design) -> dict[str, Any]:
             "solved": list(design.solved),
         },
         "woods": {"plan": _wood(spar.plan.wood), "hollow": _wood(hollow.wood),
-                  "plugs": [_wood(p.wood) for p in hollow.plugs]},
+                  "plugs": [_wood(p.wood) for p in hollow.plugs],
+                  "spigot": _wood(spar.parting.wood) if spar.parting and spar.parting.wood else None},
         "stations": [_station(c) for c in result.stations],
         "joints": [_joint(j) for j in result.joints],
         "check": {
