@@ -700,7 +700,12 @@ def scarf_map(r: Report) -> list:
         d.add(Rect(X(a), bottom, X(b) - X(a), n * row_h, fillColor=shade, strokeColor=None))
         d.add(String((X(a) + X(b)) / 2, top + 3, "no scarf", fontName=FONT, fontSize=6.5, textAnchor="middle",
                      fillColor=FAIL_RED))
-    for z, words in ((0.0, "heel"), (spar.length, "head")):
+    for joint in lay.joints:  # a two-piece spar: the range kept clear of scarfs round the joint, the parting
+        a, b = joint.keep_clear
+        d.add(Rect(X(a), bottom, X(b) - X(a), n * row_h, fillColor=shade, strokeColor=None))
+        d.add(String((X(a) + X(b)) / 2, top + 3, "joint: no scarf", fontName=FONT, fontSize=6.5,
+                     textAnchor="middle", fillColor=FAIL_RED))
+    for z, words in ((0.0, "heel"), (spar.length, "head")) + tuple((j.check.at, "parting") for j in lay.joints):
         d.add(Line(X(z), bottom - 2, X(z), top + 2, strokeWidth=0.6, strokeDashArray=(2, 2)))
         d.add(String(X(z), top + 12, words, fontName=BOLD, fontSize=7, textAnchor="middle"))
     fills = (colors.Color(0.84, 0.89, 0.95), colors.Color(0.70, 0.80, 0.91))
