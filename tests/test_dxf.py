@@ -216,10 +216,11 @@ def check_templates(result, path: Path, dxf: DxfFile, on_boards: bool = False) -
                 worst = max(worst, abs(measured - w))
                 assert measured == pytest.approx(w, abs=WIDTH_TOLERANCE), (seg.label, z)
 
-    # Marks on their own layers: a tick line and its figures per station, a feather line per scarf end.
-    ticks = sum(len(seg.ticks) for seg in layout.segments)
-    assert len(dxf.on("MARK-STATIONS", "LINE")) == ticks
-    assert len(dxf.on("TEXT-STATIONS", "TEXT")) == (0 if on_boards else ticks)
+    # Marks on their own layers: a line per mark of the piece's template (the model the full-size PDF draws
+    # too) and the figures of its labelled marks, a feather line per scarf end.
+    marks = [m for seg in layout.segments for m in layout.template_of[seg.label].marks]
+    assert len(dxf.on("MARK-STATIONS", "LINE")) == len(marks)
+    assert len(dxf.on("TEXT-STATIONS", "TEXT")) == (0 if on_boards else sum(m.labelled for m in marks))
     assert len(dxf.on("MARK-SCARFS", "LINE")) == sum(len(seg.feather_lines) for seg in layout.segments)
     assert len(dxf.on("MARK-NOTCH-EDGE")) == len(dxf.on("MARK-SQUARE-EDGE")) == len(layout.segments)
     for line in dxf.on("MARK-SCARFS", "LINE"):

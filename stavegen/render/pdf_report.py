@@ -322,6 +322,8 @@ def station_table(r: Report) -> list:
             note.append("least EI")
         if c is least_strength:
             note.append("least strength")
+        if "parting" in s.reasons:
+            note.append("parting")
         rows.append([r.cell(s.z, "position"), r.cell(s.plan_diameter), r.cell(s.diameter, "dress"),
                      r.cell(s.wall, "dress"), r.cell(sec.stave_width, "mark-width"),
                      r.cell(_rough_width(r, s.z), "dress"),
