@@ -168,11 +168,21 @@ def test_a_tube_too_big_for_the_bore_fails():
     assert not j.passed and "does not fit the bore" in j.problem
 
 
-def test_json_joints_hold_the_promised_keys(tmp_path, run):
-    out = tmp_path / "out"
-    result = run(["build", SAMPLE, "-o", out])
+@pytest.fixture(scope="module")
+def built(tmp_path_factory):
+    """The sample built once: its folder and its JSON."""
+    from typer.testing import CliRunner
+
+    from stavegen.cli import app
+
+    out = tmp_path_factory.mktemp("two-piece")
+    result = CliRunner().invoke(app, ["build", str(SAMPLE), "-o", str(out)])
     assert result.exit_code == 0, result.output
-    doc = json.loads((out / "trailer-sloop-mast.json").read_text(encoding="utf-8"))
+    return out, json.loads((out / "trailer-sloop-mast.json").read_text(encoding="utf-8")), result.stdout
+
+
+def test_json_joints_hold_the_promised_keys(built, run):
+    out, doc, stdout = built
     joint = doc["joints"][0]
     promised = {"at_mm", "overlap_mm", "spigot_EI_Nmm2", "plan_EI_Nmm2", "bearing_mpa", "bearing_allowable_mpa",
                 "kink_deg", "passed"}
@@ -181,16 +191,60 @@ def test_json_joints_hold_the_promised_keys(tmp_path, run):
     assert joint["passed"] is True and doc["check"]["passed"] is True
     assert joint["bearing_mpa"] <= joint["bearing_allowable_mpa"]
     assert joint["spigot_EI_Nmm2"] >= joint["plan_EI_Nmm2"]
+    # The parting is a station of the check.
+    assert any(st["z_mm"] == pytest.approx(joint["at_mm"]) and "parting" in st["reasons"] for st in doc["stations"])
     # The spigot's layers are in the lumber order and on a board; the segments carry their part.
     pieces = [p["label"] for b in doc["stock"]["cutting"] for r in b["rips"] for p in r["pieces"]]
     assert any(p.startswith("SP-") for p in pieces)
     labels = [s["label"] for stave in doc["staves"] for s in stave["segments"]]
     assert labels and all(lab.startswith(("L-", "U-")) for lab in labels)
+    assert "joint" in stdout and "bearing binds" in " ".join(stdout.split())
     # A one-piece spar's JSON has an empty list.
-    one = tmp_path / "one.json"
     result = run(["check", SAMPLES / "daysailer-mast.toml", "--json"])
     assert json.loads(result.stdout)["joints"] == []
-    del one
+
+
+def test_report_has_a_page_for_the_joint(built):
+    """Read back with an independent PDF reader (pypdfium2): the joint's page, its verdict, the binding check and
+    the order of assembly; the cut list CSV ends with the spigot's pieces and the same steps."""
+    import pypdfium2 as pdfium
+
+    out, doc, _ = built
+    pdf = pdfium.PdfDocument(str(out / "trailer-sloop-mast-report.pdf"))
+    pages = [pdf[i].get_textpage().get_text_range() for i in range(len(pdf))]
+    joint_pages = [t for t in pages if "The joint at 15' 0\"" in t]
+    assert len(joint_pages) == 1
+    text = " ".join(joint_pages[0].split())
+    for words in ("PASS", "The check that binds: bearing", "Order of assembly", "Wood Handbook", "common practice",
+                  "lower part", "upper part", "glued", "slides", "M/L", "11 1/16\""):
+        assert words in text, words
+    csv = (out / "trailer-sloop-mast-cutlist.csv").read_text(encoding="utf-8")
+    tail = csv.split("joint: order of assembly")
+    assert len(tail) == 2 and "SP-1" in tail[0] and "Glue the spigot into the lower part" in tail[1]
+
+
+def test_dxf_spigot_outlines_are_the_bore_less_the_clearance(built):
+    """The spigot's outlines and the bore-fit gauges read back with ezdxf: regular octagons whose size across the
+    flats (4·area/perimeter for a regular polygon) is the bore's, less the clearance for the spigot."""
+    import ezdxf
+    from shapely.geometry import Polygon
+
+    out, doc, _ = built
+    msp = ezdxf.readfile(str(out / "trailer-sloop-mast-templates.dxf")).modelspace()
+    joint = doc["joints"][0]
+    bore = joint["bore_across_flats_mm"]
+    spigots = [Polygon([(x * IN, y * IN) for x, y, *_ in e.get_points()]) for e in msp.query('LWPOLYLINE[layer=="END-SPIGOT"]')]
+    gauges = [Polygon([(x * IN, y * IN) for x, y, *_ in e.get_points()]) for e in msp.query('LWPOLYLINE[layer=="END-FIT"]')]
+    assert len(spigots) == 3 and len(gauges) == 2
+    for poly in spigots:
+        assert len(poly.exterior.coords) - 1 == 8
+        assert 4 * poly.area / poly.length == pytest.approx(bore - 2 * joint["clearance_mm"], rel=1e-6)
+    for poly in gauges:
+        assert 4 * poly.area / poly.length == pytest.approx(bore, rel=1e-6)
+    texts = [e.dxf.text for e in msp.query("TEXT")]
+    assert any(t.startswith("SPIGOT, LOWER PART") for t in texts)
+    assert any(t.startswith("BORE FIT, UPPER PART") for t in texts)
+    assert any(t.startswith("U-S1-1: UPPER PART") for t in texts)
 
 
 # ------------------------------------------------------------------ the layout around the joint
