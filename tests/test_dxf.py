@@ -330,11 +330,14 @@ def test_build_writes_the_templates_with_the_other_outputs(run, tmp_path):
 def test_a_failing_template_writer_leaves_no_output(tmp_path, monkeypatch):
     result = design(load_spar(SAMPLES / "daysailer-mast.toml"), layout=True)
 
-    def broken(design, path):
-        Path(path).write_text("half a file")
-        raise RuntimeError("disk full")
+    class Broken:
+        """A template sheet whose writing fails half-way."""
 
-    monkeypatch.setattr(dxf_templates, "write_templates", broken)
+        def saveas(self, path):
+            Path(path).write_text("half a file")
+            raise RuntimeError("disk full")
+
+    monkeypatch.setattr(dxf_templates, "template_document", lambda design, place=None: Broken())
     with pytest.raises(RuntimeError):
         write_outputs(result, tmp_path)
     assert list(tmp_path.iterdir()) == []

@@ -618,13 +618,14 @@ def write_templates(design: Design, path: str | Path, place: Placer | None = Non
     template_document(design, place).saveas(Path(path))
 
 
-def cut_document(design: Design, place: Placer | None = None):
+def cut_document(design: Design, place: Placer | None = None, full=None):
     """The cut-only sheet: the template sheet with nothing but the outlines to cut (layer STAVE-CUT).
 
     For a CAM program that cannot switch layers off: the same placement, the
-    same outlines at the same coordinates, no marks, text or end views.
+    same outlines at the same coordinates, no marks, text or end views. ``full``:
+    the template sheet already made for ``design`` (else it is made here).
     """
-    full = template_document(design, place)
+    full = full if full is not None else template_document(design, place)
     doc = setup_document(design.spar.units)
     msp = doc.modelspace()
     pen = Pen(msp, design.spar.units)
@@ -640,3 +641,4 @@ def cut_document(design: Design, place: Placer | None = None):
 def write_cut_sheet(design: Design, path: str | Path, place: Placer | None = None) -> None:
     """Write the cut-only DXF sheet of ``design`` to ``path``."""
     cut_document(design, place).saveas(Path(path))
+
