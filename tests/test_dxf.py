@@ -188,7 +188,8 @@ def check_templates(result, path: Path, dxf: DxfFile, on_boards: bool = False) -
                 assert j == i, "two parts are closer than 10 mm"
 
     # Each outline carries its label inside it; match outlines to segments by label.
-    labels = [t for t in dxf.on("TEXT-LABELS", "TEXT") if re.fullmatch(r"S\d+-\d+", t.first(1))]
+    # a segment's label; a two-piece spar's are lettered with their part (L-S1-1, U-S1-1)
+    labels = [t for t in dxf.on("TEXT-LABELS", "TEXT") if re.fullmatch(r"(?:[LU]-)?S\d+-\d+", t.first(1))]
     by_label = {}
     for poly in polygons:
         inside = [t.first(1) for t in labels if poly.contains(shapely.Point(*[c * unit for c in t.anchor]))]
@@ -216,10 +217,11 @@ def check_templates(result, path: Path, dxf: DxfFile, on_boards: bool = False) -
                 worst = max(worst, abs(measured - w))
                 assert measured == pytest.approx(w, abs=WIDTH_TOLERANCE), (seg.label, z)
 
-    # Marks on their own layers: a tick line and its figures per station, a feather line per scarf end.
-    ticks = sum(len(seg.ticks) for seg in layout.segments)
-    assert len(dxf.on("MARK-STATIONS", "LINE")) == ticks
-    assert len(dxf.on("TEXT-STATIONS", "TEXT")) == (0 if on_boards else ticks)
+    # Marks on their own layers: a line per mark of the piece's template (the model the full-size PDF draws
+    # too) and the figures of its labelled marks, a feather line per scarf end.
+    marks = [m for seg in layout.segments for m in layout.template_of[seg.label].marks]
+    assert len(dxf.on("MARK-STATIONS", "LINE")) == len(marks)
+    assert len(dxf.on("TEXT-STATIONS", "TEXT")) == (0 if on_boards else sum(m.labelled for m in marks))
     assert len(dxf.on("MARK-SCARFS", "LINE")) == sum(len(seg.feather_lines) for seg in layout.segments)
     assert len(dxf.on("MARK-NOTCH-EDGE")) == len(dxf.on("MARK-SQUARE-EDGE")) == len(layout.segments)
     for line in dxf.on("MARK-SCARFS", "LINE"):
@@ -328,11 +330,14 @@ def test_build_writes_the_templates_with_the_other_outputs(run, tmp_path):
 def test_a_failing_template_writer_leaves_no_output(tmp_path, monkeypatch):
     result = design(load_spar(SAMPLES / "daysailer-mast.toml"), layout=True)
 
-    def broken(design, path):
-        Path(path).write_text("half a file")
-        raise RuntimeError("disk full")
+    class Broken:
+        """A template sheet whose writing fails half-way."""
 
-    monkeypatch.setattr(dxf_templates, "write_templates", broken)
+        def saveas(self, path):
+            Path(path).write_text("half a file")
+            raise RuntimeError("disk full")
+
+    monkeypatch.setattr(dxf_templates, "template_document", lambda design, place=None: Broken())
     with pytest.raises(RuntimeError):
         write_outputs(result, tmp_path)
     assert list(tmp_path.iterdir()) == []
@@ -396,7 +401,8 @@ def check_boards(result, dxf: DxfFile) -> None:
     assert sorted(by_id) == sorted(b["board"] for b in cutting)
 
     cut = [Polygon([(x * unit, y * unit) for x, y in e.points]) for e in dxf.on(CUT)]
-    labels = [t for t in dxf.on("TEXT-LABELS", "TEXT") if re.fullmatch(r"S\d+-\d+", t.first(1))]
+    # a segment's label; a two-piece spar's are lettered with their part (L-S1-1, U-S1-1)
+    labels = [t for t in dxf.on("TEXT-LABELS", "TEXT") if re.fullmatch(r"(?:[LU]-)?S\d+-\d+", t.first(1))]
     segment = {}
     for poly in cut:
         inside = [t.first(1) for t in labels if poly.contains(shapely.Point(*[c * unit for c in t.anchor]))]

@@ -55,6 +55,7 @@ _SETUP = {
     "materials.NAME": lambda d: d["materials"]["mine"],
     "stock": lambda d: d["stock"],
     "output": lambda d: d["output"],
+    "parting": lambda d: d.setdefault("parting", {"at": 1000}),
     "wood": lambda d: (d["hollow"].update(wood={"name": "Test wood", "moe": 11000, "mor": 80, "density": 450})
                        or d["hollow"]["wood"]),
 }
@@ -158,7 +159,8 @@ def test_starter_optional_values_and_blocks_load(units):
     mine = mine.replace("# [[hollow.strip]]", "[[hollow.strip]]")
     head, _, tail = mine.partition("[[hollow.layer]]")
     tail, _, materials = tail.partition("[materials.mine]")
-    tail = _uncomment(tail, {"material", "plies", "width"})
+    blocks, _, rest = tail.partition("\n[stock]")
+    tail = _uncomment(blocks, {"material", "plies", "width"}) + "\n[stock]" + rest
     materials = _uncomment(materials, {"E_mpa", "density_kg_m3", "strength_mpa", "ply_thickness"})
     mine = head + "[[hollow.layer]]" + tail + "[materials.mine]" + materials
     spar = parse_spar(tomllib.loads(mine), "s.toml")

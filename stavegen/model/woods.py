@@ -24,6 +24,9 @@ class Wood:
     density: float
     specific_gravity: float | None = None
     source: str = "defined in the spar file"
+    compression_perp: float | None = None
+    """Compression perpendicular to grain (fibre stress at the proportional limit), N/mm²: what a spigot or a
+    sleeve may press on the wood (:mod:`stavegen.checks.parting`); None when the file's own wood gives none."""
     basis: str = "clear"
     """What the figures are: "clear" (means of small clear specimens, the Wood Handbook's kind) or "EN 338"
     (characteristic values of a graded strength class, knots and all)."""
@@ -50,6 +53,7 @@ def wood_table() -> dict[str, Wood]:
             specific_gravity=row.get("specific_gravity"),
             source=row["source"],
             basis=row.get("basis", "clear"),
+            compression_perp=row["compression_perp_psi"] * MPA_PER_PSI if "compression_perp_psi" in row else None,
         )
         for key, row in rows.items()
     }

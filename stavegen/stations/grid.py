@@ -35,6 +35,8 @@ def station_marks(spar: Spar, extra: dict[str, list[float]] | None = None) -> tu
         found += [(plug.start, "plug"), (plug.end, "plug")]
     for reason, spans in (("layer", spar.hollow.layers), ("strip", spar.hollow.strips)):
         found += [(z, reason) for span in spans for z in (span.start, span.end) if z is not None]
+    if spar.parting is not None:  # a two-piece spar is checked, and marked across both parts, where it parts
+        found.append((spar.parting.at, "parting"))
     step = spar.output.mark_spacing
     k = 1
     while k * step < spar.length - MERGE_TOLERANCE:
