@@ -278,6 +278,27 @@ def format_mass(kg: float, units: str) -> str:
     return f"{kg / KG_PER_LB:.1f} lb" if units == "in" else f"{kg:.1f} kg"
 
 
+def format_thin(mm: float, units: str) -> str:
+    """A layer's or a ply's thickness, too thin for 32nds: ``0.010 in`` or ``0.25 mm``."""
+    return f"{mm / MM_PER_INCH:.3f} in" if units == "in" else f"{mm:.2f} mm"
+
+
+def format_small_mass(kg: float, units: str) -> str:
+    """Resin and cloth: ``1.17 lb`` or ``5.3 oz`` for inch files, ``530 g`` or ``1.27 kg`` for mm files."""
+    if units == "in":
+        lb = kg / KG_PER_LB
+        return f"{lb:.2f} lb" if lb >= 1 else f"{lb * 16:.1f} oz"
+    return f"{kg:.2f} kg" if kg >= 1 else f"{kg * 1000:.0f} g"
+
+
+SQ_FT_PER_M2 = 1 / (0.3048 * 0.3048)
+
+
+def format_cloth_area(m2: float, units: str) -> str:
+    """Cloth and tape: ``28.5 sq ft`` for inch files, ``2.65 m²`` for mm files."""
+    return f"{m2 * SQ_FT_PER_M2:.1f} sq ft" if units == "in" else f"{m2:.2f} m²"
+
+
 def format_force(newtons: float, units: str) -> str:
     """``1,234 lbf`` for inch files, ``5,490 N`` for mm files."""
     return f"{newtons / N_PER_LBF:,.0f} lbf" if units == "in" else f"{newtons:,.0f} N"

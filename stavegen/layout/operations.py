@@ -293,8 +293,21 @@ def steps(spar: Spar, plan: StavePlan, m: Machining) -> list[Step]:
                         (Figure("thickness", m.stave_thickness, "dress"),)))
     out.append(Step("dry fit", "Dry-fit the staves round the plugs (plugs table) with bands or hose clamps; number "
                                "the staves and mark the stations across them."))
+    if h.strips and any(strip.place == "inner-face" for strip in h.strips):
+        out.append(Step("strips", "Lay the reinforcing tape along the middle of each stave's inner face and let it "
+                                  "cure before the glue-up (sheathing and reinforcement table)."))
+    if h.strips and any(strip.place == "groove" for strip in h.strips):
+        out.append(Step("grooves", "Rout the groove along the middle of each stave's outer face and lay the tape "
+                                   "in it before the glue-up (sheathing and reinforcement table)."))
     out.append(Step("glue", "Glue up, following the glue maker's instructions; check the spar straight before the "
                             "glue sets."))
+    if h.layers:
+        out.append(Step("round", f"Plane the {h.staves}-sided spar to {2 * h.staves} sides, then {4 * h.staves}, "
+                                 "then round, to the wood's diameter at each station: the finished diameter less "
+                                 "twice the sheathing (JSON wood_od_mm; the section figure)."))
+        out.append(Step("sheathe", "Sheathe the spar in the cloth, ply by ply, as the sheathing table gives it, "
+                                   "following the resin maker's instructions."))
+        return out
     out.append(Step("round", f"Plane the {h.staves}-sided spar to {2 * h.staves} sides, then {4 * h.staves}, then "
                              "round, to the finished diameter at each station (station table)."))
     return out

@@ -418,10 +418,14 @@ def _check_bar(d: Drawing, x: float, y: float, r: Report, k: float) -> None:
     d.add(String(x + real * k + 4, y, f"{words} at this scale", fontName=FONT, fontSize=6.5))
 
 
+SHEATHING = colors.Color(0.55, 0.75, 0.55)  # glass and epoxy over the wood in the section figure
+
+
 def section_drawing(r: Report) -> list:
     a = r.design.assessment
     check: StationCheck = max(a.stations, key=lambda c: c.station.section.stave_width)
     sec: Section = check.station.section
+    regions = check.hollow.regions
     n = sec.staves
     R = sec.radius
     # The whole section, as large as the page allows up to 1:1; notes under it.
@@ -439,6 +443,12 @@ def section_drawing(r: Report) -> list:
         f"bore across flats {r.length(2 * sec.inner_apothem)}" + ("; plugged here (grey)" if check.station.plug else ""),
         f"scale {_scale_words(sa, sb)} when printed at 100 %",
     ]
+    sheath = check.station.diameter - 2 * R
+    if sheath > 1e-9:
+        notes[0] = (f"{n} staves, {sec.joint}; the wood rounded to {r.fig.dress(2 * R)}: the heavy circle (pale: wood "
+                    f"taken off in rounding); sheathing (green) to the finished OD {r.fig.dress(check.station.diameter)}")
+    if regions is not None and regions.of_kind("strip"):
+        notes.append("reinforcing strips in black")
     height = 2 * half + 24
     d = Drawing(r.width, height)
     cx, cy = r.width / 2, height - half - 4
@@ -447,6 +457,9 @@ def section_drawing(r: Report) -> list:
              for i in range(n)]
     for ring in rings:  # the glued-up staves, pale where rounding takes the wood off
         d.add(Polygon(ring, fillColor=PALE_WOOD, strokeColor=None))
+    layers = regions.of_kind("layer") if regions is not None else ()
+    for layer in reversed(layers):  # the sheathing over the rounded wood, outermost first
+        d.add(Circle(cx, cy, layer.reach * k, fillColor=SHEATHING, strokeColor=colors.black, strokeWidth=0.3))
     d.add(Circle(cx, cy, R * k, fillColor=WOOD, strokeColor=None))
     for ring in rings:
         d.add(Polygon(ring, fillColor=None, strokeColor=colors.Color(0.45, 0.35, 0.2), strokeWidth=0.4))
@@ -454,11 +467,16 @@ def section_drawing(r: Report) -> list:
     d.add(Polygon([v for x, y in bore for v in (cx + x * k, cy + y * k)],
                   fillColor=colors.Color(0.82, 0.82, 0.82) if check.station.plug else colors.white,
                   strokeColor=colors.Color(0.45, 0.35, 0.2), strokeWidth=0.4))
+    for strip in (regions.of_kind("strip") if regions is not None else ()):
+        for part in getattr(strip.geometry, "geoms", [strip.geometry]):
+            d.add(Polygon([v for x, y in part.exterior.coords for v in (cx + x * k, cy + y * k)],
+                          fillColor=colors.Color(0.15, 0.15, 0.15), strokeColor=None))
     d.add(Circle(cx, cy, R * k, fillColor=None, strokeColor=colors.black, strokeWidth=1.1))
     d.add(Line(cx - 4, cy, cx + 4, cy, strokeWidth=0.3))
     d.add(Line(cx, cy - 4, cx, cy + 4, strokeWidth=0.3))
     # OD across the centre, the wall through the top stave.
-    _dim(d, (cx - R * k, cy), (cx + R * k, cy), f"OD {r.fig.dress(2 * R)}", (cx - R * k / 2, cy + 4))
+    _dim(d, (cx - R * k, cy), (cx + R * k, cy), f"{'wood ' if sheath > 1e-9 else ''}OD {r.fig.dress(2 * R)}",
+         (cx - R * k / 2, cy + 4))
     _dim(d, (cx, cy + sec.inner_apothem * k), (cx, cy + sec.outer_apothem * k),
          f"stave {r.fig.dress(sec.thickness)}", (cx + 4, cy + (sec.inner_apothem + sec.outer_apothem) / 2 * k - 2.5),
          anchor="start")
@@ -778,6 +796,29 @@ def plugs(r: Report) -> list:
     return [CondPageBreak(90), r.h2("Plugs (solid blocking)"),
             r.p(r.t(f"Each plug is a tapered {n}-sided block filling the bore; the sizes are the bore's at each end, "
                     f"across its flats and across its corners."), "small"), Spacer(1, 4), table]
+
+
+def sheathing(r: Report) -> list:
+    """Sheathing layers and reinforcing strips: what each adds, and the cloth, tape and resin they take."""
+    from .wording import CLOTH_NOTE, REGION_NOTE, cloth_rows, region_rows
+
+    rows = region_rows(r.design)
+    if not rows:
+        return []
+    widths = [40, 22, 30, 36, 24, 18, 14]
+    scale = r.width / (sum(widths) * MM)
+    out = [CondPageBreak(60), r.h2("Sheathing and reinforcement"),
+           _table([[r.p(r.t(c), "cell") for c in row] for row in rows], widths=[w * MM * scale for w in widths]),
+           Spacer(1, 3), r.p(r.t(REGION_NOTE), "small")]
+    lay = r.layout
+    cloth = cloth_rows(r.spar, lay.sheathing) if lay is not None else []
+    if cloth:
+        widths = [16, 22, 52, 44, 20, 16]
+        scale = r.width / (sum(widths) * MM)
+        out += [Spacer(1, 6), _table([[r.p(r.t(c), "cell") for c in row] for row in cloth],
+                                     widths=[w * MM * scale for w in widths]),
+                Spacer(1, 3), r.p(r.t(CLOTH_NOTE), "small")]
+    return out
 
 
 # Board order and cutting diagrams ---------------------------------------------------------------------------
@@ -1163,8 +1204,8 @@ def _joint_drawing(r: Report, jl) -> Drawing:
 
 
 SECTIONS: tuple[Section_, ...] = (title_and_verdict, cautions, summary, station_table, section_drawing, ei_plot,
-                                  cut_list, board_order, scarf_map, order_of_operations, cutter_settings, plugs,
-                                  joint_page)
+                                  sheathing, cut_list, board_order, scarf_map, order_of_operations, cutter_settings,
+                                  plugs, joint_page)
 
 
 # Pages ---------------------------------------------------------------------------------------------------------

@@ -213,3 +213,84 @@ def joint_step_words(fig, joint) -> list[str]:
                 words[name] = fig.cut_length(mm)
         out.append(text.format(**words))
     return out
+
+
+# Sheathing layers and reinforcing strips -------------------------------------------------------------------------
+
+
+def _span_words(start, end, length: float, units: str) -> str:
+    from ..units import format_length
+
+    if start is None and end is None:
+        return "the whole spar"
+    lo = 0.0 if start is None else start
+    hi = length if end is None else end
+    return f"{format_length(lo, units, tape=True)} to {format_length(hi, units, tape=True)} from the heel"
+
+
+def region_rows(design) -> list[list[str]]:
+    """What each sheathing layer and reinforcing strip is and adds, one row each (a header first), for the
+    report and the terminal: the region, its material and plies, where it lies, what it adds to the wood's E·I
+    at the stations it covers (least to most, and at the station of least EI ratio) and its weight."""
+    from ..units import format_length, format_mass
+
+    spar, a = design.spar, design.assessment
+    units = spar.units
+    rows = [["", "material", "plies / thickness", "where", "adds to E·I", "at least EI ratio", "weight"]]
+    totals = {(t.kind, t.label): t for t in a.regions}
+    for k, layer in enumerate(spar.hollow.layers, start=1):
+        t = totals.get(("layer", f"layer {k}"))
+        rows.append(_region_row(f"layer {k} (sheathing)", layer, t, spar, units))
+    for k, strip in enumerate(spar.hollow.strips, start=1):
+        t = totals.get(("strip", f"strip {k}"))
+        where = "inner faces" if strip.place == "inner-face" else "grooves"
+        rows.append(_region_row(f"strip {k} ({format_length(strip.width, units)} wide, {where})", strip, t, spar,
+                                units))
+    return rows if len(rows) > 1 else []
+
+
+def _region_row(name: str, part, total, spar, units: str) -> list[str]:
+    from ..units import format_length, format_mass
+
+    from ..units import format_thin
+
+    plies = f"{part.plies} × {format_thin(part.thickness / part.plies, units)}" if part.plies else ""
+    thick = f"{plies} = {format_thin(part.thickness, units)}" if plies else format_thin(part.thickness, units)
+    if total is None or total.stations == 0:
+        return [name, part.material.key, thick, _span_words(part.start, part.end, spar.length, units),
+                "at no station", "", ""]
+    least, most = 100 * total.ei_added_least, 100 * total.ei_added_most
+    adds = f"+{least:.1f} %" if abs(most - least) < 0.05 else f"+{least:.1f} to +{most:.1f} %"
+    return [name, part.material.key, thick, _span_words(part.start, part.end, spar.length, units), adds,
+            f"+{100 * total.ei_added_at_weakest:.1f} %", format_mass(total.mass, units)]
+
+
+REGION_NOTE = ("What a layer or strip adds to E·I is its own E·I over the wood's (staves and plug) at the same "
+               "station, about the section's neutral axis; the finished diameter includes the layers, so the wood "
+               "under them is rounded that much smaller. The strength check takes the first material to reach its "
+               "limit.")
+
+
+def cloth_rows(spar, sheathing) -> list[list[str]]:
+    """Cloth, tape and resin to buy, one row per layer or strip (a header first)."""
+    from ..units import format_cloth_area, format_length, format_small_mass
+
+    units = spar.units
+    rows = [["", "material", "pieces", "cut from", "net area", "resin"]]
+    for c in sheathing:
+        if c.kind == "layer":
+            pieces = (f"{c.pieces} × {format_length(c.length, units, tape=True)} long, "
+                      f"{format_length(c.piece_width, units)} wide")
+        else:
+            pieces = f"{c.pieces} × {format_length(c.length, units, tape=True)} long"
+        roll = (f"{format_length(c.roll_length * 1000, units, tape=True)} of a {format_length(c.roll_width, units)} "
+                f"{'roll' if c.kind == 'layer' else 'tape'}" if c.roll_width else
+                format_length(c.roll_length * 1000, units, tape=True))
+        rows.append([c.label, c.material.key, pieces, roll, format_cloth_area(c.net_area, units),
+                     "" if c.resin is None else format_small_mass(c.resin, units)])
+    return rows if len(rows) > 1 else []
+
+
+CLOTH_NOTE = ("Net area: the cloth on the spar, each ply round the girth it is laid on; add the overlap and waste "
+              "you usually allow. Resin: the laminate's coverage (data file, from memory — verify) for wetting out "
+              "and filling, before sanding and varnish.")
