@@ -3,7 +3,7 @@
 Cloth: each ply of a layer wraps the spar at the radius it is laid on (the wood's rounded radius plus the
 plies under it), girth 2πr; its net area is ∫ 2πr dz over the layer's stretch, by Simpson's rule between
 the stations (exact where the diameter tapers linearly: the girth is linear in z). Plies are cut from the
-roll as lengthwise pieces the widest girth plus an overlap wide, as many side by side as the roll's width
+roll as lengthwise pieces the outermost ply's widest girth plus an overlap wide, as many side by side as the roll's width
 takes. Tape: one strip per stave per ply, the strip's width, its length, slit from tape the data's width. Resin: the laminate's coverage,
 grams per square metre of one ply (data file), times the net area. Lengths mm, areas m², masses kg.
 """
@@ -66,7 +66,7 @@ def cloth_and_resin(spar: Spar, cache: SectionCache) -> tuple[ClothItem, ...]:
             for z in (z0, zm, z1):
                 base = cache.at(z, cover=zm).radius + under
                 girths.append(sum(2 * math.pi * (base + (i + 0.5) * ply) for i in range(plies)))
-            widest = max(widest, max(girths) / plies)
+                widest = max(widest, 2 * math.pi * (base + (plies - 0.5) * ply))  # the outermost ply's girth
             area += (z1 - z0) / 6 * (girths[0] + 4 * girths[1] + girths[2])
         net = area / 1e6
         piece = widest + CLOTH_OVERLAP
