@@ -245,6 +245,21 @@ def woods(
 
 @app.command()
 @reports_errors
+def materials(
+    units: str = typer.Option("in", "--units", help='"in" for psi and lb/ft³, "mm" for MPa and kg/m³.'),
+) -> None:
+    """The built-in laminates for sheathing and reinforcing strips, with the source of every figure."""
+    from .model.materials import laminate_table
+    from .render.console import laminates_table
+    from .render.fit import fit
+
+    if units not in ("in", "mm"):
+        raise InputError(f'{units!r} is not "in" or "mm"', "--units")
+    _console().print(fit(laminates_table(list(laminate_table().values()), units)))
+
+
+@app.command()
+@reports_errors
 def init(
     path: Path = typer.Argument(..., help="Where to write the starter spar file.", show_default=False),
     units: str = typer.Option("in", "--units", help='"in" or "mm".'),

@@ -115,3 +115,11 @@ def test_carbon_makes_the_auto_wall_thinner_and_cloth_counts():
         spar = parse_spar(tomllib.loads(body), "t.toml")
         walls[name] = float(design(spar).spar.hollow.wall.largest)
     assert walls["all"] < walls["no strips"] < walls["bare"]
+
+
+def test_materials_command_lists_every_laminate_with_sources(run):
+    result = run(["materials", "--units", "mm"], env={"COLUMNS": "200"})
+    assert result.exit_code == 0
+    for key in laminate_table():
+        assert key in result.stdout
+    assert "CMH-17" in result.stdout and "verify" in result.stdout

@@ -286,6 +286,25 @@ def woods_table(woods: list[Wood], units: str) -> Table:
     return table
 
 
+def laminates_table(laminates: list, units: str) -> Table:
+    """The built-in laminates (sheathing cloth, reinforcing tape); each row's source a numbered note under it."""
+    from ..units import format_thin
+
+    stress = "psi" if units == "in" else "MPa"
+    system = "psi" if units == "in" else "mpa"
+    sources = list(dict.fromkeys(m.source for m in laminates))
+    notes = "\n".join(f"[{i + 1}] {text}" for i, text in enumerate(sources))
+    table = Table(title="Built-in laminates, as laid by hand", header_style="bold", title_justify="left",
+                  caption=notes, caption_justify="left")
+    for col in ("key", "laminate", f"E, {stress}", f"strength, {stress}", "density", "ply", "source"):
+        table.add_column(col, justify="left" if col in ("key", "laminate") else "right", no_wrap=col != "laminate")
+    for m in laminates:
+        density = f"{m.density / KG_M3_PER_LB_FT3:.1f} lb/ft³" if units == "in" else f"{m.density:.0f} kg/m³"
+        table.add_row(m.key, m.name, f"{stress_in(m.moe, system):,.0f}", f"{stress_in(m.strength, system):,.0f}",
+                      density, format_thin(m.ply_thickness, units), f"[{sources.index(m.source) + 1}]")
+    return table
+
+
 def candidates_table(spar: Spar, comparison) -> Table:
     """The stave counts side by side, the chosen one marked (sizing.count.Comparison)."""
     imperial = spar.units == "in"
