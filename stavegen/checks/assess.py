@@ -35,7 +35,7 @@ class RegionTotal:
     label: str
     material: object
     mass: float
-    ei_added_at_weakest: float
+    ei_added_at_weakest: float | None
     ei_added_least: float
     ei_added_most: float
     stations: int
@@ -189,7 +189,7 @@ def region_totals(stations: tuple[StationCheck, ...], stretches, hollow) -> tupl
     out = []
     for key, region in found.items():
         added = []
-        at_weakest = 0.0
+        at_weakest = None  # the region may not reach the station of least EI ratio
         for c in stations:
             regions = c.hollow.regions
             here = [r for r in regions.regions if _region_key(r) == key]

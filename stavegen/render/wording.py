@@ -262,7 +262,8 @@ def _region_row(name: str, part, total, spar, units: str) -> list[str]:
     least, most = 100 * total.ei_added_least, 100 * total.ei_added_most
     adds = f"+{least:.1f} %" if abs(most - least) < 0.05 else f"+{least:.1f} to +{most:.1f} %"
     return [name, part.material.key, thick, _span_words(part.start, part.end, spar.length, units), adds,
-            f"+{100 * total.ei_added_at_weakest:.1f} %", format_mass(total.mass, units)]
+            "not there" if total.ei_added_at_weakest is None else f"+{100 * total.ei_added_at_weakest:.1f} %",
+            format_mass(total.mass, units)]
 
 
 REGION_NOTE = ("What a layer or strip adds to E·I is its own E·I over the wood's (staves and plug) at the same "
