@@ -111,14 +111,19 @@ def section_svg(spar: Spar, station: Station) -> str:
                 f'stroke-width="{_num(line)}" stroke-dasharray="{_num(line * 6)} {_num(line * 4)}"/>')
     size = extent * 0.075
     fig = Figures(spar)
-    words = (f"{n} staves, OD {fig.dress(2 * sec.radius)}, wall {fig.dress(station.wall)}"
-             + (", plugged" if plug else ""))
+    sheathed = station.diameter - 2 * sec.radius > 1e-9
+    if sheathed:  # the sheathing over the rounded wood, to the finished diameter
+        body.append(f'<circle class="sheathing" cx="0" cy="0" r="{_num(station.diameter / 2)}" fill="none" '
+                    f'stroke="#4a8a4a" stroke-width="{_num(line * 1.6)}"/>')
+    words = (f"{n} staves, OD {fig.dress(station.diameter)}"
+             + (f" (wood {fig.dress(2 * sec.radius)}, sheathed)" if sheathed else "")
+             + f", wall {fig.dress(station.wall)}" + (", plugged" if plug else ""))
     body.append(_text(0, extent + size * 1.3, words, size))
     body.append(_text(0, extent + size * 2.6, f"plan (dashed): OD {format_length(station.plan_diameter, units)}",
                       size * 0.85, fill="#2563eb"))
     title = f"Section at {format_length(station.z, units, tape=True)} from the heel"
     return _svg((-extent, -extent, 2 * extent, 2 * extent + size * 3.2), body, title, "section-svg",
-                {"staves": str(n), "od-mm": _num(2 * sec.radius), "wall-mm": _num(station.wall),
+                {"staves": str(n), "od-mm": _num(station.diameter), "wall-mm": _num(station.wall),
                  "z-mm": _num(station.z)})
 
 
