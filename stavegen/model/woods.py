@@ -53,7 +53,8 @@ def wood_table() -> dict[str, Wood]:
             specific_gravity=row.get("specific_gravity"),
             source=row["source"],
             basis=row.get("basis", "clear"),
-            compression_perp=row["compression_perp_psi"] * MPA_PER_PSI if "compression_perp_psi" in row else None,
+            compression_perp=(row["compression_perp_psi"] * MPA_PER_PSI if "compression_perp_psi" in row
+                              else row.get("compression_perp_mpa")),
         )
         for key, row in rows.items()
     }
