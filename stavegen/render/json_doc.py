@@ -10,7 +10,7 @@ from typing import TYPE_CHECKING, Any
 
 from .. import __version__
 from ..cautions import CAUTIONS
-from ..checks.ratios import StationCheck
+from ..checks.ratios import ATHWARTSHIPS, DIRECTIONS, FORE_AFT, StationCheck
 from ..model.woods import Wood
 from ..pipeline import Design
 from .figures import Figures
@@ -71,6 +71,28 @@ def _station(check: StationCheck) -> dict[str, Any]:
         "flat_wall_mm": sec.flat_wall,
         "glue_line_mm": sec.glue_line,
         "reasons": list(s.reasons),
+        # both directions (equal pairs for a round); fore_aft resists bending in the fore-and-aft plane
+        "fore_aft_mm": s.fore_aft,
+        "athwartships_mm": s.athwart,
+        "plan_fore_aft_mm": s.plan_diameter,
+        "plan_athwartships_mm": s.plan_athwart,
+        "I_fore_aft_mm4": sec.inertia_fore_aft,
+        "I_athwartships_mm4": sec.inertia_athwartships,
+        "EI_fore_aft_Nmm2": check.hollow.ei_in(FORE_AFT),
+        "EI_athwartships_Nmm2": check.hollow.ei_in(ATHWARTSHIPS),
+        "plan_I_fore_aft_mm4": check.plan.inertia_in(FORE_AFT),
+        "plan_I_athwartships_mm4": check.plan.inertia_in(ATHWARTSHIPS),
+        "plan_EI_fore_aft_Nmm2": check.plan.ei_in(FORE_AFT),
+        "plan_EI_athwartships_Nmm2": check.plan.ei_in(ATHWARTSHIPS),
+        "ei_ratio_fore_aft": check.ei_ratio_in(FORE_AFT),
+        "ei_ratio_athwartships": check.ei_ratio_in(ATHWARTSHIPS),
+        "strength_ratio_fore_aft": check.strength_ratio_in(FORE_AFT),
+        "strength_ratio_athwartships": check.strength_ratio_in(ATHWARTSHIPS),
+        "ei_ok_fore_aft": check.ei_ok_in(FORE_AFT),
+        "ei_ok_athwartships": check.ei_ok_in(ATHWARTSHIPS),
+        "strength_ok_fore_aft": check.strength_ok_in(FORE_AFT),
+        "strength_ok_athwartships": check.strength_ok_in(ATHWARTSHIPS),
+        "stave_widths_mm": list(sec.widths),
     }
 
 
@@ -88,6 +110,9 @@ def document(design: Design) -> dict[str, Any]:
             "length_mm": spar.length,
             "staves": hollow.staves,
             "joint": hollow.joint.kind,
+            "shape": hollow.shape,
+            "plan_shape": spar.plan.shape,
+            "plan_corner_radius_mm": spar.plan.corner_radius,
             "units": spar.units,
             "source": spar.source,
             "taper": hollow.taper,
@@ -113,6 +138,14 @@ def document(design: Design) -> dict[str, Any]:
             "stiffness_met": result.stiffness_met,
             "strength_met": result.strength_met,
             "shortfalls": result.shortfalls(),
+            **{f"min_{what}_ratio_{way}{tail}": value
+               for way in DIRECTIONS
+               for what, weakest_in, ratio in (("ei", result.weakest_stiffness_in, "ei_ratio_in"),
+                                               ("strength", result.weakest_strength_in, "strength_ratio_in"))
+               for tail, value in (("", getattr(weakest_in(way), ratio)(way)),
+                                   ("_z_mm", weakest_in(way).station.z))},
+            **{f"{what}_met_{way}": all(getattr(c, ok)(way) for c in result.stations)
+               for way in DIRECTIONS for what, ok in (("stiffness", "ei_ok_in"), ("strength", "strength_ok_in"))},
         },
         "mass": {
             "hollow_kg": result.hollow.mass.mass,
@@ -131,6 +164,10 @@ def document(design: Design) -> dict[str, Any]:
             "hollow_tip_deflection_mm": result.hollow.tip_deflection,
             "plan_euler_load_N": result.plan.euler_load,
             "hollow_euler_load_N": result.hollow.euler_load,
+            "weaker_direction": result.hollow.direction or None,
+            **{f"{who}_{what}_{way}{unit}": figures.in_direction(way)[k]
+               for way in DIRECTIONS for who, figures in (("plan", result.plan), ("hollow", result.hollow))
+               for k, (what, unit) in enumerate((("tip_deflection", "_mm"), ("euler_load", "_N")))},
         },
         "warnings": list(design.warnings),
         "cautions": list(CAUTIONS),

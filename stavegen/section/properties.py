@@ -48,6 +48,30 @@ class Section:
     glue_line: float
     hollow_reach: float = 0.0
 
+    shape = "round"
+
+    @property
+    def fore_aft(self) -> float:
+        """The finished outside fore-and-aft (the diameter), mm."""
+        return 2 * self.radius
+
+    @property
+    def athwartships(self) -> float:
+        return 2 * self.radius
+
+    @property
+    def inertia_fore_aft(self) -> float:
+        return self.inertia
+
+    @property
+    def inertia_athwartships(self) -> float:
+        return self.inertia
+
+    @property
+    def widths(self) -> tuple[float, ...]:
+        """Every stave's width before the notch, mm (all the same in a round)."""
+        return (self.stave_width,) * self.staves
+
     @property
     def least_wall(self) -> float:
         """Thinnest wood over the hollow after rounding, mm: R less the farthest reach of the bore or any void."""

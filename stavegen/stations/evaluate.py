@@ -26,6 +26,22 @@ class Station:
     wall: float
     plug: Plug | None
     section: Section
+    plan_athwartships: float | None = None
+    """The plan's athwartships dimension (mm), for a plan that is not round; ``plan_diameter`` is then fore-and-aft."""
+    athwartships: float | None = None
+    """The hollow spar's athwartships dimension (mm), when it is oval; ``diameter`` is then fore-and-aft."""
+
+    @property
+    def fore_aft(self) -> float:
+        return self.diameter
+
+    @property
+    def athwart(self) -> float:
+        return self.athwartships if self.athwartships is not None else self.diameter
+
+    @property
+    def plan_athwart(self) -> float:
+        return self.plan_athwartships if self.plan_athwartships is not None else self.plan_diameter
 
 
 def where(spar: Spar, z: float) -> str:
@@ -79,6 +95,20 @@ def hollow_section(spar: Spar, radius: float, wall: float, at: str = "", thickne
     return evaluate_section(h.staves, h.joint, radius, t, h.planing_allowance + (t - wall), at, spar.units)
 
 
+def oval_section(spar: Spar, fore_aft: float, athwartships: float, wall: float, at: str = "",
+                 thickness: float | None = None):
+    """The oval section as the staves are built (see :func:`hollow_section`): finished outside
+    ``fore_aft`` × ``athwartships``, the file's ``wall`` there (mm)."""
+    from ..section.oval import evaluate_oval
+
+    h = spar.hollow
+    t = thickness if thickness is not None else stave_thickness(spar)
+    if t is None:
+        t = system(spar.units).on_grid(wall, Way.UP)
+    return evaluate_oval(h.staves, h.joint, fore_aft, athwartships, t, h.planing_allowance + (t - wall), at,
+                         spar.units)
+
+
 class SectionCache:
     """Sections keyed by (radius, wall): tapers often repeat the same section."""
 
@@ -94,6 +124,14 @@ class SectionCache:
         spar = self.spar
         radius = float(spar.hollow.diameter.at(z)) / 2
         wall = float(spar.hollow.wall.at(z))
+        if spar.hollow.two_axis:
+            athwartships = float(spar.hollow.athwartships.at(z))
+            key = (round(radius, 9), round(wall, 9), round(athwartships, 9))
+            section = self._cache.get(key)
+            if section is None:
+                section = oval_section(spar, 2 * radius, athwartships, wall, where(spar, z), self._thickness)
+                self._cache[key] = section
+            return section
         key = (round(radius, 9), round(wall, 9))
         section = self._cache.get(key)
         if section is None:
@@ -114,10 +152,13 @@ def evaluate_stations(spar: Spar, marks: tuple[StationMark, ...] | None = None,
             z=mark.z,
             reasons=mark.reasons,
             plan_diameter=float(spar.plan.diameter.at(mark.z)),
-            diameter=2 * section.radius,
+            diameter=section.fore_aft if spar.hollow.two_axis else 2 * section.radius,
             wall=float(spar.hollow.wall.at(mark.z)),
             plug=plug_at_station(spar, mark.z),
             section=section,
+            plan_athwartships=(float(spar.plan.athwartships.at(mark.z)) if spar.plan.athwartships is not None
+                               else None),
+            athwartships=section.athwartships if spar.hollow.two_axis else None,
         ))
     return tuple(stations)
 
