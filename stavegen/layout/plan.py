@@ -2,7 +2,7 @@
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 from types import SimpleNamespace
 from typing import Callable
 
@@ -16,7 +16,7 @@ from .operations import Machining, StationSettings, blank_for, machining  # noqa
 from .plugs import PlugBlock, plug_blocks
 from .scarfs import ScarfAim, ScarfPlan, ScarfRules, aim_scarfs, segment_bounds
 from .segments import Segment, make_segment
-from .staves import StavePlan, stave_plan
+from .staves import StavePlan, kind_count, kind_of_stave, stave_plan
 
 
 @dataclass(frozen=True)
@@ -30,6 +30,21 @@ class Layout:
     machining: Machining
     lumber: LumberOrder
     scarf_aim: ScarfAim | None = None  # board feet with the slack-first scarfs and with the chosen ones
+    plans: tuple[StavePlan, ...] = ()
+    """One plan for each kind of stave (an oval spar's staves differ); empty: ``plan`` serves every stave."""
+    kinds: tuple[int, ...] = ()
+    """The kind of each stave (index 0 = stave 1), into ``plans``."""
+
+    def plan_for(self, stave: int) -> StavePlan:
+        """The plan of stave number ``stave`` (from 1)."""
+        if not self.plans:
+            return self.plan
+        return self.plans[self.kinds[stave - 1]]
+
+    @property
+    def distinct(self) -> bool:
+        """True when the staves are not all the same (an oval spar)."""
+        return len(self.plans) > 1
 
     @property
     def board_of(self) -> dict[str, str]:
@@ -75,35 +90,41 @@ def lay_out(spar: Spar, cache: SectionCache | None = None, step: Callable[[str],
                          "(thickness, widths, lengths)", "stock", spar.source)
     cache = cache or SectionCache(spar)
     marks = station_marks(spar)
-    base = stave_plan(spar, marks, cache)
+    bases = tuple(stave_plan(spar, marks, cache, kind) for kind in range(kind_count(spar)))
+    base = max(bases, key=lambda p: p.widest().width)  # scarfs aimed on the widest stave's plan
     rules = scarf_rules(spar, base)
+    if len(bases) > 1:
+        rules = replace(rules, slope_factor=max(p.max_slope_factor() for p in bases))
     if step is not None:
         step("placing the scarfs for the boards")
     choice = aim_scarfs(base, spar.length, spar.hollow.staves, rules, spar.stock, rough=_rough_width(spar))
     for scarfs in dict.fromkeys((choice.plan, choice.slack_first)):
-        plan, staves, shop, lumber = cut_and_order(spar, cache, base, scarfs, rules, step)
+        plans, staves, shop, lumber = cut_and_order(spar, cache, base, scarfs, rules, step)
+        plan = plans[0]
         # the aimed scarfs were measured on the plan before its segments were cut: should the cut segments need
         # more than measured, the slack-first scarfs are laid out instead
         if choice.aim is None or lumber.board_feet <= choice.aim.board_feet + 1e-6 or scarfs is choice.slack_first:
             break
+    kinds = tuple(kind_of_stave(spar, k) for k in range(1, spar.hollow.staves + 1))
     return Layout(plan=plan, scarfs=scarfs, staves=staves, plugs=plug_blocks(spar, cache), machining=shop,
-                  lumber=lumber, scarf_aim=choice.aim if scarfs is choice.plan else None)
+                  lumber=lumber, scarf_aim=choice.aim if scarfs is choice.plan else None,
+                  plans=plans if len(plans) > 1 else (), kinds=kinds if len(plans) > 1 else ())
 
 
 def cut_and_order(spar: Spar, cache: SectionCache, base: StavePlan, scarfs: ScarfPlan, rules: ScarfRules,
                   step: Callable[[str], None] | None = None):
     """The segments of ``scarfs``, their cutter settings and the boards they are cut from:
-    (stave plan, staves, machining, lumber order)."""
-    plan, staves = _segments(spar, cache, base, scarfs, rules)
+    (stave plans, one for each kind of stave, staves, machining, lumber order)."""
+    plans, staves = _segments(spar, cache, base, scarfs, rules)
     if step is not None:
         step("working out the cutter settings")
-    shop = machining(spar, plan, staves, cache)
+    shop = machining(spar, plans[0], staves, cache, plans)
     if step is not None:
         step("ordering lumber")
     rough = {s.label: s.rough_width for s in shop.segments}
     pieces = [Piece(label=seg.label, stave=seg.stave, segment=seg.index, length=seg.length,
                     width=rough[seg.label], volume=seg.volume) for stave in staves for seg in stave]
-    return plan, staves, shop, order_lumber(pieces, spar.stock, units=spar.units)
+    return plans, staves, shop, order_lumber(pieces, spar.stock, units=spar.units)
 
 
 def _rough_width(spar: Spar) -> Callable[[float], float]:
@@ -112,17 +133,20 @@ def _rough_width(spar: Spar) -> Callable[[float], float]:
 
 
 def _segments(spar: Spar, cache: SectionCache, base: StavePlan, scarfs: ScarfPlan,
-              rules: ScarfRules) -> tuple[StavePlan, list[tuple[Segment, ...]]]:
-    """The stave plan with stations at every segment end and scarf, and each stave's segments."""
+              rules: ScarfRules) -> tuple[tuple[StavePlan, ...], list[tuple[Segment, ...]]]:
+    """The stave plans (one for each kind of stave) with stations at every segment end and scarf, and each
+    stave's segments, cut from its own kind's plan."""
     bounds = [segment_bounds(base.start, base.end, centres, rules.length) for centres in scarfs.centres]
     ends = sorted({z for stave in bounds for a, b in stave for z in (a, b) if 0 <= z <= spar.length})
     centres = sorted({c for stave in scarfs.centres for c in stave})
-    plan = stave_plan(spar, station_marks(spar, {"segment end": ends, "scarf": centres}), cache)
+    marks = station_marks(spar, {"segment end": ends, "scarf": centres})
+    plans = tuple(stave_plan(spar, marks, cache, kind) for kind in range(kind_count(spar)))
     staves = []
     for k, stave_bounds in enumerate(bounds, start=1):
         last = len(stave_bounds) - 1
+        plan = plans[kind_of_stave(spar, k)]
         staves.append(tuple(
             make_segment(plan, k, i + 1, a, b, scarf_at_start=i > 0, scarf_at_end=i < last,
                          scarf_length=rules.length)
             for i, (a, b) in enumerate(stave_bounds)))
-    return plan, tuple(staves)
+    return plans, tuple(staves)

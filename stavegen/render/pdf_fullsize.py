@@ -298,7 +298,7 @@ class _Painter:
 def _draw_template(p: _Painter, design: Design, place: Placement) -> None:
     t = place.template
     seg = t.segment
-    plan = design.layout.plan
+    plan = design.layout.plan_for(seg.stave)
     if not p.visible(place.left, place.right, place.top, place.bottom):
         return
     lo, hi = t.y_range

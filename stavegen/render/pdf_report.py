@@ -416,10 +416,79 @@ def _check_bar(d: Drawing, x: float, y: float, r: Report, k: float) -> None:
     d.add(String(x + real * k + 4, y, f"{words} at this scale", fontName=FONT, fontSize=6.5))
 
 
+def _oval_section_drawing(r: Report, check: StationCheck) -> list:
+    """An oval section: every stave (each kind its own width), the finished oval with its axes named, the bore."""
+    sec = check.station.section
+    n = sec.staves
+    a_mm, b_mm = sec.semi_axes
+    rings_mm = sec.placed_rings()
+    reach_mm = max(max(abs(x), abs(y)) for ring in rings_mm for x, y in ring)
+    sa, sb = _scale_for(2 * reach_mm, min(r.width / MM - 30, 150.0))
+    k = MM * sa / sb
+    half = reach_mm * k
+    kinds = ", ".join(f"{r.fig.mark_width(kind.width)} ({kind.count} staves: "
+                      f"{', '.join(str(m + 1) for m in kind.members)})" for kind in sec.kinds)
+    notes = [
+        f"{n} staves, {sec.joint}; finished {r.fig.dress(sec.fore_aft)} fore-and-aft by "
+        f"{r.fig.dress(sec.athwartships)} athwartships: the heavy oval (pale: wood taken off in rounding)",
+        f"stave widths before the notch, widest first: {kinds}; stave 1 faces athwartships, numbered "
+        f"counter-clockwise looking from the heel",
+        f"stave thickness {r.fig.dress(sec.thickness)}, wall {r.fig.dress(check.station.wall)}",
+        f"wall after rounding at least {r.fig.least(sec.least_wall)}",
+        f"across the flats before rounding {r.length(sec.across_flats)} fore-and-aft, "
+        f"{r.length(sec.across_flats_athwartships)} athwartships" + ("; plugged here (grey)" if check.station.plug
+                                                                     else ""),
+        f"scale {_scale_words(sa, sb)} when printed at 100 %",
+    ]
+    height = 2 * half + 30
+    d = Drawing(r.width, height)
+    cx, cy = r.width / 2, height - half - 8
+    rings = [[v for x, y in ring for v in (cx + x * k, cy + y * k)] for ring in rings_mm]
+    oval = [v for x, y in sec.finished_points(240) for v in (cx + x * k, cy + y * k)]
+    for ring in rings:
+        d.add(Polygon(ring, fillColor=PALE_WOOD, strokeColor=None))
+    d.add(Polygon(oval, fillColor=WOOD, strokeColor=None))
+    for ring in rings:
+        d.add(Polygon(ring, fillColor=None, strokeColor=colors.Color(0.45, 0.35, 0.2), strokeWidth=0.4))
+    d.add(Polygon([v for x, y in sec.bore_points() for v in (cx + x * k, cy + y * k)],
+                  fillColor=colors.Color(0.82, 0.82, 0.82) if check.station.plug else colors.white,
+                  strokeColor=colors.Color(0.45, 0.35, 0.2), strokeWidth=0.4))
+    d.add(Polygon(oval, fillColor=None, strokeColor=colors.black, strokeWidth=1.1))
+    for i, ring in enumerate(rings_mm):  # stave numbers on the outer faces
+        mx = sum(x for x, _ in ring) / len(ring)
+        my = sum(y for _, y in ring) / len(ring)
+        d.add(String(cx + mx * k, cy + my * k - 2, str(i + 1), fontName=FONT, fontSize=6, textAnchor="middle"))
+    axis = colors.Color(0.2, 0.3, 0.6)
+    d.add(Line(cx - half - 4, cy, cx + half + 4, cy, strokeWidth=0.4, strokeColor=axis, strokeDashArray=(4, 2)))
+    d.add(Line(cx, cy - half - 4, cx, cy + half + 4, strokeWidth=0.4, strokeColor=axis, strokeDashArray=(4, 2)))
+    d.add(String(cx + half + 6, cy - 2.5, "fore-and-aft", fontName=ITALIC, fontSize=7, fillColor=axis))
+    d.add(String(cx + 3, cy + half + 6, "athwartships", fontName=ITALIC, fontSize=7, fillColor=axis))
+    _dim(d, (cx - a_mm * k, cy - b_mm * k - 6), (cx + a_mm * k, cy - b_mm * k - 6),
+         f"fore-and-aft {r.fig.dress(sec.fore_aft)}", (cx, cy - b_mm * k - 15))
+    _check_bar(d, 0, 4, r, k)
+    half_rows = math.ceil(len(notes) / 2)
+    cells = [[r.p(r.t(notes[i]), "small"), r.p(r.t(notes[i + half_rows]), "small") if i + half_rows < len(notes)
+              else ""] for i in range(half_rows)]
+    table = Table(cells, colWidths=[r.width / 2] * 2, hAlign="LEFT")
+    table.setStyle(TableStyle([("LEFTPADDING", (0, 0), (-1, -1), 0), ("TOPPADDING", (0, 0), (-1, -1), 0.5),
+                               ("BOTTOMPADDING", (0, 0), (-1, -1), 0.5), ("VALIGN", (0, 0), (-1, -1), "TOP")]))
+    out = [CondPageBreak(height + 80),
+           r.h2(f"Section at the widest stave, {r.where(check.station.z)} from the heel"), d, Spacer(1, 4), table,
+           Spacer(1, 8)]
+    for kind in sec.kinds:
+        out.append(r.p(r.t(f"Stave {kind.members[0] + 1} (and {', '.join(str(m + 1) for m in kind.members[1:])}: "
+                           f"the same stave):"
+                           if kind.count > 1 else f"Stave {kind.members[0] + 1}:"), "small"))
+        out += _stave_detail(r, sec.kind_section(kind.index))
+    return out
+
+
 def section_drawing(r: Report) -> list:
     a = r.design.assessment
     check: StationCheck = max(a.stations, key=lambda c: c.station.section.stave_width)
     sec: Section = check.station.section
+    if sec.shape != "round":
+        return _oval_section_drawing(r, check)
     n = sec.staves
     R = sec.radius
     # The whole section, as large as the page allows up to 1:1; notes under it.

@@ -193,6 +193,20 @@ class OvalSection:
         return 2 * max(self.outer_apothems[k] for k in _facing(self.staves, math.pi / 2))
 
     @property
+    def bore_across_flats(self) -> float:
+        """The bore across its flats fore-and-aft, mm."""
+        return self.across_flats - 2 * self.thickness
+
+    @property
+    def bore_across_flats_athwartships(self) -> float:
+        return self.across_flats_athwartships - 2 * self.thickness
+
+    @property
+    def bore_corner_reach(self) -> float:
+        """The bore's farthest corner from the axis, mm."""
+        return max(math.hypot(x, y) for x, y in self.bore_outline)
+
+    @property
     def corner_wall(self) -> float:
         return self.least_wall
 
@@ -206,16 +220,33 @@ class OvalSection:
 
     @cached_property
     def kinds(self) -> tuple[StaveKind, ...]:
-        """The staves grouped by width (equal within :data:`SAME_WIDTH`), widest first."""
-        order = sorted(range(self.staves), key=lambda k: (-round(self.widths[k], 6), k))
-        groups: list[list[int]] = []
-        for k in order:
-            if groups and abs(self.widths[groups[-1][0]] - self.widths[k]) <= SAME_WIDTH:
-                groups[-1].append(k)
-            else:
-                groups.append([k])
-        return tuple(StaveKind(i, tuple(sorted(g)), self.widths[g[0]], self.outer_apothems[g[0]], self.frames[g[0]])
-                     for i, g in enumerate(groups))
+        """The staves grouped by symmetry about both axes (:func:`kind_of`): kind j holds stave j, 0 ≤ j ≤ N/4."""
+        return tuple(StaveKind(j, tuple(k for k in range(self.staves) if kind_of(self.staves, k) == j),
+                               self.widths[j], self.outer_apothems[j], self.frames[j])
+                     for j in range(kind_count(self.staves)))
+
+    def kind_section(self, j: int):
+        """Stave ``j``'s figures as a round section's stave in its own frame (x along the face, y outward):
+        what the stave plan and the cutter settings read (width, outer apothem, thickness, notch, frame)."""
+        from .properties import Section
+
+        local = _to_axis(self.outlines[j], math.pi / 2 - (normal_angle(self.staves, j) - math.pi / 2))
+        return Section(staves=self.staves, joint=self.joint, radius=self.radius, thickness=self.thickness,
+                       outer_apothem=self.outer_apothems[j], stave_width=self.widths[j], notch=self.notch,
+                       frame=self.frames[j], stave_outline=tuple(local), wall=Moments(), bore=Moments(),
+                       voids=Moments(), overlap=self.overlap, glue_line=self.glue_line)
+
+    def placed_rings(self) -> list[list[tuple[float, float]]]:
+        """Every stave in the axis frame, before rounding."""
+        return [list(o) for o in self.outlines]
+
+    def bore_points(self) -> list[tuple[float, float]]:
+        return list(self.bore_outline)
+
+    def finished_points(self, count: int = 360) -> list[tuple[float, float]]:
+        """Points on the finished ellipse (for drawings only; the figures use the true curve)."""
+        a, b = self.semi_axes
+        return [(a * math.cos(2 * math.pi * i / count), b * math.sin(2 * math.pi * i / count)) for i in range(count)]
 
     def stave_polygon(self, k: int = 0) -> Polygon:
         return Polygon(self.outlines[k])
@@ -252,6 +283,18 @@ class OvalSection:
         wall = sum(half(Polygon(o), True) for o in self.outlines)
         bore = half(Polygon(self.bore_outline), False)
         return wall, bore
+
+
+def kind_of(staves: int, k: int) -> int:
+    """Stave k's kind: the least of k, −k, N/2 − k, N/2 + k (mod N), the staves its mirror images about the
+    two axes fall on (the same width along the whole spar)."""
+    half = staves // 2
+    return min(k % staves, (-k) % staves, (half - k) % staves, (half + k) % staves)
+
+
+def kind_count(staves: int) -> int:
+    """How many kinds of stave an oval of N (even) staves has: N // 4 + 1."""
+    return staves // 4 + 1
 
 
 def _facing(staves: int, direction: float) -> list[int]:
@@ -365,8 +408,14 @@ def evaluate_oval(staves: int, joint: Joint, fore_aft: float, athwartships: floa
         ring = shapely.union_all(polys, grid_size=1e-6)
         hollow = shapely.Polygon(finished.exterior).difference(ring) if ring.is_valid else hollow
     least = float(finished.exterior.distance(hollow))
+    # the longest glued joint inside the finished oval (for glue estimates): the boundary two neighbours share
+    glue = 0.0
+    for k in range(staves):
+        shared = polys[k].boundary.intersection(polys[(k + 1) % staves].buffer(1e-6 * (a + b)))
+        glue = max(glue, float(shared.intersection(finished).length))
     return OvalSection(
         staves=staves, joint=joint.kind, fore_aft=fore_aft, athwartships=athwartships, thickness=t, notch=notch,
         outer_apothems=tuple(outer), widths=tuple(widths), frames=tuple(frames), outlines=tuple(outlines),
         bore_outline=tuple(bore_ring), wall=wall, bore=bore, voids=voids, overlap=overlap, least_wall=least,
+        glue_line=glue,
     )

@@ -68,6 +68,30 @@ class Section:
         return self.inertia
 
     @property
+    def kinds(self) -> tuple:
+        """One kind of stave: every stave of a round is the same."""
+        from .oval import StaveKind
+
+        return (StaveKind(0, tuple(range(self.staves)), self.stave_width, self.outer_apothem, self.frame),)
+
+    def kind_section(self, j: int = 0) -> "Section":
+        return self
+
+    def placed_rings(self) -> list[list[tuple[float, float]]]:
+        """Every stave in the axis frame, before rounding."""
+        from .staves import placed
+
+        polygon = self.stave_polygon()
+        return [list(placed(polygon, self.staves, k).exterior.coords)[:-1] for k in range(self.staves)]
+
+    def bore_points(self) -> list[tuple[float, float]]:
+        return bore_ring(self.staves, self.inner_apothem)
+
+    def finished_points(self, count: int = 360) -> list[tuple[float, float]]:
+        r = self.radius
+        return [(r * math.cos(2 * math.pi * i / count), r * math.sin(2 * math.pi * i / count)) for i in range(count)]
+
+    @property
     def widths(self) -> tuple[float, ...]:
         """Every stave's width before the notch, mm (all the same in a round)."""
         return (self.stave_width,) * self.staves
