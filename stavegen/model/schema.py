@@ -182,7 +182,7 @@ PLAN = Table("plan", "The solid spar drawn in the plans: the stiffness and stren
                               "dimension fore-and-aft and the one athwartships",
                       "rectangle": "a rectangle (a spar drawn square or as glued planks): each station gives "
                                    "`[position, fore_aft, athwartships]`; `corner_radius` rounds its corners"}),
-    Key("corner_radius", "length", "radius of a rectangle's rounded corners", default=0.0, zero_ok=True,
+    Key("corner_radius", "length", "radius of a rectangle's rounded corners", default=0, zero_ok=True,
         aside=_u('"3/8"', "10"), note="Only with `shape = \"rectangle\"`; less than half the smaller dimension."),
     Key("stations", "stations", "the plan's diameters (or dimensions), heel (0) to head (the spar's length)",
         example=_u('[[0, 3.5], ["5 ft", 3.5], ["12 ft", 3.0], ["16 ft", 2.0]]',
@@ -236,7 +236,7 @@ HOLLOW = Table("hollow", "The stave-built spar you will make.", required=True, s
     Key("notch", "table", "your cutter's notch, with joint = \"birdsmouth-custom\" (see [hollow.notch])",
         default=UNSET),
     Key("shape", "choice", "the shape of the hollow spar's section", default=Words("the plan's shape"),
-        choices=HOLLOW_SHAPES,
+        choices=HOLLOW_SHAPES, aside=_u('"oval"', '"oval"'),
         choice_notes={"round": "round, of identical staves",
                       "oval": "an ellipse, its stations `[position, fore_aft, athwartships]`: staves of unequal "
                               "widths round the polygon that rounds to the ellipse, each width from its own "
