@@ -419,6 +419,9 @@ def _hollow(t: _Table, units: str, length: float, plan: Plan) -> Hollow:
     if t.has("stations") and t.raw("stations") == AUTO:
         diameter, given = AUTO, False
         athwartships = AUTO if shape != "round" else None
+        if (shape == "round") != (plan.shape == "round"):
+            raise t.fail("stations", f'"auto" scales the plan\'s dimensions, but the plan is {plan.shape} and the '
+                                     f"hollow spar {shape}: give the hollow spar's stations")
     elif t.has("stations") and isinstance(t.raw("stations"), str):
         raise t.fail("stations", f"expected [[position, diameter], ...] or \"auto\", got {shown(t.raw('stations'))}")
     elif t.has("stations") and shape != "round":

@@ -377,7 +377,18 @@ def evaluate_oval(staves: int, joint: Joint, fore_aft: float, athwartships: floa
         frames.append(frame)
         widths.append(frame.width)
         outlines.append(tuple(_to_axis(list(poly.exterior.coords)[:-1], thetas[k])))
+    bore_ring = [_line_meet(normals[k], inner[k], normals[(k + 1) % staves], inner[(k + 1) % staves])
+                 for k in range(staves)]
+    # every inner face must keep a side of the bore: its corners in order round the axis, none crossed over
+    for k in range(staves):
+        u = (normals[k][1], -normals[k][0])
+        left, right = bore_ring[k], bore_ring[k - 1]
+        if (u[0] * (right[0] - left[0]) + u[1] * (right[1] - left[1])) <= 0:
+            raise DesignError(f"wall {show(t)} is too thick for the bore{at}: the narrow staves' inner faces "
+                              "cross over", "hollow.wall")
     polys = np.array([Polygon(o) for o in outlines], dtype=object)
+    if not all(p.is_valid for p in polys):
+        raise DesignError(f"the staves cannot be built{at}: a notch or bevel runs through a stave", key)
     overlap = 0.0
     for step in (1, 2):
         others = [polys[(k + step) % staves] for k in range(staves)]
@@ -385,8 +396,6 @@ def evaluate_oval(staves: int, joint: Joint, fore_aft: float, athwartships: floa
     if overlap > INTERFERENCE_TOLERANCE * min(shapely.area(polys)):
         raise DesignError(f"staves overlap by {{overlap}}{at}: the notch does not fit its neighbour", key,
                           figures={"overlap": area_figure(overlap)})
-    bore_ring = [_line_meet(normals[k], inner[k], normals[(k + 1) % staves], inner[(k + 1) % staves])
-                 for k in range(staves)]
     outside = max(math.hypot(x / a, y / b) for x, y in bore_ring)
     if outside >= 1.0:
         raise DesignError(f"rounding breaks into the bore{at}: the bore's corners reach past the finished oval "
@@ -419,3 +428,21 @@ def evaluate_oval(staves: int, joint: Joint, fore_aft: float, athwartships: floa
         bore_outline=tuple(bore_ring), wall=wall, bore=bore, voids=voids, overlap=overlap, least_wall=least,
         glue_line=glue,
     )
+
+
+def corner_reach(staves: int, fore_aft: float, athwartships: float, wall: float, allowance: float,
+                 keep: float = 0.0) -> float:
+    """How far out the bore's corners reach, as a share of the finished oval shrunk by ``keep`` (mm) all round:
+    the largest (x/(a − keep))² + (y/(b − keep))² over the corners of the staves' inner faces, whose lines lie
+    ``allowance − wall`` off the oval's tangents. Below 1 the rounding stays clear of the bore."""
+    a, b = fore_aft / 2 - keep, athwartships / 2 - keep
+    if a <= 0 or b <= 0:
+        return math.inf
+    thetas = [normal_angle(staves, k) for k in range(staves)]
+    normals = [(math.cos(t), math.sin(t)) for t in thetas]
+    inner = [support(fore_aft / 2, athwartships / 2, t) + allowance - wall for t in thetas]
+    worst = 0.0
+    for k in range(staves):
+        x, y = _line_meet(normals[k], inner[k], normals[(k + 1) % staves], inner[(k + 1) % staves])
+        worst = max(worst, (x / a) ** 2 + (y / b) ** 2)
+    return worst

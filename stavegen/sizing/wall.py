@@ -32,7 +32,7 @@ from ..errors import DesignError
 from ..model.spar import AUTO_TAPERED, Profile, Spar
 from ..units import format_exact, format_length, format_length_up
 from .roots import INSIDE, NOTCH, NOTCH_UPPER, UPPER, Miss, Window, common_windows, window
-from .targets import (Criterion, Point, check_at, closed_form_applies, closed_form_check_at, closed_form_checker,
+from .targets import (Criterion, Point, athwartships_share, check_at, closed_form_applies, closed_form_check_at, closed_form_checker,
                       closed_form_trusted, criteria_of, place, points_of, ratio_text)
 
 KEY = "hollow.wall"
@@ -54,13 +54,43 @@ class WallSolution:
     thickened: int = 0
 
 
-def wall_range(spar: Spar, radius: float) -> tuple[float, str, float]:
+def oval_wall_range(spar: Spar, z: float) -> tuple[float, str, float]:
+    """:func:`wall_range` for an oval at ``z``: the thinnest wall whose bore's corners stay inside the finished
+    oval (shrunk by hollow.min_corner_wall), found by brentq on the corners' reach, and just under the smaller
+    half-dimension."""
+    from scipy.optimize import brentq
+
+    from ..section.oval import corner_reach
+
+    h = spar.hollow
+    fore_aft = float(h.diameter.at(z))
+    athwartships = fore_aft * athwartships_share(spar, z)
+    corner = h.min_corner_wall or 0.0
+    thickest = min(fore_aft, athwartships) / 2 * (1 - 1e-9)
+
+    def excess(t: float) -> float:
+        return corner_reach(h.staves, fore_aft, athwartships, t, h.planing_allowance, corner) - 1.0
+
+    low = 1e-6
+    if excess(low) <= 0:
+        thinnest = low
+    elif excess(thickest) >= 0:
+        thinnest = thickest
+    else:
+        thinnest = brentq(excess, low, thickest, xtol=1e-12, rtol=1e-12) + BORE_CLEARANCE
+    return thinnest, (CORNER_MINIMUM if corner else BORE_CORNERS), thickest
+
+
+def wall_range(spar: Spar, radius: float, z: float | None = None) -> tuple[float, str, float]:
     """Thinnest wall (mm) a finished ``radius`` allows, what sets it, and the thickest (just under the radius).
 
     Thinnest: t ≥ R + p − (R − c_min)·cos(π/N) + clearance, from the bore's
-    corner radius a_i / cos(π/N) ≤ R − c_min (c_min = hollow.min_corner_wall or 0).
+    corner radius a_i / cos(π/N) ≤ R − c_min (c_min = hollow.min_corner_wall or 0). For an oval (``z``
+    given), :func:`oval_wall_range`.
     """
     h = spar.hollow
+    if h.two_axis and z is not None:
+        return oval_wall_range(spar, z)
     cos = math.cos(math.pi / h.staves)
     corner = h.min_corner_wall or 0.0
     thinnest = radius + h.planing_allowance - (radius - corner) * cos + BORE_CLEARANCE
@@ -77,7 +107,7 @@ def wall_window(spar: Spar, point: Point, criteria: tuple[Criterion, ...], trust
     ``trust``: search on the closed-form section from the start (see :func:`~.roots.window`).
     """
     radius = _radius(spar, point.z)
-    lo, lo_by, hi = wall_range(spar, radius)
+    lo, lo_by, hi = wall_range(spar, radius, point.z)
     if lo >= hi:
         return Window(lo, hi, lo_by, NO_BORE)
     quick = None
@@ -90,7 +120,7 @@ def wall_window(spar: Spar, point: Point, criteria: tuple[Criterion, ...], trust
 def _trusted(spar: Spar, criteria: tuple[Criterion, ...], point: Point) -> bool:
     """Whether the closed form agrees with the exact section at ``point``, mid-way through its range of walls."""
     radius = _radius(spar, point.z)
-    lo, _, hi = wall_range(spar, radius)
+    lo, _, hi = wall_range(spar, radius, point.z)
     return lo < hi and closed_form_trusted(spar, point, criteria, radius, (lo + hi) / 2)
 
 
@@ -98,7 +128,7 @@ def meets_wall(spar: Spar, point: Point, criteria: tuple[Criterion, ...], wall: 
     """Whether ``wall`` (mm) meets every criterion at ``point`` and lies in the range the round allows there
     (closed form for flush and bevel joints; every solved wall is checked again on the exact section)."""
     radius = _radius(spar, point.z)
-    lo, _, hi = wall_range(spar, radius)
+    lo, _, hi = wall_range(spar, radius, point.z)
     if not lo <= wall <= hi:
         return False
     try:
@@ -116,7 +146,7 @@ def _meets(spar: Spar, criteria: tuple[Criterion, ...]) -> Callable[[Point, floa
 
     def meets(point: Point, wall: float) -> bool:
         radius = _radius(spar, point.z)
-        lo, _, hi = wall_range(spar, radius)
+        lo, _, hi = wall_range(spar, radius, point.z)
         if not lo <= wall <= hi:
             return False
         key = (point.z, point.at_station)
