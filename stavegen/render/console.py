@@ -74,28 +74,25 @@ def station_table(design: Design) -> Table:
 
 
 def _two_axis_rows(design: Design, table: Table) -> Table:
-    """The station table of a spar that is not round: both dimensions, the stave widths' range, and the EI and
-    strength ratios fore-and-aft (f-a) and athwartships (ath)."""
+    """The station table of a spar that is not round: both dimensions, and the EI and strength ratios
+    fore-and-aft (f-a) and athwartships (ath); the staves' widths are in `section`, the cut list and the report."""
     from ..checks.ratios import ATHWARTSHIPS, FORE_AFT
 
     spar, result = design.spar, design.assessment
     fig = Figures(spar)
     weakest = result.weakest_stiffness
-    for col in ("from\nheel", "plan\nf-a x ath", "\nf-a x ath", "\nwall", "stave widths\nleast-most",
-                "EI ratio\nf-a", "EI ratio\nath", "strength\nf-a", "strength\nath"):
+    for col in ("from\nheel", "plan\nf-a x ath", "\nf-a x ath", "\nwall", "EI ratio\nf-a", "EI ratio\nath", "strength\nf-a", "strength\nath"):
         table.add_column(col, justify="right", no_wrap=True)
     table.add_column("\nplug", justify="center", no_wrap=True)
     table.add_column("", justify="left")
     for c in result.stations:
         s = c.station
-        sec = s.section
         short = [w for w, ok in (("EI", c.ei_ok), ("strength", c.strength_ok)) if not ok]
         style = "red" if short else ("bold yellow" if c is weakest else None)
         table.add_row(
             fig.position(s.z) if spar.units == "in" else f"{s.z:.0f} mm",
             f"{fig.describe(s.plan_diameter)} x {fig.describe(s.plan_athwart)}",
             f"{fig.dress(s.fore_aft)} x {fig.dress(s.athwart)}", fig.dress(s.wall),
-            f"{fig.mark_width(min(sec.widths))}-{fig.mark_width(max(sec.widths))}",
             f"{c.ei_ratio_in(FORE_AFT):.3f}", f"{c.ei_ratio_in(ATHWARTSHIPS):.3f}",
             f"{c.strength_ratio_in(FORE_AFT):.3f}", f"{c.strength_ratio_in(ATHWARTSHIPS):.3f}",
             "●" if s.plug else "",
