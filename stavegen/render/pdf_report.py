@@ -290,11 +290,13 @@ def _rough_width(r: Report, z: float) -> float | None:
     """The rough (rip) width the layout computed at station z, if the layout has that station."""
     if r.layout is None:
         return None
-    stations = r.layout.plan.stations  # heel to head: the first within the tolerance, found by bisection
-    i = bisect.bisect_left(stations, z - MERGE_TOLERANCE, key=lambda st: st.z)
-    if i < len(stations) and abs(stations[i].z - z) <= MERGE_TOLERANCE:
-        return stations[i].rough_width
-    return None
+    found = []
+    for plan in r.layout.plans or (r.layout.plan,):  # an oval's: the widest stave's
+        stations = plan.stations  # heel to head: the first within the tolerance, found by bisection
+        i = bisect.bisect_left(stations, z - MERGE_TOLERANCE, key=lambda st: st.z)
+        if i < len(stations) and abs(stations[i].z - z) <= MERGE_TOLERANCE:
+            found.append(stations[i].rough_width)
+    return max(found) if found else None
 
 
 STATION_ROWS_PER_TABLE = 200  # an even number: the stripes run on across blocks
@@ -306,6 +308,10 @@ def station_table(r: Report) -> list:
     u = r.unit_note
     head = [f"from heel{u}", "plan\nOD", "finished\nOD", "wall", "stave width\nfinished", "stave width\nrough",
             "notch\ndepth", "apex\nheight", "EI\nratio", "strength\nratio", "plug", "note"]
+    if a.two_axis:
+        head = [f"from heel{u}", "plan f-a\nx ath", "finished\nf-a x ath", "wall", "staves\nnarrowest to\nwidest",
+                "widest\nrough", "notch\ndepth", "apex\nheight", "EI ratio\nf-a / ath",
+                "strength\nf-a / ath", "plug", "note"]
     if u:
         head = [head[0]] + [h + (" (mm)" if 0 < i < 8 else "") for i, h in enumerate(head) if i > 0]
     rows: list[list[str]] = [head]
@@ -322,13 +328,27 @@ def station_table(r: Report) -> list:
             note.append("least EI")
         if c is least_strength:
             note.append("least strength")
-        rows.append([r.cell(s.z, "position"), r.cell(s.plan_diameter), r.cell(s.diameter, "dress"),
-                     r.cell(s.wall, "dress"), r.cell(sec.stave_width, "mark-width"),
-                     r.cell(_rough_width(r, s.z), "dress"),
-                     r.cell(sec.notch.depth if sec.notch else None, "notch-depth"),
-                     r.cell(sec.notch.apex_height if sec.notch else None, "apex-height"),
-                     f"{c.ei_ratio:.3f}", f"{c.strength_ratio:.3f}", "yes" if s.plug else "",
-                     "\n".join(note)])
+        if a.two_axis:  # both dimensions, the widest and narrowest stave, each ratio fore-and-aft / athwartships
+            from ..checks.ratios import ATHWARTSHIPS, FORE_AFT
+
+            rows.append([r.cell(s.z, "position"), f"{r.cell(s.plan_diameter)}\nx {r.cell(s.plan_athwart)}",
+                         f"{r.cell(s.fore_aft, 'dress')}\nx {r.cell(s.athwart, 'dress')}",
+                         r.cell(s.wall, "dress"),
+                         f"{r.cell(min(sec.widths), 'mark-width')} to\n{r.cell(max(sec.widths), 'mark-width')}",
+                         r.cell(_rough_width(r, s.z), "dress"),
+                         r.cell(sec.notch.depth if sec.notch else None, "notch-depth"),
+                         r.cell(sec.notch.apex_height if sec.notch else None, "apex-height"),
+                         f"{c.ei_ratio_in(FORE_AFT):.3f}\n{c.ei_ratio_in(ATHWARTSHIPS):.3f}",
+                         f"{c.strength_ratio_in(FORE_AFT):.3f}\n{c.strength_ratio_in(ATHWARTSHIPS):.3f}",
+                         "yes" if s.plug else "", "\n".join(note)])
+        else:
+            rows.append([r.cell(s.z, "position"), r.cell(s.plan_diameter), r.cell(s.diameter, "dress"),
+                         r.cell(s.wall, "dress"), r.cell(sec.stave_width, "mark-width"),
+                         r.cell(_rough_width(r, s.z), "dress"),
+                         r.cell(sec.notch.depth if sec.notch else None, "notch-depth"),
+                         r.cell(sec.notch.apex_height if sec.notch else None, "apex-height"),
+                         f"{c.ei_ratio:.3f}", f"{c.strength_ratio:.3f}", "yes" if s.plug else "",
+                         "\n".join(note)])
         if note:
             marks.append((i, not c.ok))
     widths = [18, 14, 15, 13, 17, 17, 14, 14, 12, 14, 9, 24]
@@ -685,25 +705,45 @@ def ei_plot(r: Report) -> list:
     unit, _ = _position_axis(r)
     ei_unit, ei_words = _ei_axis(r)
     z = [c.station.z / unit for c in a.stations]
-    plan = list(zip(z, [c.plan.ei / ei_unit for c in a.stations]))
-    hollow = list(zip(z, [c.hollow.ei / ei_unit for c in a.stations]))
-    ratio = list(zip(z, [c.ei_ratio for c in a.stations]))
     target = [(z[0], a.ei_target), (z[-1], a.ei_target)]
     bands = [(p.start / unit, p.end / unit, "plug") for p in r.spar.hollow.plugs]
     blue = colors.Color(0.1, 0.3, 0.7)
-    top = _plot(r, [(plan, colors.black, 1.2, (4, 2)), (hollow, blue, 1.4, None)], ei_words, 190, y_min=0,
-                bands=bands, legend=[("plan (solid)", colors.black, (4, 2)), ("hollow", blue, None)])
-    ratios = [v for _, v in ratio]
+    green = colors.Color(0.15, 0.5, 0.2)
+    if a.two_axis:
+        from ..checks.ratios import ATHWARTSHIPS, FORE_AFT
+
+        ways = ((FORE_AFT, "fore-and-aft", blue), (ATHWARTSHIPS, "athwartships", green))
+        lines, legend, ratio_lines, ratio_legend = [], [], [], []
+        for way, words, colour in ways:
+            lines += [(list(zip(z, [c.plan.ei_in(way) / ei_unit for c in a.stations])), colour, 1.0, (4, 2)),
+                      (list(zip(z, [c.hollow.ei_in(way) / ei_unit for c in a.stations])), colour, 1.4, None)]
+            legend += [(f"plan {words}", colour, (4, 2)), (f"hollow {words}", colour, None)]
+            ratio_lines.append((list(zip(z, [c.ei_ratio_in(way) for c in a.stations])), colour, 1.4, None))
+            ratio_legend.append((words, colour, None))
+        ratios = [v for line in ratio_lines for _, v in line[0]]
+        words = ("E·I of the plan's solid spar (dashed) and of the hollow spar fore-and-aft and athwartships at "
+                 "every station; below, the ratio in each direction against the target. Plugged stretches are "
+                 "shaded.")
+    else:
+        plan = list(zip(z, [c.plan.ei / ei_unit for c in a.stations]))
+        hollow = list(zip(z, [c.hollow.ei / ei_unit for c in a.stations]))
+        ratio = list(zip(z, [c.ei_ratio for c in a.stations]))
+        lines = [(plan, colors.black, 1.2, (4, 2)), (hollow, blue, 1.4, None)]
+        legend = [("plan (solid)", colors.black, (4, 2)), ("hollow", blue, None)]
+        ratio_lines, ratio_legend = [(ratio, blue, 1.4, None)], [("ratio", blue, None)]
+        ratios = [v for _, v in ratio]
+        words = ("E·I of the plan's solid spar and of the hollow spar at every station; below, their ratio "
+                 "against the target. Plugged stretches are shaded; a plug stiffens the spar where it fills "
+                 "the bore.")
+    top = _plot(r, lines, ei_words, 190, y_min=0, bands=bands, legend=legend)
     lo = min(min(ratios), a.ei_target, 1.0)
     hi = max(max(ratios), a.ei_target)
     pad = 0.05 * (hi - lo or 1)
-    series = [(ratio, blue, 1.4, None), (target, FAIL_RED, 1.0, (3, 2))]
+    series = ratio_lines + [(target, FAIL_RED, 1.0, (3, 2))]
     bottom = _plot(r, series, "E·I ratio, hollow / plan", 170, y_min=lo - pad, y_max=hi + pad, bands=bands,
-                   legend=[("ratio", blue, None), (f"target {a.ei_target:.3f}", FAIL_RED, (3, 2))])
-    return [CondPageBreak(420), r.h2("Stiffness along the spar"),
-            r.p(r.t("E·I of the plan's solid spar and of the hollow spar at every station; below, their ratio "
-                    "against the target. Plugged stretches are shaded; a plug stiffens the spar where it fills "
-                    "the bore."), "small"), top, Spacer(1, 6), bottom]
+                   legend=ratio_legend + [(f"target {a.ei_target:.3f}", FAIL_RED, (3, 2))])
+    return [CondPageBreak(420), r.h2("Stiffness along the spar"), r.p(r.t(words), "small"), top, Spacer(1, 6),
+            bottom]
 
 
 # Cut list, scarf map, plugs --------------------------------------------------------------------------------------
