@@ -550,8 +550,8 @@ def _diameters(value: Any, units: str, key: str, length: float, shape: str = "ro
     if shape == "round" and isinstance(value, list):
         for i, pair in enumerate(value):
             if isinstance(pair, list) and len(pair) == 3:
-                raise InputError("three figures at a station need shape = \"oval\" (or \"rectangle\" in the "
-                                 "plan); a round station is [position, diameter]", f"{key}[{i + 1}]")
+                raise InputError("expected [position, diameter] for a round spar; three figures at a station "
+                                 "need shape = \"oval\" (or \"rectangle\" in the plan)", f"{key}[{i + 1}]")
     profile = _profile(value, units, key, length, "diameter", whole_length=True)
     for here, jump, said in _jumps(profile, key, units):
         if jump >= DIAMETER_JUMP_REFUSED:

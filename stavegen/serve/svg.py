@@ -168,9 +168,19 @@ def stave_svg(spar: Spar, sec: Section) -> str:
     """One stave's cross-section at the station, outer face up: the engine's polygon, the wood left after
     rounding shaded, and its width, thickness and notch dimensioned."""
     fig = Figures(spar)
+    if sec.shape != "round":  # an oval: its widest stave, in its own frame, the oval turned with it
+        from shapely.affinity import rotate
+
+        from ..section.oval import normal_angle
+
+        j = max(sec.kinds, key=lambda kind: kind.width).index
+        turn = math.degrees(normal_angle(sec.staves, j)) - 90.0
+        disc = rotate(Polygon(sec.finished_points(4 * ROUND_QUADS * 4)), -turn, origin=(0.0, 0.0))
+        sec = sec.kind_section(j)
+    else:
+        disc = Point(0.0, 0.0).buffer(sec.radius, quad_segs=ROUND_QUADS)
     frame = sec.frame
     polygon = sec.stave_polygon()
-    disc = Point(0.0, 0.0).buffer(sec.radius, quad_segs=ROUND_QUADS)
     finished = disc.intersection(polygon)
     minx, miny, maxx, maxy = polygon.bounds
     w, t = maxx - minx, maxy - miny
