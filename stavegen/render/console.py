@@ -127,6 +127,17 @@ def spar_table(design: Design) -> Table:
         ("Euler load, heel fixed, head free", format_force(r.plan.euler_load, spar.units),
          format_force(r.hollow.euler_load, spar.units), r.compared("euler")),
     ]
+    if r.hollow.direction:  # a spar that is not round: the beam figures are the weaker direction's, then the other
+        from ..checks.ratios import ATHWARTSHIPS, FORE_AFT
+
+        words = {FORE_AFT: "fore-and-aft", ATHWARTSHIPS: "athwartships"}
+        weak = r.hollow.direction
+        other = ATHWARTSHIPS if weak == FORE_AFT else FORE_AFT
+        rows = rows[:2] + [(label + f", {words[weak]} (the weaker way)", a, b, ratio) for label, a, b, ratio in rows[2:]]
+        pd, pe = r.plan.in_direction(other)
+        hd, he = r.hollow.in_direction(other)
+        rows += [(f"head deflection, {words[other]}", fig.describe(pd), fig.describe(hd), hd / pd),
+                 (f"Euler load, {words[other]}", format_force(pe, spar.units), format_force(he, spar.units), he / pe)]
     for label, a, b, ratio in rows:
         table.add_row(label, a, b, f"{ratio:.3f}")
     return table

@@ -266,6 +266,19 @@ def summary(r: Report) -> list:
         ["Euler load, heel fixed, head free", format_force(a.plan.euler_load, units),
          format_force(a.hollow.euler_load, units), f"{a.compared('euler'):.3f}"],
     ]
+    if a.hollow.direction:  # not round: the beam figures above are the weaker direction's; the other way after
+        from ..checks.ratios import ATHWARTSHIPS, FORE_AFT
+
+        words = {FORE_AFT: "fore-and-aft", ATHWARTSHIPS: "athwartships"}
+        weak = a.hollow.direction
+        other = ATHWARTSHIPS if weak == FORE_AFT else FORE_AFT
+        for row in whole[3:]:
+            row[0] += f", {words[weak]} (the weaker way)"
+        pd, pe = a.plan.in_direction(other)
+        hd, he = a.hollow.in_direction(other)
+        whole += [[f"head deflection, {words[other]}", r.length(pd), r.length(hd), f"{hd / pd:.3f}"],
+                  [f"Euler load, {words[other]}", format_force(pe, units), format_force(he, units),
+                   f"{he / pe:.3f}"]]
     saving = (f"Weight saved: {format_mass(saved, units)} ({100 * a.weight_saved_share:.0f} % of the plan's)."
               if saved >= 0 else f"The hollow spar is {format_mass(-saved, units)} heavier than the plan.")
     load_note = (f"The head load, {load_words}, is the one the spar file names (spar.head_load)"
