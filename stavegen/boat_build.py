@@ -65,9 +65,10 @@ def write_boat_outputs(bd: BoatDesign, folder: Path, step: Callable[[str], None]
             out.add(names[f"{bs.tag}:fullsize"], lambda p, d=d: write_fullsize(d, p))
             tell(names[f"{bs.tag}:templates"])
             view = bd.spar_view(i)
-            out.add(names[f"{bs.tag}:templates"], lambda p, v=view: dxf_templates.write_templates(v, p))
+            sheet = dxf_templates.template_document(view)  # drawn once: the cut-only sheet is read off it
+            out.add(names[f"{bs.tag}:templates"], lambda p, sh=sheet: sh.saveas(p))
             tell(names[f"{bs.tag}:cut"])
-            out.add(names[f"{bs.tag}:cut"], lambda p, v=view: dxf_templates.write_cut_sheet(v, p))
+            out.add(names[f"{bs.tag}:cut"], lambda p, v=view, sh=sheet: dxf_templates.cut_document(v, full=sh).saveas(p))
         return out.commit()
 
 

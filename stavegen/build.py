@@ -42,9 +42,10 @@ def write_outputs(result: Design, folder: Path, step: Callable[[str], None] | No
         tell(names["fullsize"])
         out.add(names["fullsize"], lambda p: write_fullsize(result, p))
         tell(names["templates"])
-        out.add(names["templates"], lambda p: dxf_templates.write_templates(result, p))
+        sheet = dxf_templates.template_document(result)  # drawn once: the cut-only sheet is read off it
+        out.add(names["templates"], lambda p: sheet.saveas(p))
         tell(names["cut"])
-        out.add(names["cut"], lambda p: dxf_templates.write_cut_sheet(result, p))
+        out.add(names["cut"], lambda p: dxf_templates.cut_document(result, full=sheet).saveas(p))
         return out.commit()
 
 

@@ -288,7 +288,7 @@ def build(
 @app.command()
 @reports_errors
 def serve(
-    spar: Optional[Path] = typer.Argument(None, help="The spar file (TOML) to open; none opens the bundled example.",
+    spar: Optional[Path] = typer.Argument(None, help="The spar file or boat file (TOML) to open; none opens a spar of the bundled example.",
                                           show_default=False),
     port: int = typer.Option(8471, "--port", help="Port to serve on (0: any free port)."),
     host: str = typer.Option("127.0.0.1", "--host", help="Address to serve on; anything but the loopback "

@@ -316,3 +316,96 @@ def test_serve_command_binds_loopback_and_warns_for_other_hosts(monkeypatch, run
     result = run(["serve", SAMPLES / "no-such-file.toml", "--no-browser"])
     assert result.exit_code == 2
     assert cli_message(result).endswith("no-such-file.toml: no such file")
+
+
+# ---- a boat: its file and its spar files sent as text ------------------------------------------------------------
+
+BOAT_FILES = sorted(p for p in SAMPLES.glob("*.toml") if "boat" in tomllib.loads(p.read_text(encoding="utf-8")))
+
+
+def boat_request(path: Path, **changed: str) -> dict:
+    """What the page sends for the boat file at ``path``: its text and its spar files' texts by their names."""
+    from stavegen.serve.app import boat_texts
+
+    texts = boat_texts(path)
+    return {"boat": texts["text"], "spars": {**texts["spars"], **changed}}
+
+
+def without_sources(value):
+    """JSON without its "source" keys: the page names each file by its name, the command line by its path."""
+    if isinstance(value, dict):
+        return {k: without_sources(v) for k, v in value.items() if k != "source"}
+    if isinstance(value, list):
+        return [without_sources(v) for v in value]
+    return value
+
+
+@pytest.mark.parametrize("path", BOAT_FILES, ids=[p.stem for p in BOAT_FILES])
+def test_boat_check_json_equals_cli(path, client, run):
+    assert BOAT_FILES, "the samples hold boats"
+    result = run(["check", path, "--json"])
+    assert result.exit_code in (0, 1), result.stderr
+    answer = client.post("/api/boat/check", params={"name": path.name}, json=boat_request(path))
+    assert answer.status_code == 200, answer.text
+    assert without_sources(answer.json()) == without_sources(json.loads(result.stdout))
+
+
+def test_boat_build_zip_holds_what_the_cli_writes(client, run, tmp_path):
+    path = SAMPLES / "daysailer.toml"
+    out = tmp_path / "cli"
+    result = run(["build", path, "-o", out])
+    assert result.exit_code in (0, 1), result.stderr
+    answer = client.post("/api/boat/build", params={"name": path.name}, json=boat_request(path))
+    assert answer.status_code == 200, answer.text
+    archive = zipfile.ZipFile(io.BytesIO(answer.content))
+    written = sorted(p.name for p in out.iterdir())
+    assert sorted(archive.namelist()) == written
+    name = next(n for n in written if n.endswith(".json"))
+    assert without_sources(json.loads(archive.read(name))) == \
+        without_sources(json.loads((out / name).read_text(encoding="utf-8")))
+    # the laid-out boat check is the build's JSON
+    laid_out = client.post("/api/boat/check", params={"name": path.name, "layout": "1"}, json=boat_request(path))
+    assert without_sources(laid_out.json()) == without_sources(json.loads((out / name).read_text(encoding="utf-8")))
+
+
+def test_boat_bad_spar_gives_the_cli_message(client, run, tmp_path):
+    """A typo in one spar of the boat: 422 with the line `stavegen check BOAT` prints (the page names the spar by
+    its file name where the command line gives its path)."""
+    path = SAMPLES / "daysailer.toml"
+    for file in [path] + [SAMPLES / f for f in boat_request(path)["spars"]]:
+        (tmp_path / file.name).write_bytes(file.read_bytes())
+    boom = (tmp_path / "daysailer-boom.toml")
+    boom.write_text(boom.read_text(encoding="utf-8").replace("staves = ", "stavs = "), encoding="utf-8")
+    result = run(["check", tmp_path / "daysailer.toml"])
+    assert result.exit_code == 2
+    answer = client.post("/api/boat/check", params={"name": path.name},
+                         json=boat_request(path, **{"daysailer-boom.toml": boom.read_text(encoding="utf-8")}))
+    assert answer.status_code == 422
+    assert answer.json()["key"] == "hollow.stavs"
+    assert cli_message(result) == answer.json()["message"].replace("daysailer-boom.toml", str(boom), 1)
+
+
+def test_boat_request_without_a_listed_spar_or_not_a_boat(client):
+    path = SAMPLES / "daysailer.toml"
+    asked = boat_request(path)
+    del asked["spars"]["daysailer-gaff.toml"]
+    answer = client.post("/api/boat/check", params={"name": path.name}, json=asked)
+    assert answer.status_code == 422
+    assert "daysailer-gaff.toml" in answer.json()["message"] and answer.json()["key"].startswith("boat.spars")
+    answer = client.post("/api/boat/check", params={"name": "m.toml"},
+                         json={"boat": MAST.read_text(encoding="utf-8"), "spars": {}})
+    assert answer.status_code == 422 and "not a boat file" in answer.json()["message"]
+    for bad in ("[1, 2]", '{"boat": 3, "spars": {}}', '{"boat": "", "spars": {"a": 1}}', "not json"):
+        assert client.post("/api/boat/check", content=bad.encode()).status_code == 400
+
+
+def test_start_lists_the_bundled_boats():
+    from stavegen.serve.app import bundled_boats
+
+    with make_client(boats=bundled_boats(SAMPLES)) as c:
+        start = c.get("/api/start").json()
+        assert set(start["boats"]) == {p.name for p in BOAT_FILES}
+        assert start["boat"] is None
+        sample = c.get("/api/sample/daysailer.toml").json()["boat"]
+        assert sample["text"] == (SAMPLES / "daysailer.toml").read_text(encoding="utf-8")
+        assert set(sample["spars"]) == {"daysailer-mast.toml", "daysailer-boom.toml", "daysailer-gaff.toml"}

@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 from dataclasses import dataclass, replace
+from functools import cached_property
 from types import SimpleNamespace
 from typing import Callable
 
@@ -17,6 +18,7 @@ from .plugs import PlugBlock, plug_blocks
 from .scarfs import ScarfAim, ScarfPlan, ScarfRules, aim_scarfs, segment_bounds
 from .segments import Segment, make_segment
 from .staves import StavePlan, kind_count, kind_of_stave, stave_plan
+from .templates import Template, make_templates
 
 
 @dataclass(frozen=True)
@@ -63,6 +65,17 @@ class Layout:
     @property
     def segments(self) -> list[Segment]:
         return [seg for stave in self.staves for seg in stave]
+
+    @cached_property
+    def templates(self) -> tuple[Template, ...]:
+        """Every piece's template (identical pieces share one): what the DXF and the full-size PDF draw."""
+        return make_templates(self.staves, self.scarfs.centres, self.plan.taper,
+                              notched=self.plan.stations[0].notch_depth is not None)
+
+    @cached_property
+    def template_of(self) -> dict[str, Template]:
+        """The template of every segment, by its label."""
+        return {label: t for t in self.templates for label in t.labels}
 
 
 def scarf_rules(spar: Spar, plan: StavePlan) -> ScarfRules:

@@ -34,11 +34,11 @@ import re
 from dataclasses import dataclass, replace
 from pathlib import Path
 from types import SimpleNamespace
-from typing import Any
+from typing import Any, Mapping
 
 from ..errors import InputError, length
 from . import schema
-from .loader import _Table, _kind, _output, _stock, parse_spar, read_toml
+from .loader import _Table, _kind, _output, _stock, parse_spar, read_toml, toml_from_bytes
 from .schema import UNSET, Key, Table, Words
 from .spar import OutputOptions, Profile, Spar, Stock
 
@@ -169,8 +169,10 @@ def _in_boat(spar: Spar, stock: Stock | None, given: set[str], output: OutputOpt
     return replace(spar, stock=merged, output=output), differ
 
 
-def parse_boat(data: dict[str, Any], source: str = "") -> Boat:
-    """A validated :class:`Boat` from parsed TOML (spar files read relative to ``source``'s folder)."""
+def parse_boat(data: dict[str, Any], source: str = "", texts: Mapping[str, bytes] | None = None) -> Boat:
+    """A validated :class:`Boat` from parsed TOML. Its spar files are read relative to ``source``'s folder or,
+    when ``texts`` is given, taken from it by the names the boat file lists (the page sends them; no path is
+    opened then)."""
     folder = Path(source).parent if source else Path(".")
     units = ""
     try:
@@ -189,13 +191,20 @@ def parse_boat(data: dict[str, Any], source: str = "") -> Boat:
         raise exc.located(source, units)
     loaded = []
     for (file, _, key), tag in zip(entries, tags):
-        path = folder / file
-        if not path.exists():
-            raise InputError(f"no spar file {file!r} (paths are from the boat file's folder)", key, source)
-        spar_data = read_toml(path)
+        if texts is not None:
+            if file not in texts:
+                raise InputError(f"no spar file {file!r} came with the boat file", key, source)
+            spar_source = file
+            spar_data = toml_from_bytes(texts[file], spar_source)
+        else:
+            path = folder / file
+            if not path.exists():
+                raise InputError(f"no spar file {file!r} (paths are from the boat file's folder)", key, source)
+            spar_source = str(path)
+            spar_data = read_toml(path)
         if "boat" in spar_data:
             raise InputError(f"{file!r} is a boat file; a boat lists spar files", key, source)
-        loaded.append((parse_spar(spar_data, str(path)), tag, file, key))
+        loaded.append((parse_spar(spar_data, spar_source), tag, file, key))
     try:
         output = _output(output_t, units, max(s.length for s, *_ in loaded))
     except InputError as exc:

@@ -1,4 +1,4 @@
-"""The reference of every key of the spar file, generated from the loader's schema.
+"""The reference of every key of the spar file and the boat file, generated from the loader's schema.
 
 ``python -m stavegen.model.reference > docs/spar-file.md`` writes it; a test
 compares that file with :func:`reference_markdown`, so it cannot drift from
@@ -28,6 +28,16 @@ with both readings in the message, until you write its unit (`"1/8 in"`) or a de
 Figures no spar could have are refused as slips (a diameter 2.5 times its neighbour's, a kerf of an inch
 or more); unlikely ones are printed as one warning line each (by `check`, `build`, `section` and `size`,
 and in the JSON's `warnings`) and the run goes on.
+"""
+
+_BOAT_HEAD = """\
+# The boat file
+
+A boat file lists spar files to build as one job: `stavegen check`, `build` and `size` take it where they take
+a spar file, and `stavegen init FILE --boat` writes a starter boat. It has a `[boat]` table, and one `[stock]`
+and one `[output]` for every spar: the keys of a spar file's `[stock]` (less `no_scarf`, which stays each
+spar's own; `scarf_ratio` and `scarf_stagger` replace a spar's own only where the boat gives them) and of its
+`[output]`, above. Each spar file stays an ordinary spar file that builds alone.
 """
 
 _KINDS_HEAD = """\
@@ -101,10 +111,16 @@ def _table(decl: schema.Table) -> list[str]:
 
 
 def reference_markdown() -> str:
-    """The whole reference, as docs/spar-file.md holds it."""
+    """The whole reference (spar file, then boat file), as docs/spar-file.md holds it."""
     out = [_INTRO]
     for decl in schema.SPAR_FILE:
         out += _table(decl)
+    from .boat import BOAT, BOAT_SPAR
+
+    out.append(_BOAT_HEAD)
+    for decl, header in ((BOAT, "### [boat] (required)"),
+                         (BOAT_SPAR, "### Each entry of `spars`: a file name, or a table with these keys")):
+        out += [header if line.startswith("## ") else line for line in _table(decl)]
     out.append(_KINDS_HEAD.rstrip("\n"))
     used = {key.kind for decl in schema.SPAR_FILE for key in decl.keys}
     for kind, words in schema.KINDS.items():

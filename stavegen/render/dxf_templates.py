@@ -41,6 +41,7 @@ from ..section.properties import Section
 from ..units import to_unit
 from .csv_cutlist import fails_line
 from .figures import Figures
+from .template_words import edge_names, feather_note, mark_line
 from .wording import board_words, dressed_size
 
 Point = tuple[float, float]
@@ -56,6 +57,7 @@ LAYERS: dict[str, tuple[int, int, str]] = {
     "MARK-NOTCH-EDGE": (1, 50, "the edge that takes the birdsmouth V (drawn over the cut line)"),
     "MARK-SQUARE-EDGE": (5, 25, "the square edge (drawn over the cut line)"),
     "MARK-STATIONS": (94, 18, "station ticks across the stave, and their leaders"),
+    "MARK-CENTRE": (8, 18, "the centre line of a stave tapered on both edges: both edges are measured from it"),
     "MARK-SCARFS": (6, 35, "scarf feather lines: where each scarf's slope begins"),
     "MARK-GRAIN": (30, 25, "grain direction arrows, heel to head"),
     "TEXT-LABELS": (7, 18, "segment labels, edge names, scarf notes"),
@@ -71,8 +73,6 @@ LAYERS: dict[str, tuple[int, int, str]] = {
     "TEXT-BOARDS": (8, 18, "board captions: id, size, the segments on it (templates on boards)"),
 }
 
-# Why a station is there, in the builder's words; the other reasons (plan, wall, mark, scarf...) go unsaid.
-STATION_WORDS = {"heel": "heel", "head": "head", "plug": "plug end"}
 CHAR_WIDTH = 0.9  # a generous estimate of a character's advance, in text heights (standard style, txt font)
 
 
@@ -230,8 +230,6 @@ class TemplateSheet:
         self.fails = fails_line(design) if not design.passed else ""
         self.style = Style.for_units(self.units)
         self.pen = pen
-        self.notched = self.layout.plan.stations[0].notch_depth is not None
-        self.straight_notch_edge = self.layout.plan.taper != "symmetric"
 
     # Text ------------------------------------------------------------------
     def pos(self, z: float) -> str:
@@ -248,27 +246,17 @@ class TemplateSheet:
             return f"{self.pos(z - self.spar.length)} past the head"
         return f"{self.pos(z)} from the heel"
 
-    def station_text(self, tick) -> str:
-        why = [STATION_WORDS[r] for r in tick.reasons if r in STATION_WORDS]
-        text = f"{self.pos(tick.z)}  {self.fig.mark_width(tick.width)} wide"
-        return text + (f"  ({', '.join(why)})" if why else "")
-
     def description(self, seg: Segment) -> str:
         count = len(self.layout.staves[seg.stave - 1])
         return (f"{seg.label}: stave {seg.stave} of {len(self.layout.staves)}, segment {seg.index} of {count}, "
                 f"from {self.where(seg.start)} to {self.where(seg.end)}, {self.fig.cut_length(seg.length)} along the "
                 f"face; heel end at left")
 
-    def edge_names(self) -> tuple[str, str]:
-        straight = "(straight)" if self.straight_notch_edge else "(tapered)"
-        if not self.notched:
-            return f"BEVEL EDGE {straight}", "BEVEL EDGE (tapered)"
-        return f"NOTCH EDGE {straight}: cut the V along this edge", "SQUARE EDGE (tapered)"
-
     def clearance(self, seg: Segment) -> tuple[float, float]:
         """Room (below, above) the segment's marks take outside its outline, mm."""
         s = self.style
-        longest = max((s.width_of(self.station_text(t)) for t in seg.ticks), default=0.0)
+        marks = self.layout.template_of[seg.label].marks
+        longest = max((s.width_of(mark_line(self.fig, m)) for m in marks if m.labelled), default=0.0)
         return 3 * 1.8 * s.text, s.text + longest + s.text
 
     # Parts -----------------------------------------------------------------
@@ -279,41 +267,41 @@ class TemplateSheet:
         def at(x: float, y: float) -> Point:
             return (ox + x, oy + y)
 
+        t = self.layout.template_of[seg.label]
         pen.poly(_shift(seg.outline, ox, oy), CUT, closed=True)
         pen.poly(_shift(seg.notch_edge, ox, oy), "MARK-NOTCH-EDGE")
         pen.poly(_shift(seg.square_edge, ox, oy), "MARK-SQUARE-EDGE")
+        if t.centre_line is not None:
+            pen.poly(_shift(t.centre_line, ox, oy), "MARK-CENTRE")
         top = max(y for _, y in seg.outline)
         bottom = min(y for _, y in seg.outline)
 
-        # Station ticks across the face, their figures above the part reading upwards.
+        # The template's marks across the face, the figures of the labelled ones above the part reading upwards.
         last = -math.inf
-        for tick in seg.ticks:
-            a, b = seg.edges_at(tick.x)
-            pen.line(at(tick.x, a), at(tick.x, b), "MARK-STATIONS")
-            if not part.marks_outside:
+        for mark in t.marks:
+            a, b = seg.edges_at(mark.x)
+            pen.line(at(mark.x, a), at(mark.x, b), "MARK-STATIONS")
+            if not part.marks_outside or not mark.labelled:
                 continue
-            tx = max(tick.x, last + 1.6 * s.text)
+            tx = max(mark.x, last + 1.6 * s.text)
             last = tx
             base = top + s.text
-            pen.poly([at(tick.x, b), at(tick.x, top + 0.3 * s.text), at(tx, base - 0.2 * s.text)], "MARK-STATIONS")
-            pen.text(self.station_text(tick), at(tx + s.text / 2, base), s.text, "TEXT-STATIONS", rotation=90)
+            pen.poly([at(mark.x, b), at(mark.x, top + 0.3 * s.text), at(tx, base - 0.2 * s.text)], "MARK-STATIONS")
+            pen.text(mark_line(self.fig, mark), at(tx + s.text / 2, base), s.text, "TEXT-STATIONS", rotation=90)
 
         # Scarfs: the feather line across the face, a note between it and the scarf's tip.
-        tips = [0.0] * seg.scarf_at_start + [seg.length] * seg.scarf_at_end  # feather_lines' order
-        for x, tip in zip(seg.feather_lines, tips):
-            a, b = seg.edges_at(x)
-            pen.line(at(x, a), at(x, b), "MARK-SCARFS")
+        for line in t.feather_lines:
+            a, b = seg.edges_at(line.x)
+            pen.line(at(line.x, a), at(line.x, b), "MARK-SCARFS")
             if not part.marks_outside:
                 continue
-            note = f"SCARF {self.fig.cut_length(seg.scarf_length)}: slope from the feather line to a feather edge at this end"
-            note = f"<-- {note}" if tip < x else f"{note} -->"
-            pen.text(note, at((x + tip) / 2, bottom - 1.9 * s.text), s.text, "TEXT-LABELS",
-                     align=TextEntityAlignment.MIDDLE_CENTER)
-            pen.text("feather line", at(x, bottom - 0.9 * s.text), 0.8 * s.text, "TEXT-LABELS",
+            pen.text(feather_note(self.fig, t, line), at((line.x + line.tip) / 2, bottom - 1.9 * s.text), s.text,
+                     "TEXT-LABELS", align=TextEntityAlignment.MIDDLE_CENTER)
+            pen.text("feather line", at(line.x, bottom - 0.9 * s.text), 0.8 * s.text, "TEXT-LABELS",
                      align=TextEntityAlignment.MIDDLE_CENTER)
 
         # Free stretches between ticks and scarf lines, longest first, for text inside the part.
-        cuts = sorted({0.0, seg.length, *[t.x for t in seg.ticks], *seg.feather_lines})
+        cuts = sorted({0.0, seg.length, *[m.x for m in t.marks], *[f.x for f in t.feather_lines]})
         gaps = sorted(zip(cuts, cuts[1:]), key=lambda g: g[1] - g[0], reverse=True)
 
         def gap(i: int) -> tuple[float, float]:
@@ -337,13 +325,13 @@ class TemplateSheet:
         lo, hi = room(g)
         self.grain_arrow(at, g, lo, hi)
 
-        notch_name, square_name = self.edge_names()
+        notch_name, square_name = edge_names(t)
         g = gap(2)
         lo, hi = room(g)
         h = min(s.text, 0.22 * (hi - lo))
         pen.text(square_name, at((g[0] + g[1]) / 2, hi - 0.6 * h), h, "TEXT-LABELS",
                  align=TextEntityAlignment.MIDDLE_CENTER)
-        if not self.straight_notch_edge or not part.marks_outside:
+        if not t.straight_notch_edge or not part.marks_outside:
             pen.text(notch_name, at((g[0] + g[1]) / 2, lo + 0.6 * h), h, "TEXT-LABELS",
                      align=TextEntityAlignment.MIDDLE_CENTER)
         if not part.marks_outside:
@@ -351,7 +339,7 @@ class TemplateSheet:
 
         # Below the notch edge: its name and what the segment is.
         x0 = seg.scarf_length + 6 * s.text if seg.scarf_at_start else s.text  # clear of the "feather line" word
-        if self.straight_notch_edge:
+        if t.straight_notch_edge:
             pen.text(notch_name, at(x0, bottom - 1.0 * s.text), s.text, "TEXT-LABELS",
                      align=TextEntityAlignment.TOP_LEFT)
         pen.text(self.description(seg), at(x0, bottom - 3.2 * s.text), s.text, "TEXT-LABELS",
@@ -437,6 +425,7 @@ class TemplateSheet:
         return draw, (min(xs), min(ys), max(xs), max(ys)), caption
 
     def assembled_view(self, what: str, z: float, section: Section):
+        section = section.assembled  # an oval's whole section, not the one stave the settings are for
         n = section.staves
         staves = section.placed_rings()
         bore = section.bore_points()
@@ -594,13 +583,14 @@ def write_templates(design: Design, path: str | Path, place: Placer | None = Non
     template_document(design, place).saveas(Path(path))
 
 
-def cut_document(design: Design, place: Placer | None = None):
+def cut_document(design: Design, place: Placer | None = None, full=None):
     """The cut-only sheet: the template sheet with nothing but the outlines to cut (layer STAVE-CUT).
 
     For a CAM program that cannot switch layers off: the same placement, the
-    same outlines at the same coordinates, no marks, text or end views.
+    same outlines at the same coordinates, no marks, text or end views. ``full``:
+    the template sheet already made for ``design`` (else it is made here).
     """
-    full = template_document(design, place)
+    full = full if full is not None else template_document(design, place)
     doc = setup_document(design.spar.units)
     msp = doc.modelspace()
     pen = Pen(msp, design.spar.units)
@@ -616,3 +606,4 @@ def cut_document(design: Design, place: Placer | None = None):
 def write_cut_sheet(design: Design, path: str | Path, place: Placer | None = None) -> None:
     """Write the cut-only DXF sheet of ``design`` to ``path``."""
     cut_document(design, place).saveas(Path(path))
+

@@ -194,21 +194,27 @@ def _segment(seg: Segment, board: str | None) -> dict[str, Any]:
     }
 
 
-def _layout(layout: Layout, fig: Figures) -> dict[str, Any]:
-    plan = layout.plan
-    boards = layout.board_of
+def _stave_plan(plan) -> dict[str, Any]:
     return {
-        "stave_plan": {
-            "taper": plan.taper,
-            "cut_length_mm": plan.cut_length,
-            "finished_length_mm": plan.finished_length,
-            "end_allowance_mm": plan.end_allowance,
-            "edge_allowance_mm": plan.edge_allowance,
-            "stations": [{"z_mm": st.z, "s_mm": st.s, "width_mm": st.width, "rough_width_mm": st.rough_width,
-                          "thickness_mm": st.thickness, "notch_depth_mm": st.notch_depth,
-                          "apex_height_mm": st.apex_height, "reasons": list(st.reasons)} for st in plan.stations],
-        },
-        "staves": [{"index": k, "phase": layout.scarfs.phases[k - 1],
+        "taper": plan.taper,
+        "cut_length_mm": plan.cut_length,
+        "finished_length_mm": plan.finished_length,
+        "end_allowance_mm": plan.end_allowance,
+        "edge_allowance_mm": plan.edge_allowance,
+        "stations": [{"z_mm": st.z, "s_mm": st.s, "width_mm": st.width, "rough_width_mm": st.rough_width,
+                      "thickness_mm": st.thickness, "notch_depth_mm": st.notch_depth,
+                      "apex_height_mm": st.apex_height, "reasons": list(st.reasons)} for st in plan.stations],
+    }
+
+
+def _layout(layout: Layout, fig: Figures) -> dict[str, Any]:
+    boards = layout.board_of
+    kinds = layout.kinds or (0,) * len(layout.staves)
+    return {
+        "stave_plan": _stave_plan(layout.plan),  # stave 1's (every stave's for a round)
+        # an oval's staves differ: one plan for each kind of stave (staves of one kind are alike)
+        "stave_plans": [_stave_plan(p) for p in (layout.plans or (layout.plan,))],
+        "staves": [{"index": k, "phase": layout.scarfs.phases[k - 1], "kind": kinds[k - 1],
                     "segments": [_segment(seg, boards.get(seg.label)) for seg in segs]}
                    for k, segs in enumerate(layout.staves, start=1)],
         "scarfs": [{"stave": k, "z_mm": z, "length_mm": layout.scarfs.length}

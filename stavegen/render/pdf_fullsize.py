@@ -28,11 +28,12 @@ from pathlib import Path
 
 from reportlab.pdfgen import canvas as pdfcanvas
 
-from ..layout.segments import Segment, Tick
+from ..layout.templates import Template
 from ..pipeline import Design
 from ..units import MM_PER_INCH, format_length
 from .csv_cutlist import fails_line
 from .figures import Figures
+from .template_words import edge_names, end_words, feather_note, mark_lines, template_name
 from .pdf_common import BOLD, FONT, MM, ask_actual_size, build_date, draw_scale_bar, paper_size, source_name, \
     scale_bar_length
 
@@ -47,28 +48,7 @@ SHELF_GAP = 4.0
 START_X = 10.0  # canvas x of every template's heel end
 END_PAD = 8.0  # canvas past a template's head end that still belongs to it
 LABEL_REPEAT = 140.0  # the template's name repeats this often along it
-TICK_LABEL_GAP = 24.0  # closer station ticks keep their line but lose their label
 CROSS = 3.0  # half the arm of a registration cross
-
-
-@dataclass(frozen=True)
-class Template:
-    """One outline to cut out, and the segments (identical in shape) it serves."""
-
-    segments: tuple[Segment, ...]
-
-    @property
-    def segment(self) -> Segment:
-        return self.segments[0]
-
-    @property
-    def labels(self) -> tuple[str, ...]:
-        return tuple(s.label for s in self.segments)
-
-    @property
-    def y_range(self) -> tuple[float, float]:
-        ys = [y for _, y in self.segment.outline]
-        return min(ys), max(ys)
 
 
 @dataclass(frozen=True)
@@ -154,13 +134,8 @@ class Sheet:
 
 
 def templates(design: Design) -> tuple[Template, ...]:
-    """The segments grouped by identical outline (and ends), in cut-list order of their first member."""
-    groups: dict[tuple, list[Segment]] = {}
-    for seg in design.layout.segments:
-        key = (round(seg.start, 6), round(seg.end, 6), seg.scarf_at_start, seg.scarf_at_end,
-               tuple((round(x, 6), round(y, 6)) for x, y in seg.outline))
-        groups.setdefault(key, []).append(seg)
-    return tuple(Template(tuple(segs)) for segs in groups.values())
+    """The layout's templates (:attr:`stavegen.layout.plan.Layout.templates`): identical pieces share one."""
+    return design.layout.templates
 
 
 def sheet(design: Design) -> Sheet:
@@ -211,46 +186,6 @@ def sheet(design: Design) -> Sheet:
 # Drawing ---------------------------------------------------------------------------------------------
 
 
-def _template_name(t: Template) -> str:
-    first, rest = t.labels[0], t.labels[1:]
-    n = len(t.labels)
-    also = f" (also {', '.join(rest)})" if rest else ""
-    return f"{first}{also}: mark out {n}"
-
-
-def _own_scarf(design: Design, seg: Segment, tick: Tick) -> bool:
-    return any(abs(tick.z - c) < 0.05 for c in design.layout.scarfs.centres[seg.stave - 1])
-
-
-def _tick_marks(design: Design, t: Template) -> list[tuple[Tick, list[str]]]:
-    """The ticks to draw on a template, each with its label lines ([] = line only)."""
-    fig = Figures(design.spar)
-    seg = t.segment
-    out: list[tuple[Tick, list[str]]] = []
-    last_labelled = -math.inf
-    for tick in seg.ticks:
-        reasons = set(tick.reasons)
-        own_scarf = "scarf" in reasons and _own_scarf(design, seg, tick)
-        if not reasons - {"scarf", "segment end"} and not own_scarf:
-            continue  # another stave's scarf or segment end: nothing to mark on this piece
-        if own_scarf and not reasons - {"scarf", "segment end"}:
-            lines = ["scarf centre", fig.position(tick.z)]
-        else:
-            where = fig.position(tick.z)
-            if "heel" in reasons:
-                where = f"heel {where}"
-            elif "head" in reasons:
-                where = f"head {where}"
-            note = " plug end" if "plug" in reasons and not reasons & {"heel", "head"} else ""
-            lines = [where, f"width {fig.mark_width(tick.width)}{note}"]
-        if tick.x - last_labelled < TICK_LABEL_GAP:
-            lines = []
-        else:
-            last_labelled = tick.x
-        out.append((tick, lines))
-    return out
-
-
 class _Painter:
     """Draws canvas items onto one page, clipped to its window."""
 
@@ -298,41 +233,42 @@ class _Painter:
 def _draw_template(p: _Painter, design: Design, place: Placement) -> None:
     t = place.template
     seg = t.segment
-    plan = design.layout.plan_for(seg.stave)
+    fig = Figures(design.spar)
     if not p.visible(place.left, place.right, place.top, place.bottom):
         return
     lo, hi = t.y_range
-    p.polyline([place.canvas(x, y) for x, y in seg.outline], close=True, width=0.6)
-    symmetric = plan.taper == "symmetric"
-    if symmetric:
-        p.polyline([place.canvas(0, 0), place.canvas(seg.length, 0)], width=0.3, dash=(6, 2, 1, 2), gray=0.4)
-    # Station ticks across the piece, labels above it.
+    p.polyline([place.canvas(x, y) for x, y in t.outline], close=True, width=0.6)
+    if t.centre_line is not None:
+        p.polyline([place.canvas(x, y) for x, y in t.centre_line], width=0.3, dash=(6, 2, 1, 2), gray=0.4)
+    # The template's marks across the piece, the figures of the labelled ones above it.
     top_y = place.top
-    for tick, lines in _tick_marks(design, t):
-        a, b = plan.edges_at(tick.z)
-        p.polyline([place.canvas(tick.x, a - 2), place.canvas(tick.x, b + 2)], width=0.35)
-        if lines:
-            p.text(place.x0 + tick.x, top_y + 3.4, lines[0], size=6.5, align="centre", font=BOLD)
-            p.text(place.x0 + tick.x, top_y + 6.6, lines[1], size=6, align="centre")
+    for mark in t.marks:
+        a, b = seg.edges_at(mark.x)
+        p.polyline([place.canvas(mark.x, a - 2), place.canvas(mark.x, b + 2)], width=0.35)
+        if mark.labelled:
+            first, second = mark_lines(fig, mark)
+            p.text(place.x0 + mark.x, top_y + 3.4, first, size=6.5, align="centre", font=BOLD)
+            p.text(place.x0 + mark.x, top_y + 6.6, second, size=6, align="centre")
     # Scarf feather lines: where the slope begins.
     below = place.bottom - 1.2
-    for x in seg.feather_lines:
-        p.polyline([place.canvas(x, lo - 2), place.canvas(x, hi + 2)], width=0.5, dash=(3, 2))
-        if seg.scarf_at_start and abs(x - seg.scarf_length) < 1e-9:
-            p.text(place.x0 + x + 1, below, "< scarf: slope from this line to the tip", size=6)
+    for line in t.feather_lines:
+        p.polyline([place.canvas(line.x, lo - 2), place.canvas(line.x, hi + 2)], width=0.5, dash=(3, 2))
+        note = feather_note(fig, t, line)
+        if line.tip < line.x:
+            p.text(place.x0 + line.x + 1, below, note, size=6)
         else:
-            p.text(place.x0 + x - 1, below, "scarf: slope from this line to the tip >", size=6, align="right")
-    p.text(place.x0, below, "scarf tip" if seg.scarf_at_start else "square cut end (trim after glue-up)", size=6)
-    p.text(place.x0 + seg.length, below, "scarf tip" if seg.scarf_at_end else
-           "square cut end (trim after glue-up)", size=6, align="right")
-    # The name, repeated along the piece between station lines, just inside the notch edge (or above the
+            p.text(place.x0 + line.x - 1, below, note, size=6, align="right")
+    heel, head = end_words(t)
+    p.text(place.x0, below, heel, size=6)
+    p.text(place.x0 + t.length, below, head, size=6, align="right")
+    # The name, repeated along the piece between marks, just inside the notch edge (or above the
     # centre line), so that every page shows it whole at least once.
-    edge = "centre line dash-dot, both edges tapered" if symmetric else "notch edge: this edge, straight"
-    name = f"{_template_name(t)}   |   {edge}   |   head end >"
+    edge = "centre line dash-dot, both edges tapered" if t.centre_line is not None else edge_names(t)[0]
+    name = f"{template_name(t)}   |   {edge}   |   head end >"
     size = 7
     long = p.c.stringWidth(name, BOLD, size) / MM
-    y_text = 1.2 if symmetric else lo + 2.2
-    stops = sorted({0.0, seg.length, *seg.feather_lines, *(tick.x for tick, _ in _tick_marks(design, t))})
+    y_text = 1.2 if t.centre_line is not None else lo + 2.2
+    stops = sorted({0.0, t.length, *(f.x for f in t.feather_lines), *(m.x for m in t.marks)})
     first = True
     for a, b in zip(stops, stops[1:]):
         x = a + 3

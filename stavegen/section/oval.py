@@ -97,6 +97,10 @@ class OvalSection:
 
     # --- the two directions -------------------------------------------------------------------------------
     @property
+    def assembled(self) -> "OvalSection":
+        return self
+
+    @property
     def semi_axes(self) -> tuple[float, float]:
         return self.fore_aft / 2, self.athwartships / 2
 
@@ -234,7 +238,7 @@ class OvalSection:
         return Section(staves=self.staves, joint=self.joint, radius=self.radius, thickness=self.thickness,
                        outer_apothem=self.outer_apothems[j], stave_width=self.widths[j], notch=self.notch,
                        frame=self.frames[j], stave_outline=tuple(local), wall=Moments(), bore=Moments(),
-                       voids=Moments(), overlap=self.overlap, glue_line=self.glue_line)
+                       voids=Moments(), overlap=self.overlap, glue_line=self.glue_line, whole=self)
 
     def placed_rings(self) -> list[list[tuple[float, float]]]:
         """Every stave in the axis frame, before rounding."""

@@ -11,7 +11,7 @@ holds by construction. Lengths mm, areas mm², second moments mm⁴.
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 from functools import cached_property
 
 import shapely
@@ -47,6 +47,14 @@ class Section:
     overlap: float
     glue_line: float
     hollow_reach: float = 0.0
+    whole: object = field(default=None, compare=False, repr=False)
+    """For one stave of an oval (:meth:`~stavegen.section.oval.OvalSection.kind_section`): the whole oval section
+    it belongs to (end views draw that); None for a round's section, which is itself whole."""
+
+    @property
+    def assembled(self):
+        """The whole section this one's stave belongs to (itself for a round)."""
+        return self.whole if self.whole is not None else self
 
     shape = "round"
 

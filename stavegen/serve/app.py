@@ -45,6 +45,8 @@ class Settings:
     slow_time_limit: float = 300.0    # seconds for the stave-count comparison and the zip of outputs
     allowed_hosts: list[str] = field(default_factory=lambda: list(LOOPBACK_HOSTS))
     samples: dict[str, str] = field(default_factory=dict)
+    boat: dict[str, Any] | None = None  # a boat the page opens with: {"text", "name", "spars": {file: text}}
+    boats: dict[str, dict[str, Any]] = field(default_factory=dict)  # bundled boats, by file name
 
 
 class Refused(Exception):
@@ -59,6 +61,28 @@ def bundled_samples(folder: Path) -> dict[str, str]:
     Boat files (a [boat] table listing spar files) are left out: the page edits one spar file."""
     texts = {path.name: path.read_text(encoding="utf-8") for path in sorted(folder.glob("*.toml"))}
     return {name: text for name, text in texts.items() if not is_boat(tomllib.loads(text))}
+
+
+def boat_texts(path: Path) -> dict[str, Any]:
+    """A boat file and the spar files it lists, as text: {"text", "name", "spars": {file: text}} (the files are
+    named by the boat file, read once when the server starts, never by a request). The boat is validated first,
+    so a bad boat file stops ``serve`` with the message ``check`` gives."""
+    from ..model.boat import _entries, load_boat
+
+    load_boat(path)
+    text = path.read_text(encoding="utf-8")
+    files = [file for file, _, _ in _entries(tomllib.loads(text)["boat"]["spars"], "boat.spars")]
+    return {"text": text, "name": path.name,
+            "spars": {file: (path.parent / file).read_text(encoding="utf-8") for file in files}}
+
+
+def bundled_boats(folder: Path) -> dict[str, dict[str, Any]]:
+    """The sample boats shipped with stavegen (in ``folder``), by file name, each with its spar files' text."""
+    out = {}
+    for path in sorted(folder.glob("*.toml")):
+        if is_boat(tomllib.loads(path.read_text(encoding="utf-8"))):
+            out[path.name] = boat_texts(path)
+    return out
 
 
 def _error(status: int, message: str, key: str = "") -> JSONResponse:
@@ -122,6 +146,8 @@ def create_app(settings: Settings) -> Starlette:
             "text": settings.text,
             "name": settings.name,
             "samples": list(settings.samples),
+            "boats": list(settings.boats),
+            "boat": settings.boat,
             "woods": [{"key": w.key, "name": w.name} for w in wood_table().values()],
             "choices": {"units": ["in", "mm"], "joint": list(JOINTS), "taper": list(TAPERS), "paper": list(PAPERS)},
             "limits": {"max_body": settings.max_body, "time_limit": settings.time_limit},
@@ -129,6 +155,8 @@ def create_app(settings: Settings) -> Starlette:
 
     async def sample(request: Request) -> Response:
         name = request.path_params["name"]
+        if name in settings.boats:
+            return JSONResponse({"boat": settings.boats[name], "name": name})
         if name not in settings.samples:  # a fixed list read at start: no path from the request is opened
             raise Refused(404, f"no bundled sample named {name!r}")
         return JSONResponse({"text": settings.samples[name], "name": name})
@@ -173,6 +201,31 @@ def create_app(settings: Settings) -> Starlette:
         return JSONResponse(await engine("edit", {"text": asked["text"], "ops": asked.get("ops", []),
                                                   "name": label(request)}))
 
+    async def boat_body(request: Request) -> dict[str, Any]:
+        """A boat request's body: {"boat": the boat file's text, "spars": {file name: the spar file's text}}."""
+        raw = await body(request)
+        try:
+            asked = json.loads(raw.decode("utf-8"))
+        except (UnicodeDecodeError, json.JSONDecodeError) as exc:
+            raise Refused(400, f"the boat is not JSON: {exc}") from None
+        spars = asked.get("spars") if isinstance(asked, dict) else None
+        if not isinstance(asked, dict) or not isinstance(asked.get("boat"), str) or not isinstance(spars, dict) \
+                or not all(isinstance(k, str) and isinstance(v, str) for k, v in spars.items()):
+            raise Refused(400, 'a boat is {"boat": the boat file, "spars": {file name: spar file}}')
+        return {"boat": asked["boat"].encode("utf-8"), "name": label(request),
+                "spars": {k: v.encode("utf-8") for k, v in spars.items()}}
+
+    async def boat_check(request: Request) -> Response:
+        asked = await boat_body(request)
+        text = await engine("boat_check", {**asked, "layout": flag(request, "layout")})
+        return Response(text, media_type="application/json")
+
+    async def boat_build(request: Request) -> Response:
+        asked = await boat_body(request)
+        filename, data = await engine("boat_build", asked, slow_work=True)
+        return Response(data, media_type="application/zip",
+                        headers={"Content-Disposition": f'attachment; filename="{filename}"'})
+
     @asynccontextmanager
     async def lifespan(app):
         live.start()
@@ -193,6 +246,8 @@ def create_app(settings: Settings) -> Starlette:
         Route("/api/build", guarded(build), methods=["POST"]),
         Route("/api/size", guarded(size), methods=["POST"]),
         Route("/api/edit", guarded(edit), methods=["POST"]),
+        Route("/api/boat/check", guarded(boat_check), methods=["POST"]),
+        Route("/api/boat/build", guarded(boat_build), methods=["POST"]),
         Mount("/static", StaticFiles(directory=STATIC), name="static"),
     ]
     middleware = [Middleware(TrustedHostMiddleware, allowed_hosts=settings.allowed_hosts),

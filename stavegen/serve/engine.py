@@ -102,13 +102,18 @@ def build(raw: bytes, name: str) -> tuple[str, bytes]:
     from ..build import write_outputs
 
     result = designed(raw, name, True)
+    return f"{result.spar.slug}.zip", _zipped(lambda folder: write_outputs(result, folder))
+
+
+def _zipped(write: Callable[[Path], list[Path]]) -> bytes:
+    """The files ``write`` puts in a fresh temporary folder, zipped (names without folders, sorted)."""
     with tempfile.TemporaryDirectory(prefix="stavegen-serve-") as folder:
-        written = write_outputs(result, Path(folder))
+        written = write(Path(folder))
         buffer = io.BytesIO()
         with zipfile.ZipFile(buffer, "w", compression=zipfile.ZIP_DEFLATED) as archive:
             for path in sorted(written):
                 archive.write(path, arcname=path.name)
-    return f"{result.spar.slug}.zip", buffer.getvalue()
+    return buffer.getvalue()
 
 
 def size(raw: bytes, name: str) -> dict[str, Any]:
@@ -146,8 +151,62 @@ def _plain(value: Any) -> Any:
     return str(value)
 
 
+# ---- a boat: its file and the spar files it lists, all sent as text --------------------------------------
+
+_boats: OrderedDict[tuple, Any] = OrderedDict()
+
+
+def boat_from_texts(boat: bytes, spars: dict[str, bytes], name: str):
+    """The validated boat of a boat file's bytes and its spar files' bytes (by the names the boat file lists),
+    read as ``stavegen check BOAT`` reads them from disk (:func:`stavegen.model.boat.parse_boat`)."""
+    from ..model.boat import is_boat, parse_boat
+    from ..model.loader import toml_from_bytes
+
+    data = toml_from_bytes(boat, name)
+    if not is_boat(data):
+        raise InputError("is not a boat file (it has no [boat] table)", "boat", name)
+    return parse_boat(data, name, texts=spars)
+
+
+def designed_boat(boat: bytes, spars: dict[str, bytes], name: str, layout: bool):
+    """``design_boat`` of the texts, once per set of texts."""
+    from ..boat import design_boat
+
+    key = (name, boat, tuple(sorted(spars.items())), layout)
+    found = _boats.get(key)
+    if found is None:
+        try:
+            found = design_boat(boat_from_texts(boat, spars, name), layout=layout)
+        except InputError as exc:
+            found = exc
+        _boats[key] = found
+        while len(_boats) > 4:
+            _boats.popitem(last=False)
+    else:
+        _boats.move_to_end(key)
+    if isinstance(found, InputError):
+        raise type(found)(found.problem, found.key, found.source)
+    return found
+
+
+def boat_check(boat: bytes, spars: dict[str, bytes], name: str, layout: bool = False) -> str:
+    """The JSON of ``stavegen check BOAT --json`` (with ``layout``: the boat build's BOAT.json)."""
+    from ..render.boat_papers import to_boat_json
+
+    return to_boat_json(designed_boat(boat, spars, name, layout))
+
+
+def boat_build(boat: bytes, spars: dict[str, bytes], name: str) -> tuple[str, bytes]:
+    """Every output of ``stavegen build BOAT`` in one zip: (the zip's file name, its bytes)."""
+    from ..boat_build import write_boat_outputs
+
+    result = designed_boat(boat, spars, name, True)
+    return f"{result.boat.slug}.zip", _zipped(lambda folder: write_boat_outputs(result, folder))
+
+
 OPERATIONS: dict[str, Callable[..., Any]] = {
     "check": check, "view": view, "section": section, "build": build, "size": size, "edit": edit,
+    "boat_check": boat_check, "boat_build": boat_build,
 }
 
 

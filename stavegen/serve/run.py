@@ -14,7 +14,7 @@ import uvicorn
 
 from ..errors import InputError
 from ..model.loader import load_spar
-from .app import LOOPBACK_HOSTS, Settings, bundled_samples, create_app
+from .app import LOOPBACK_HOSTS, Settings, boat_texts, bundled_boats, bundled_samples, create_app
 
 DEFAULT_PORT = 8471
 
@@ -26,6 +26,17 @@ def read_spar_text(path: Path) -> str:
     except (OSError, UnicodeDecodeError):
         load_spar(path)  # raises the loader's own one-line message for this file
         raise InputError("cannot read the file", source=str(path)) from None
+
+
+def is_boat_file(path: Path) -> bool:
+    """Whether the file named on the command line is a boat file (a bad file is left to the spar reader)."""
+    from ..model.boat import is_boat
+    from ..model.loader import read_toml
+
+    try:
+        return is_boat(read_toml(path))
+    except InputError:
+        return False
 
 
 def is_loopback(host: str) -> bool:
@@ -51,8 +62,14 @@ def serve(path: Path | None, default: Path, host: str = "127.0.0.1", port: int =
           open_browser: bool = True) -> None:
     """Serve the page for ``path`` (or the bundled ``default``) until interrupted."""
     samples = bundled_samples(default.parent)
+    boats = bundled_boats(default.parent)
+    boat = None
+    called = str(path) if path is not None else default.name  # what the server's first line names
     if path is None:
         text, name = default.read_text(encoding="utf-8"), default.name
+    elif is_boat_file(path):
+        boat = boat_texts(path)
+        name, text = next(iter(boat["spars"].items()))  # the page opens on the boat's first spar
     else:
         text, name = read_spar_text(path), str(path)
     check_port(host, port)
@@ -61,7 +78,7 @@ def serve(path: Path | None, default: Path, host: str = "127.0.0.1", port: int =
         sys.stderr.write(f"stavegen: warning: serving on {host}, not only this machine: anyone who can reach it "
                          "can use the page and make the server work. Use --host only on a network you trust.\n")
         allowed = ["*"]
-    app = create_app(Settings(text=text, name=name, samples=samples, allowed_hosts=allowed))
+    app = create_app(Settings(text=text, name=name, samples=samples, allowed_hosts=allowed, boat=boat, boats=boats))
     config = uvicorn.Config(app, host=host, port=port, log_level="warning", limit_concurrency=64,
                             timeout_keep_alive=5, h11_max_incomplete_event_size=64 * 1024)
     server = uvicorn.Server(config)
@@ -74,7 +91,7 @@ def serve(path: Path | None, default: Path, host: str = "127.0.0.1", port: int =
         bound = server.servers[0].sockets[0].getsockname()[1] if server.servers else port
         shown = f"[{host}]" if ":" in host else host
         url = f"http://{shown}:{bound}/"
-        sys.stdout.write(f"stavegen: the page for {name} is at {url} (Ctrl+C stops the server)\n")
+        sys.stdout.write(f"stavegen: the page for {called} is at {url} (Ctrl+C stops the server)\n")
         sys.stdout.flush()
         if open_browser:
             webbrowser.open(url)

@@ -60,6 +60,9 @@ const state = {
   text: "", name: "", data: null, start: null,
   seq: 0, updates: 0, lastKeyAt: null, at: "", chain: Promise.resolve(),
   pending: new Map(), timer: null, rebuild: false, doc: null, view: null,
+  // A boat file opened on the page: its text, its spar files' texts by the names it lists, the one being
+  // edited, and its own check (the whole boat: every spar's verdict and the one board order).
+  boat: null,
 };
 window.stavegenTimings = [];
 
@@ -565,6 +568,10 @@ function finishUpdate(seq, ok, asked) {
   state.lastKeyAt = null;
   document.body.dataset.updates = String(state.updates);
   document.body.dataset.ok = String(ok);
+  if (state.boat && state.boat.current !== null) {
+    state.boat.spars[state.boat.current] = state.text;
+    scheduleBoatCheck();
+  }
   if (seq === state.seq && state.timer === null && state.pending.size === 0) document.body.dataset.busy = "0";
 }
 
@@ -575,7 +582,8 @@ function syncRaw() {
   if (document.activeElement !== raw) raw.value = state.text;
 }
 
-function loadFile(text, name) {
+function loadFile(text, name, {inBoat = false} = {}) {
+  if (!inBoat) leaveBoat();
   state.text = text;
   state.name = name;
   state.at = "";
@@ -647,18 +655,128 @@ async function compareCounts() {
   }
 }
 
+// ---- a boat: several spar files and one order -------------------------------------------------------------
+
+function loadBoat(boat) {
+  state.boat = {text: boat.text, name: boat.name, spars: {...boat.spars}, current: null,
+                seq: 0, timer: null, doc: null};
+  $("boat-bar").hidden = false;
+  $("boat-name").textContent = boat.name;
+  $("boat-spars").replaceChildren();
+  document.body.dataset.boatUpdates = "0";
+  openBoatSpar(Object.keys(boat.spars)[0]);
+}
+
+function leaveBoat() {
+  if (!state.boat) return;
+  clearTimeout(state.boat.timer);
+  state.boat = null;
+  $("boat-bar").hidden = true;
+  $("boat-msg").textContent = "";
+}
+
+function openBoatSpar(file) {
+  const boat = state.boat;
+  if (boat.current !== null) boat.spars[boat.current] = state.text;
+  boat.current = file;
+  renderBoatTabs();
+  loadFile(boat.spars[file], file, {inBoat: true});
+}
+
+function renderBoatTabs() {
+  // The tabs are made once per boat and then only re-labelled, so a click never lands on a replaced button.
+  const boat = state.boat;
+  const verdicts = new Map();
+  if (boat.doc) for (const s of boat.doc.boat.spars) verdicts.set(s.file, s);
+  const bar = $("boat-spars");
+  const files = Object.keys(boat.spars);
+  if ([...bar.children].map((b) => b.dataset.file).join("\n") !== files.join("\n")) {
+    bar.replaceChildren(...files.map((file) => el("button", {type: "button", role: "tab", "data-file": file,
+      title: file, onclick: () => { if (file !== state.boat.current) openBoatSpar(file); }})));
+  }
+  for (const button of bar.children) {
+    const file = button.dataset.file;
+    const known = verdicts.get(file);
+    button.setAttribute("aria-selected", String(file === boat.current));
+    if (known) button.dataset.passed = String(known.passed); else delete button.dataset.passed;
+    button.textContent = known ? `${known.tag} · ${known.name}` : file;
+  }
+}
+
+function scheduleBoatCheck() {
+  const boat = state.boat;
+  clearTimeout(boat.timer);
+  document.body.dataset.boatBusy = "1";
+  boat.timer = setTimeout(() => { boat.timer = null; boatCheck(); }, DEBOUNCE_MS);
+}
+
+function boatRequest() {
+  const boat = state.boat;
+  return JSON.stringify({boat: boat.text, spars: boat.spars});
+}
+
+async function boatCheck() {
+  const boat = state.boat;
+  if (!boat) return;
+  const seq = ++boat.seq;
+  const answer = await post("/api/boat/check?" + new URLSearchParams({name: boat.name, layout: "1"}),
+                            boatRequest(), "application/json");
+  if (state.boat !== boat || seq !== boat.seq) return;
+  const verdict = $("boat-verdict");
+  if (!answer.ok) {
+    $("boat-msg").textContent = answer.body.message;
+    verdict.textContent = "";
+    verdict.className = "boat-verdict";
+    $("boat-summary").textContent = "";
+  } else {
+    $("boat-msg").textContent = "";
+    boat.doc = answer.body;
+    const passed = boat.doc.boat.passed;
+    verdict.className = "boat-verdict " + (passed ? "pass" : "fail");
+    verdict.textContent = passed ? "the boat: PASS" : "the boat: FAIL";
+    verdict.dataset.passed = String(passed);
+    const stock = boat.doc.stock;
+    $("boat-summary").textContent = stock
+      ? `one order: ${stock.board_feet.toFixed(2)} board feet to buy; ` +
+        `${stock.separate_board_feet.toFixed(2)} if each spar were bought alone`
+      : "no [stock] in the boat file: no board order";
+    renderBoatTabs();
+  }
+  document.body.dataset.boatUpdates = String(Number(document.body.dataset.boatUpdates || 0) + 1);
+  if (boat.timer === null) document.body.dataset.boatBusy = "0";  // the answer is for the texts as they stand
+}
+
+async function downloadBoatZip() {
+  const boat = state.boat;
+  const status = $("boat-status");
+  boat.spars[boat.current] = state.text;
+  status.textContent = "writing the boat's papers…";
+  const answer = await post("/api/boat/build?" + new URLSearchParams({name: boat.name}), boatRequest(),
+                            "application/json");
+  if (!answer.ok) {
+    status.textContent = "";
+    $("boat-msg").textContent = answer.body.message;
+    return;
+  }
+  const disposition = answer.response.headers.get("Content-Disposition") || "";
+  const match = /filename="([^"]+)"/.exec(disposition);
+  download(answer.body, match ? match[1] : "stavegen-boat.zip");
+  status.textContent = "downloaded " + (match ? match[1] : "the zip");
+}
+
 // ---- start -------------------------------------------------------------------------------------------
 
 async function main() {
   const start = await (await fetch("/api/start")).json();
   state.start = start;
   for (const name of start.samples) $("samples").append(el("option", {value: name, text: name}));
+  for (const name of start.boats) $("samples").append(el("option", {value: name, text: name + " (a boat)"}));
   $("samples").addEventListener("change", async (e) => {
     const name = e.target.value;
     if (!name) return;
     const answer = await (await fetch("/api/sample/" + encodeURIComponent(name))).json();
     e.target.value = "";
-    loadFile(answer.text, answer.name);
+    if (answer.boat) loadBoat(answer.boat); else loadFile(answer.text, answer.name);
   });
   $("open-file").addEventListener("change", (e) => {
     const file = e.target.files[0];
@@ -690,7 +808,10 @@ async function main() {
       state.chain = state.chain.then(() => applyEdits([], true));
     }, DEBOUNCE_MS);
   });
-  loadFile(start.text, start.name);
+  $("download-boat-toml").addEventListener("click", () =>
+    download(new Blob([state.boat.text], {type: "application/toml"}), baseName(state.boat.name)));
+  $("download-boat-zip").addEventListener("click", downloadBoatZip);
+  if (start.boat) loadBoat(start.boat); else loadFile(start.text, start.name);
 }
 
 main();
