@@ -5,7 +5,7 @@ from __future__ import annotations
 from dataclasses import dataclass
 
 from ..model.spar import Spar
-from ..stations.evaluate import SectionCache, Station, evaluate_stations, where
+from ..stations.evaluate import SectionCache, Station, evaluate_stations, regions_at, where
 from ..stations.grid import StationMark, intervals
 from .beam import MassFigures, euler_load, mass_and_centre, tip_deflection
 from .ratios import (ATHWARTSHIPS, DIRECTIONS, FORE_AFT, StationCheck, Stiffness, check_station, hollow_round,
@@ -148,7 +148,7 @@ def _stretch_figures(spar: Spar, cache: SectionCache, marks: tuple[StationMark, 
         plug = spar.hollow.plug_at(stretch[1])
         plan.append(tuple(solid_round(spar, float(spar.plan.diameter.at(z))) if round_plan
                           else plan_stiffness(spar, z) for z in stretch))
-        hollow.append(tuple(hollow_stiffness(spar, cache.at(z), plug) for z in stretch))
+        hollow.append(tuple(hollow_stiffness(spar, cache.at(z), plug, z) for z in stretch))
     return stretches, plan, hollow
 
 

@@ -1,11 +1,12 @@
 """Stiffness and strength of the hollow section against the solid round of the plans.
 
-EI ratio       = k_lam · E_wall · I_wall + E_plug · I_bore           over  E_plan · I_plan
-strength ratio = MOR_wall · S_hollow · F_hollow                     over  MOR_plan · S_plan · F_round
+EI ratio       = Σ Eᵢ Iᵢ over the section's regions                 over  E_plan · I_plan
+strength ratio = minᵢ σᵢ · EI / (Eᵢ cᵢ) (· F for wood)              over  MOR_plan · S_plan · F_round
 
-A plug (solid blocking) counts as a transformed section: I_bore scaled by
-E_plug / E_wall adds to the wall's I. The lamination credit k_lam is given to
-the staves' wood only, never to a plug. Units: mm, N, N·mm², N·mm.
+The section is a set of material regions (staves, plug, sheathing layers,
+reinforcement strips; :mod:`stavegen.section.regions` computes every figure
+of it). The lamination credit k_lam is given to the staves' wood only, in
+stiffness only. Units: mm, N, N·mm², N·mm.
 
 Form factors. Wood's modulus of rupture comes from rectangular test beams; a
 beam of another shape breaks at a different extreme-fibre stress. Newlin and
@@ -29,8 +30,8 @@ import math
 from dataclasses import dataclass
 
 from ..model.spar import Plug, Spar
-from ..section.properties import Section
-from ..stations.evaluate import Station
+from ..section.regions import Limit, RegionSection
+from ..stations.evaluate import Station, regions_at, regions_of
 
 # Form factors relative to a rectangular test beam (Newlin & Trayer 1924, from memory — verify).
 ROUND_FORM_FACTOR = 1.18
@@ -61,6 +62,9 @@ class Stiffness:
     moment_capacity: float
     mass_per_length: float
     form_factor: float = 1.0
+    regions: RegionSection | None = None
+    first_limit: Limit | None = None
+    """For the hollow section: its material regions, and the one whose material reaches its limit first."""
     # Two directions, for a section that is not round: fore-and-aft (bending in the fore-and-aft plane, about the
     # athwartships axis) and athwartships. None: the same as the single figures above (a round). For a section
     # that is not round, the single figures are the weaker direction's.
@@ -112,7 +116,7 @@ def _two_way(fa: Stiffness, at: Stiffness, mass: float) -> Stiffness:
     weak = fa if fa.ei <= at.ei else at
     return Stiffness(
         inertia=weak.inertia, ei=weak.ei, moment_capacity=min(fa.moment_capacity, at.moment_capacity),
-        mass_per_length=mass, form_factor=weak.form_factor,
+        mass_per_length=mass, form_factor=weak.form_factor, regions=weak.regions, first_limit=weak.first_limit,
         inertia_fore_aft=fa.inertia, inertia_athwartships=at.inertia, ei_fore_aft=fa.ei, ei_athwartships=at.ei,
         moment_fore_aft=fa.moment_capacity, moment_athwartships=at.moment_capacity,
         form_factor_fore_aft=fa.form_factor, form_factor_athwartships=at.form_factor)
@@ -164,54 +168,36 @@ def plan_stiffness(spar: Spar, z: float) -> Stiffness:
 
 
 def hollow_oval(spar: Spar, section, plug: Plug | None) -> Stiffness:
-    """The oval hollow section in both directions, with the plug's transformed section where the bore is blocked."""
-    wood = spar.hollow.wood
-    k = spar.hollow.lamination_factor
-    mass = wood.density * 1e-9 * section.area
-    if plug is not None:
-        mass += plug.wood.density * 1e-9 * section.bore.area
-    n = plug.wood.moe / wood.moe if plug is not None else 0.0
-    a, b = section.semi_axes
-    parts = []
-    for inertia, bore_inertia, reach, (z_wall, z_bore) in (
-            (section.inertia_fore_aft, section.bore_inertia_fore_aft, a, section.plastic_moduli_fore_aft),
-            (section.inertia_athwartships, section.bore_inertia_athwartships, b, section.plastic_moduli_athwartships)):
-        ei = k * wood.moe * inertia + (plug.wood.moe * bore_inertia if plug is not None else 0.0)
-        transformed = inertia + n * bore_inertia
-        elastic = transformed / reach
-        factor = form_factor((z_wall + n * z_bore) / elastic)
-        parts.append(Stiffness(inertia=transformed, ei=ei, moment_capacity=wood.mor * elastic * factor,
-                               mass_per_length=mass, form_factor=factor))
-    return _two_way(parts[0], parts[1], mass)
+    """The oval hollow section in both directions, each read off the section's material regions for bending that
+    way (:func:`stavegen.stations.evaluate.oval_regions_at`), as :func:`hollow_round` reads a round's."""
+    from ..stations.evaluate import oval_regions_at
+
+    parts = [hollow_round(spar, oval_regions_at(spar, section, plug, way)) for way in DIRECTIONS]
+    return _two_way(parts[0], parts[1], parts[0].mass_per_length)
 
 
-def hollow_stiffness(spar: Spar, section, plug: Plug | None) -> Stiffness:
-    """The hollow section, round or oval."""
-    return hollow_oval(spar, section, plug) if spar.hollow.two_axis else hollow_round(spar, section, plug)
+def hollow_stiffness(spar: Spar, section, plug: Plug | None, z: float | None = None) -> Stiffness:
+    """The hollow section, round or oval, read off its material regions."""
+    if spar.hollow.two_axis:
+        return hollow_oval(spar, section, plug)
+    return hollow_round(spar, regions_at(spar, section, plug, z))
 
 
-def hollow_round(spar: Spar, section: Section, plug: Plug | None) -> Stiffness:
-    """The hollow section, with the plug's transformed section where the bore is blocked."""
-    wood = spar.hollow.wood
-    ei = spar.hollow.lamination_factor * wood.moe * section.inertia
-    transformed = section.inertia
-    mass = wood.density * 1e-9 * section.area
-    z_wall, z_bore = section.plastic_moduli
-    plastic = z_wall
-    if plug is not None:
-        n = plug.wood.moe / wood.moe
-        ei += plug.wood.moe * section.bore_inertia
-        transformed += n * section.bore_inertia
-        plastic += n * z_bore
-        mass += plug.wood.density * 1e-9 * section.bore.area
-    elastic = transformed / section.radius
-    factor = form_factor(plastic / elastic)
+def hollow_round(spar: Spar, regions: RegionSection) -> Stiffness:
+    """The hollow section's figures, read off its material regions (:mod:`stavegen.section.regions`).
+
+    E·I is the transformed section's; the moment at rupture is the least at which any material reaches its
+    limit, the wood's credited with the form factor of the wood's own shape (staves and plug).
+    """
+    first = regions.first_limit(lambda r: form_factor(r.wood_shape_factor()))
     return Stiffness(
-        inertia=transformed,
-        ei=ei,
-        moment_capacity=wood.mor * elastic * factor,
-        mass_per_length=mass,
-        form_factor=factor,
+        inertia=regions.strength_ei / regions.reference,
+        ei=regions.ei,
+        moment_capacity=first.moment,
+        mass_per_length=regions.mass_per_length,
+        form_factor=first.form_factor if first.region.is_wood else form_factor(regions.wood_shape_factor()),
+        regions=regions,
+        first_limit=first,
     )
 
 
@@ -283,7 +269,8 @@ def check_station(spar: Spar, station: Station) -> StationCheck:
         station=station,
         plan=(solid_round(spar, station.plan_diameter) if spar.plan.shape == "round"
               else plan_stiffness(spar, station.z)),
-        hollow=hollow_stiffness(spar, station.section, station.plug),
+        hollow=(hollow_oval(spar, station.section, station.plug) if spar.hollow.two_axis
+                else hollow_round(spar, regions_of(spar, station))),
         ei_target=ei_target,
         strength_target=strength_target,
     )

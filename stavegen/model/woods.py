@@ -24,6 +24,12 @@ class Wood:
     density: float
     specific_gravity: float | None = None
     source: str = "defined in the spar file"
+    family = "wood"  # not a field: every Wood is a wood (laminates say "laminate")
+
+    @property
+    def strength(self) -> float:
+        """The stress (N/mm²) the section's strength check holds it to: its modulus of rupture."""
+        return self.mor
 
 
 @lru_cache(maxsize=1)

@@ -146,10 +146,22 @@ class RoundedRing:
     inertia: float
     bore: Moments
     plastic_moduli: tuple[float, float]  # Z = ∫|y| dA of the wall and of the bore, as Section gives them
+    staves: int = 0
+    corner_reach: float = 0.0
 
     @property
     def bore_inertia(self) -> float:
         return self.bore.polar / 2
+
+    @property
+    def wall(self) -> Moments:
+        """The wall's integrals about the axis (isotropic: disc less a regular N-gon)."""
+        return Moments(self.area, 0.0, 0.0, self.inertia, self.inertia, 0.0)
+
+    @property
+    def bore_corner_radius(self) -> float:
+        """How far the bore's corners reach from the axis (mm): a_i / cos(π/N)."""
+        return self.corner_reach
 
 
 def _abs_first_moment(ring: list[tuple[float, float]]) -> float:
@@ -191,7 +203,8 @@ def rounded_ring(staves: int, radius: float, wall: float, planing_allowance: flo
             best = (disc_z - bore_z, bore_z)
     return RoundedRing(radius=radius, thickness=wall, area=math.pi * radius**2 - bore_area,
                        inertia=math.pi * radius**4 / 4 - bore_i,
-                       bore=Moments(bore_area, 0.0, 0.0, bore_i, bore_i, 0.0), plastic_moduli=best)
+                       bore=Moments(bore_area, 0.0, 0.0, bore_i, bore_i, 0.0), plastic_moduli=best,
+                       staves=staves, corner_reach=a / math.cos(math.pi / staves))
 
 
 def closed_form_checker(spar: Spar, point: Point) -> Callable[[float, float], StationCheck]:

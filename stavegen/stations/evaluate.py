@@ -8,9 +8,11 @@ apothem a_o = R + planing allowance. Positions mm from the heel.
 from __future__ import annotations
 
 from dataclasses import dataclass
+from functools import partial
 
 from ..model.spar import Plug, Profile, Spar
 from ..section.properties import Section, evaluate_section
+from ..section.regions import PLUG, STAVE, Region, RegionSection, isotropic, section_of
 from ..units import Way, format_length, system
 from .grid import MERGE_TOLERANCE, StationMark, station_marks
 
@@ -30,6 +32,9 @@ class Station:
     """The plan's athwartships dimension (mm), for a plan that is not round; ``plan_diameter`` is then fore-and-aft."""
     athwartships: float | None = None
     """The hollow spar's athwartships dimension (mm), when it is oval; ``diameter`` is then fore-and-aft."""
+    regions: RegionSection | None = None
+    """The section's material regions (staves, plug, layers, strips): :func:`regions_at`, made by
+    :func:`evaluate_stations`; None where a caller left it to :func:`regions_of`."""
 
     @property
     def fore_aft(self) -> float:
@@ -42,6 +47,103 @@ class Station:
     @property
     def plan_athwart(self) -> float:
         return self.plan_athwartships if self.plan_athwartships is not None else self.plan_diameter
+
+
+def _oval_stave_shape(section) -> object:
+    """An oval's finished staves as shapely polygons: each clipped by the oval drawn as a 720-sided polygon
+    (drawing and outside measurement only, the figures are exact)."""
+    import shapely
+    from shapely.geometry import Polygon
+
+    oval = Polygon(section.finished_points(720))
+    pieces = [Polygon(ring).intersection(oval) for ring in section.placed_rings()]
+    return shapely.MultiPolygon([p for p in pieces if not p.is_empty and p.geom_type == "Polygon"])
+
+
+def _oval_bore_shape(section) -> object:
+    from shapely.geometry import Polygon
+
+    return Polygon(section.bore_points())
+
+
+def _turned(m, across: bool):
+    """Moments as they are, or with x and y exchanged (``across``): the region bending the other way."""
+    from ..section.integrals import Moments
+
+    return Moments(m.area, m.qy, m.qx, m.iyy, m.ixx, m.ixy) if across else m
+
+
+def oval_regions_at(spar: Spar, section, plug: Plug | None, direction: str = "athwartships") -> RegionSection:
+    """The material regions of an oval section for bending in ``direction`` ("fore_aft" or "athwartships").
+
+    A RegionSection bends about its horizontal axis (∫y² dA): as drawn, that is bending athwartships; for
+    fore-and-aft bending the integrals are turned a quarter (x and y exchanged). Each region's ``reach`` is its
+    farthest fibre across that axis (the oval's half-dimension for the staves, the bore's for a plug) and its
+    ``plastic`` the plastic modulus that way; the geometry is the oval's as drawn.
+    """
+    h = spar.hollow
+    wood = h.wood
+    across = direction == "fore_aft"
+    a, b = section.semi_axes
+    z_wall, z_bore = section.plastic_moduli_fore_aft if across else section.plastic_moduli_athwartships
+    bore_reach = max(abs(x if across else y) for x, y in section.bore_points())
+    regions = [Region(STAVE, wood, _turned(section.wall, across), a if across else b,
+                      h.lamination_factor * wood.moe, plastic=z_wall,
+                      shape=None if across else partial(_oval_stave_shape, section), pieces=section.staves)]
+    if plug is not None:
+        regions.append(Region(PLUG, plug.wood, _turned(section.bore, across), bore_reach, plug.wood.moe,
+                              plastic=z_bore, shape=None if across else partial(_oval_bore_shape, section)))
+    return section_of(regions, wood.moe)
+
+
+def _stave_shape(section) -> object:
+    """The finished staves as shapely polygons: each stave clipped by the round (a 720-sided polygon per
+    quarter turn: drawing and outside measurement only, the figures are exact)."""
+    import shapely
+    from shapely.geometry import Point, Polygon
+
+    from ..section.staves import placed_ring
+
+    disc = Point(0.0, 0.0).buffer(section.radius, quad_segs=180)
+    ring = placed_ring(Polygon(section.stave_outline), section.staves, range(section.staves))
+    return shapely.MultiPolygon([p for p in shapely.intersection(ring, disc) if not p.is_empty])
+
+
+def _bore_shape(section) -> object:
+    from shapely.geometry import Polygon
+
+    from ..section.properties import bore_ring
+
+    return Polygon(bore_ring(section.staves, section.inner_apothem))
+
+
+def regions_at(spar: Spar, section: Section, plug: Plug | None, z: float | None = None) -> RegionSection:
+    """The material regions of ``section`` at ``z`` (mm from the heel): the staves, the plug filling the bore
+    where there is one. The one place a section's regions are made; checks, sizing and renderers read them.
+
+    ``section`` may be the exact :class:`Section` or the sizing's closed form (anything with ``wall`` and
+    ``bore`` moments, ``plastic_moduli``, ``radius`` and ``bore_corner_radius``).
+    """
+    if getattr(section, "shape", "round") != "round":  # an oval: its regions as drawn, bending athwartships
+        return oval_regions_at(spar, section, plug)
+    h = spar.hollow
+    wood = h.wood
+    z_wall, z_bore = section.plastic_moduli
+    exact = isinstance(section, Section)
+    regions = [Region(STAVE, wood, isotropic(section.wall), section.radius, h.lamination_factor * wood.moe,
+                      plastic=z_wall, shape=partial(_stave_shape, section) if exact else None,
+                      pieces=section.staves if exact else 1)]
+    if plug is not None:
+        regions.append(Region(PLUG, plug.wood, isotropic(section.bore), section.bore_corner_radius, plug.wood.moe,
+                              plastic=z_bore, shape=partial(_bore_shape, section) if exact else None))
+    return section_of(regions, wood.moe)
+
+
+def regions_of(spar: Spar, station: Station) -> RegionSection:
+    """The station's regions: those it carries, else made now (:func:`regions_at`)."""
+    if station.regions is not None:
+        return station.regions
+    return regions_at(spar, station.section, station.plug, station.z)
 
 
 def where(spar: Spar, z: float) -> str:
@@ -148,17 +250,19 @@ def evaluate_stations(spar: Spar, marks: tuple[StationMark, ...] | None = None,
     stations = []
     for mark in marks:
         section = cache.at(mark.z)
+        plug = plug_at_station(spar, mark.z)
         stations.append(Station(
             z=mark.z,
             reasons=mark.reasons,
             plan_diameter=float(spar.plan.diameter.at(mark.z)),
             diameter=section.fore_aft if spar.hollow.two_axis else 2 * section.radius,
             wall=float(spar.hollow.wall.at(mark.z)),
-            plug=plug_at_station(spar, mark.z),
+            plug=plug,
             section=section,
             plan_athwartships=(float(spar.plan.athwartships.at(mark.z)) if spar.plan.athwartships is not None
                                else None),
             athwartships=section.athwartships if spar.hollow.two_axis else None,
+            regions=regions_at(spar, section, plug, mark.z),
         ))
     return tuple(stations)
 
