@@ -91,9 +91,36 @@ class OvalSection:
     bore: Moments
     voids: Moments
     overlap: float
-    least_wall: float
-    glue_line: float = 0.0
     shape: str = "oval"
+
+    @cached_property
+    def _finished_polygon(self) -> Polygon:
+        """The finished oval as a 720-sided inscribed polygon: inside the true oval, so a wall measured to it is
+        on the safe, thin side (for the least wall and the glue line only; the figures are exact)."""
+        return Polygon(self.finished_points(720))
+
+    @cached_property
+    def least_wall(self) -> float:
+        """Thinnest wood over the bore (and any void) after rounding, mm: from the hollow out to the oval."""
+        finished = self._finished_polygon
+        hollow = Polygon(self.bore_outline)
+        if self.voids.area > 0:
+            ring = shapely.union_all([Polygon(o) for o in self.outlines], grid_size=1e-6)
+            if ring.is_valid:
+                hollow = shapely.Polygon(finished.exterior).difference(ring)
+        return float(finished.exterior.distance(hollow))
+
+    @cached_property
+    def glue_line(self) -> float:
+        """The longest glued joint inside the finished oval (for glue estimates), mm: the boundary two
+        neighbouring staves share."""
+        a, b = self.semi_axes
+        polys = [Polygon(o) for o in self.outlines]
+        glue = 0.0
+        for k in range(self.staves):
+            shared = polys[k].boundary.intersection(polys[(k + 1) % self.staves].buffer(1e-6 * (a + b)))
+            glue = max(glue, float(shared.intersection(self._finished_polygon).length))
+        return glue
 
     # --- the two directions -------------------------------------------------------------------------------
     @property
@@ -265,27 +292,35 @@ class OvalSection:
         return self._half_moments(1)
 
     def _half_moments(self, axis: int) -> tuple[float, float]:
+        """∫|x| dA (axis 0) or ∫|y| dA (axis 1) of the finished wall and of the bore, mm³, exact.
+
+        The section turns into itself by half a turn (stave k + N/2 is stave k turned by 180°), so its
+        centroid is the axis and each integral is twice the half on the positive side. Without voids the
+        wall is the oval less the bore: 4a²b/3 (or 4ab²/3) less the bore's; with voids the staves are
+        clipped by the oval one by one.
+        """
         a, b = self.semi_axes
         reach = 4 * (a + b) + 1.0
-        halves = ((box(0.0, -reach, reach, reach), box(-reach, -reach, 0.0, reach)) if axis == 0 else
-                  (box(-reach, 0.0, reach, reach), box(-reach, -reach, reach, 0.0)))
+        half_plane = box(0.0, -reach, reach, reach) if axis == 0 else box(-reach, 0.0, reach, reach)
 
-        def half(poly: Polygon, clip: bool) -> float:
+        def positive(poly: Polygon, clip: bool) -> float:
             total = 0.0
-            for part, sign in zip(halves, (1.0, -1.0)):
-                piece = poly.intersection(part)
-                for g in getattr(piece, "geoms", [piece]):
-                    if g.is_empty or g.geom_type != "Polygon":
-                        continue
-                    g = orient(g, 1.0)
-                    rings = [list(g.exterior.coords)[:-1]] + [list(r.coords)[:-1] for r in g.interiors]
-                    m = rings_in_ellipse_moments(rings, a, b) if clip else sum(
-                        (ring_moments(r) for r in rings), Moments())
-                    total += sign * (m.qx if axis == 0 else m.qy)
+            piece = poly.intersection(half_plane)
+            for g in getattr(piece, "geoms", [piece]):
+                if g.is_empty or g.geom_type != "Polygon":
+                    continue
+                g = orient(g, 1.0)
+                rings = [list(g.exterior.coords)[:-1]] + [list(r.coords)[:-1] for r in g.interiors]
+                m = rings_in_ellipse_moments(rings, a, b) if clip else sum((ring_moments(r) for r in rings),
+                                                                           Moments())
+                total += m.qx if axis == 0 else m.qy
             return total
 
-        wall = sum(half(Polygon(o), True) for o in self.outlines)
-        bore = half(Polygon(self.bore_outline), False)
+        bore = 2 * positive(Polygon(self.bore_outline), False)
+        if self.voids.area == 0:
+            whole = 4 * a * a * b / 3 if axis == 0 else 4 * a * b * b / 3
+            return whole - bore, bore
+        wall = 2 * sum(positive(Polygon(o), True) for o in self.outlines)
         return wall, bore
 
 
@@ -412,25 +447,10 @@ def evaluate_oval(staves: int, joint: Joint, fore_aft: float, athwartships: floa
         voids = Moments()
     elif voids.area < 0:
         raise DesignError(f"the staves do not close into a ring round the bore{at}", key)
-    # least wall after rounding: from the bore's polygon (and any void) out to the ellipse, measured on a polygon
-    # inscribed in the ellipse (inside it, so the figure is on the safe, thin side)
-    finished = Polygon([(a * math.cos(s), b * math.sin(s)) for s in
-                        (2 * math.pi * i / 1440 for i in range(1440))])
-    hollow = Polygon(bore_ring)
-    if voids.area > 0:
-        ring = shapely.union_all(polys, grid_size=1e-6)
-        hollow = shapely.Polygon(finished.exterior).difference(ring) if ring.is_valid else hollow
-    least = float(finished.exterior.distance(hollow))
-    # the longest glued joint inside the finished oval (for glue estimates): the boundary two neighbours share
-    glue = 0.0
-    for k in range(staves):
-        shared = polys[k].boundary.intersection(polys[(k + 1) % staves].buffer(1e-6 * (a + b)))
-        glue = max(glue, float(shared.intersection(finished).length))
     return OvalSection(
         staves=staves, joint=joint.kind, fore_aft=fore_aft, athwartships=athwartships, thickness=t, notch=notch,
         outer_apothems=tuple(outer), widths=tuple(widths), frames=tuple(frames), outlines=tuple(outlines),
-        bore_outline=tuple(bore_ring), wall=wall, bore=bore, voids=voids, overlap=overlap, least_wall=least,
-        glue_line=glue,
+        bore_outline=tuple(bore_ring), wall=wall, bore=bore, voids=voids, overlap=overlap,
     )
 
 
