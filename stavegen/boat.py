@@ -131,6 +131,12 @@ def design_boat(boat: Boat, layout: bool = False, step: Callable[[str], None] | 
             names[seg.label] = label
             pieces.append(Piece(label=label, stave=seg.stave, segment=seg.index, length=seg.length,
                                 width=seg.rough_width, volume=seg.volume))
+        # pieces that are no stave segment (a two-piece spar's wooden spigot) come from the same boards
+        for piece in (c.piece for b in d.layout.lumber.boards for r in b.rips for c in r.cuts if c.piece.stave == 0):
+            label = bs.label(piece.label)
+            owners[label] = (i, piece.label)
+            names[piece.label] = label
+            pieces.append(replace(piece, label=label))
         apart.append(relabel(d.layout.lumber, names))
     together = order_lumber(pieces, boat.stock, units=boat.units)
     buy_apart = sum(o.to_buy_board_feet for o in apart)

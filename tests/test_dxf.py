@@ -188,7 +188,8 @@ def check_templates(result, path: Path, dxf: DxfFile, on_boards: bool = False) -
                 assert j == i, "two parts are closer than 10 mm"
 
     # Each outline carries its label inside it; match outlines to segments by label.
-    labels = [t for t in dxf.on("TEXT-LABELS", "TEXT") if re.fullmatch(r"S\d+-\d+", t.first(1))]
+    # a segment's label; a two-piece spar's are lettered with their part (L-S1-1, U-S1-1)
+    labels = [t for t in dxf.on("TEXT-LABELS", "TEXT") if re.fullmatch(r"(?:[LU]-)?S\d+-\d+", t.first(1))]
     by_label = {}
     for poly in polygons:
         inside = [t.first(1) for t in labels if poly.contains(shapely.Point(*[c * unit for c in t.anchor]))]
@@ -411,7 +412,8 @@ def check_boards(result, dxf: DxfFile) -> None:
     assert sorted(by_id) == sorted(b["board"] for b in cutting)
 
     cut = [Polygon([(x * unit, y * unit) for x, y in e.points]) for e in dxf.on(CUT)]
-    labels = [t for t in dxf.on("TEXT-LABELS", "TEXT") if re.fullmatch(r"S\d+-\d+", t.first(1))]
+    # a segment's label; a two-piece spar's are lettered with their part (L-S1-1, U-S1-1)
+    labels = [t for t in dxf.on("TEXT-LABELS", "TEXT") if re.fullmatch(r"(?:[LU]-)?S\d+-\d+", t.first(1))]
     segment = {}
     for poly in cut:
         inside = [t.first(1) for t in labels if poly.contains(shapely.Point(*[c * unit for c in t.anchor]))]

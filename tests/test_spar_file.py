@@ -48,6 +48,7 @@ _SETUP = {
     "hollow.plug": lambda d: d["hollow"]["plug"][0],
     "stock": lambda d: d["stock"],
     "output": lambda d: d["output"],
+    "parting": lambda d: d.setdefault("parting", {"at": 1000}),
     "wood": lambda d: (d["hollow"].update(wood={"name": "Test wood", "moe": 11000, "mor": 80, "density": 450})
                        or d["hollow"]["wood"]),
 }

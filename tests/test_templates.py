@@ -70,7 +70,8 @@ def test_dxf_and_fullsize_pdf_draw_the_same_marks(laid_out, tmp_path):
 
     # The DXF: each outline's mark lines sit at its template's marks, square across the piece.
     outlines = [Polygon([(x * unit, y * unit) for x, y in e.points]) for e in dxf.on(CUT, "LWPOLYLINE")]
-    labels = [t for t in dxf.on("TEXT-LABELS", "TEXT") if re.fullmatch(r"S\d+-\d+", t.first(1))]
+    # a segment's label; a two-piece spar's are lettered with their part (L-S1-1, U-S1-1)
+    labels = [t for t in dxf.on("TEXT-LABELS", "TEXT") if re.fullmatch(r"(?:[LU]-)?S\d+-\d+", t.first(1))]
     lines = [((float(e.first(10)) * unit, float(e.first(20)) * unit), (float(e.first(11)) * unit,
               float(e.first(21)) * unit)) for e in dxf.on("MARK-STATIONS", "LINE")]
     for poly in outlines:

@@ -29,7 +29,14 @@ from stavegen.units import format_mass
 
 from conftest import SAMPLES, SPAR_SAMPLES
 
-ANSI = re.compile(r"\x1b\[[0-9;?]*[A-Za-z]|\x1b\][^\x07]*\x07|\r")
+ANSI = re.compile(r"\x1b\[[0-9;?]*[A-Za-z]|\x1b\][^\x07]*\x07")
+
+
+def on_screen(text: str) -> str:
+    """What a terminal shows of ``text``: escape sequences dropped, and a carriage return within a line
+    going back to its start (a spinner redraws its line that way; what is written last stays)."""
+    lines = text.replace("\r\n", "\n").split("\n")
+    return "\n".join(ANSI.sub("", line.split("\r")[-1]) for line in lines)
 
 
 def in_terminal(args: list[str], columns: int = 80) -> tuple[str, str, int]:
@@ -55,7 +62,7 @@ def in_terminal(args: list[str], columns: int = 80) -> tuple[str, str, int]:
         raw += chunk
     _, status = os.waitpid(pid, 0)
     text = raw.decode("utf-8", "replace")
-    return text, ANSI.sub("", text), os.waitstatus_to_exitcode(status)
+    return text, on_screen(text), os.waitstatus_to_exitcode(status)
 
 
 SPINNER = tuple("⠋⠙⠹⠸⠼⠴⠦⠧⠇⠏")  # rich's "dots" spinner frames

@@ -43,4 +43,6 @@ def warnings_for(result: Assessment) -> list[str]:
     if hollow.lamination_factor > 1.0:
         out.append(f"A lamination factor of {hollow.lamination_factor:g} credits the staves with more stiffness "
                    "than their wood has; 1.0 takes no credit.")
+    for joint in result.joints:
+        out += joint.warnings()
     return out

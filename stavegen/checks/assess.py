@@ -7,6 +7,7 @@ from dataclasses import dataclass
 from ..model.spar import Spar
 from ..stations.evaluate import SectionCache, Station, evaluate_stations, regions_at, where
 from ..stations.grid import StationMark, intervals
+from .parting import JointCheck, check_joints
 from .beam import MassFigures, euler_load, mass_and_centre, tip_deflection
 from .ratios import (ATHWARTSHIPS, DIRECTIONS, FORE_AFT, StationCheck, Stiffness, check_station, hollow_round,
                      hollow_stiffness, plan_stiffness, solid_round)
@@ -46,6 +47,8 @@ class Assessment:
     stations: tuple[StationCheck, ...]
     plan: SparFigures
     hollow: SparFigures
+    joints: tuple[JointCheck, ...] = ()
+    """The joint of a two-piece spar (:mod:`stavegen.checks.parting`); empty for one piece."""
 
     @property
     def head_load(self) -> float:
@@ -110,8 +113,12 @@ class Assessment:
         return self.strength_target < 1.0
 
     @property
+    def joints_met(self) -> bool:
+        return all(j.passed for j in self.joints)
+
+    @property
     def passed(self) -> bool:
-        return self.stiffness_met and self.strength_met
+        return self.stiffness_met and self.strength_met and self.joints_met
 
     def shortfalls(self) -> list[str]:
         """One sentence for each target missed: where, and by how much."""
@@ -134,6 +141,8 @@ class Assessment:
                 line += (f"; {len(below)} stations fall short, from {where(self.spar, below[0].station.z)}"
                          f" to {where(self.spar, below[-1].station.z)}")
             out.append(line)
+        for joint in self.joints:
+            out += joint.reasons()
         return out
 
 
@@ -191,4 +200,5 @@ def assess(spar: Spar, marks: tuple[StationMark, ...] | None = None, cache: Sect
         stations=checks,
         plan=_figures(spar, stretches, plan, spar.head_load, direction),
         hollow=_figures(spar, stretches, hollow, spar.head_load, direction),
+        joints=check_joints(spar, cache),
     )

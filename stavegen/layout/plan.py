@@ -14,10 +14,11 @@ from ..stations.evaluate import SectionCache
 from ..stations.grid import station_marks
 from .lumber import LumberOrder, Piece, order_lumber
 from .operations import Machining, StationSettings, blank_for, machining  # noqa: F401  (re-exported)
+from .parting import JointLayout, PartSpan, joint_layout
 from .plugs import PlugBlock, plug_blocks
 from .scarfs import ScarfAim, ScarfPlan, ScarfRules, aim_scarfs, segment_bounds
 from .segments import Segment, make_segment
-from .staves import StavePlan, kind_count, kind_of_stave, stave_plan
+from .staves import StavePlan, StaveStation, kind_count, kind_of_stave, stave_plan
 from .templates import Template, make_templates
 
 
@@ -32,6 +33,7 @@ class Layout:
     machining: Machining
     lumber: LumberOrder
     scarf_aim: ScarfAim | None = None  # board feet with the slack-first scarfs and with the chosen ones
+    joints: tuple[JointLayout, ...] = ()  # a two-piece spar's joint: its parts, spigot, plugs, order of assembly
     plans: tuple[StavePlan, ...] = ()
     """One plan for each kind of stave (an oval spar's staves differ); empty: ``plan`` serves every stave."""
     kinds: tuple[int, ...] = ()
@@ -78,13 +80,14 @@ class Layout:
         return {label: t for t in self.templates for label in t.labels}
 
 
-def scarf_rules(spar: Spar, plan: StavePlan) -> ScarfRules:
+def scarf_rules(spar: Spar, plan: StavePlan, keep_clear: tuple[tuple[float, float], ...] = ()) -> ScarfRules:
+    """The scarfs' rules from the stock; ``keep_clear`` adds ranges no scarf may touch (a joint's overlap)."""
     stock = spar.stock
     thickest = max(st.thickness for st in plan.stations)
     return ScarfRules(
         length=stock.scarf_ratio * thickest,
         stagger=stock.scarf_stagger,
-        no_scarf=stock.no_scarf,
+        no_scarf=tuple(sorted(stock.no_scarf + keep_clear)),
         longest_piece=max(stock.lengths) - stock.kerf,
         slope_factor=plan.max_slope_factor(),
         units=spar.units,
@@ -105,6 +108,8 @@ def lay_out(spar: Spar, cache: SectionCache | None = None, step: Callable[[str],
     marks = station_marks(spar)
     bases = tuple(stave_plan(spar, marks, cache, kind) for kind in range(kind_count(spar)))
     base = max(bases, key=lambda p: p.widest().width)  # scarfs aimed on the widest stave's plan
+    if spar.parting is not None:
+        return _two_parts(spar, cache, base, step)
     rules = scarf_rules(spar, base)
     if len(bases) > 1:
         rules = replace(rules, slope_factor=max(p.max_slope_factor() for p in bases))
@@ -125,10 +130,12 @@ def lay_out(spar: Spar, cache: SectionCache | None = None, step: Callable[[str],
 
 
 def cut_and_order(spar: Spar, cache: SectionCache, base: StavePlan, scarfs: ScarfPlan, rules: ScarfRules,
-                  step: Callable[[str], None] | None = None):
+                  step: Callable[[str], None] | None = None, parts: tuple[PartSpan, ...] = (),
+                  extra: tuple[Piece, ...] = ()):
     """The segments of ``scarfs``, their cutter settings and the boards they are cut from:
-    (stave plans, one for each kind of stave, staves, machining, lumber order)."""
-    plans, staves = _segments(spar, cache, base, scarfs, rules)
+    (stave plans, one for each kind of stave, staves, machining, lumber order). ``parts``: a two-piece spar's
+    parts, each cut on its own; ``extra``: further pieces from the same boards (a wooden spigot's layers)."""
+    plans, staves = _segments(spar, cache, base, scarfs, rules, parts)
     if step is not None:
         step("working out the cutter settings")
     shop = machining(spar, plans[0], staves, cache, plans)
@@ -137,7 +144,56 @@ def cut_and_order(spar: Spar, cache: SectionCache, base: StavePlan, scarfs: Scar
     rough = {s.label: s.rough_width for s in shop.segments}
     pieces = [Piece(label=seg.label, stave=seg.stave, segment=seg.index, length=seg.length,
                     width=rough[seg.label], volume=seg.volume) for stave in staves for seg in stave]
-    return plans, staves, shop, order_lumber(pieces, spar.stock, units=spar.units)
+    return plans, staves, shop, order_lumber(pieces + list(extra), spar.stock, units=spar.units)
+
+
+def part_plan(base: StavePlan, start: float, end: float) -> StavePlan:
+    """The stave plan of one part of a two-piece spar: ``base`` cut to run from z = start to end (mm)."""
+    def at(z: float, reasons: tuple[str, ...]) -> StaveStation:
+        near = min(base.stations, key=lambda st: abs(st.z - z))
+        width = base.width_at(z)
+        return StaveStation(z=z, s=base.s_at(z), width=width, rough_width=width + 2 * base.edge_allowance,
+                            thickness=base.thickness_at(z), notch_depth=near.notch_depth,
+                            apex_height=near.apex_height, reasons=reasons)
+    inner = tuple(base.between(start, end))
+    return replace(base, stations=(at(start, ("part end",)),) + inner + (at(end, ("part end",)),))
+
+
+def _two_parts(spar: Spar, cache: SectionCache, base: StavePlan, step: Callable[[str], None] | None) -> Layout:
+    """The shop plan of a two-piece spar: each part's scarfs placed on its own, clear of the joint; the spigot's
+    layers ordered with the staves; the joint's plugs after the file's."""
+    from ..checks.parting import check_joints
+
+    check = check_joints(spar, cache)[0]
+    joint = joint_layout(spar, check, cache, first_plug=len(spar.hollow.plugs) + 1)
+    rules = scarf_rules(spar, base, (joint.keep_clear,))
+    if step is not None:
+        step("placing the scarfs of each part for the boards")
+    staves = spar.hollow.staves
+    rough = _rough_width(spar)
+    chosen = [aim_scarfs(part_plan(base, p.start, p.end), spar.length, staves, rules, spar.stock, rough=rough).plan
+              for p in joint.parts]
+    scarfs = ScarfPlan(centres=tuple(tuple(c for plan in chosen for c in plan.centres[k]) for k in range(staves)),
+                       phases=chosen[0].phases, length=rules.length)
+    plans, cut, shop, lumber = cut_and_order(spar, cache, base, scarfs, rules, step, joint.parts,
+                                             _spigot_pieces(spar, joint))
+    return Layout(plan=plans[0], scarfs=scarfs, staves=cut, plugs=plug_blocks(spar, cache) + joint.plugs,
+                  machining=shop, lumber=lumber, scarf_aim=None, joints=(joint,))
+
+
+def _spigot_pieces(spar: Spar, joint: JointLayout) -> tuple[Piece, ...]:
+    """A wooden spigot's layers, each ripped as one piece, or as strips side by side when no board is wide enough."""
+    blank = joint.spigot
+    if blank is None:
+        return ()
+    widest = max(spar.stock.widths)
+    edge = spar.stock.edge_allowance
+    strips = max(1, -int(-blank.piece_width // widest))
+    width = (blank.piece_width - 2 * edge) / strips + 2 * edge
+    volume = blank.volume / (blank.layers * strips)
+    return tuple(Piece(label=label if strips == 1 else f"{label}{chr(ord('a') + k)}", stave=0, segment=i,
+                       length=blank.piece_length, width=width, volume=volume)
+                 for i, label in enumerate(blank.labels, start=1) for k in range(strips))
 
 
 def _rough_width(spar: Spar) -> Callable[[float], float]:
@@ -145,21 +201,26 @@ def _rough_width(spar: Spar) -> Callable[[float], float]:
     return lambda widest: blank_for(spar, SimpleNamespace(widest=widest), 0.0)[1]
 
 
-def _segments(spar: Spar, cache: SectionCache, base: StavePlan, scarfs: ScarfPlan,
-              rules: ScarfRules) -> tuple[tuple[StavePlan, ...], list[tuple[Segment, ...]]]:
+def _segments(spar: Spar, cache: SectionCache, base: StavePlan, scarfs: ScarfPlan, rules: ScarfRules,
+              parts: tuple[PartSpan, ...] = ()) -> tuple[tuple[StavePlan, ...], list[tuple[Segment, ...]]]:
     """The stave plans (one for each kind of stave) with stations at every segment end and scarf, and each
-    stave's segments, cut from its own kind's plan."""
-    bounds = [segment_bounds(base.start, base.end, centres, rules.length) for centres in scarfs.centres]
-    ends = sorted({z for stave in bounds for a, b in stave for z in (a, b) if 0 <= z <= spar.length})
+    stave's segments, cut from its own kind's plan (each part's numbered from 1 and lettered with its part, for a
+    two-piece spar)."""
+    spans = [(p.letter, p.start, p.end) for p in parts] or [("", base.start, base.end)]
+    bounds = [[(letter, segment_bounds(a, b, [c for c in centres if a < c < b], rules.length))
+               for letter, a, b in spans] for centres in scarfs.centres]
+    ends = sorted({z for stave in bounds for _, part in stave for a, b in part for z in (a, b) if 0 <= z <= spar.length})
     centres = sorted({c for stave in scarfs.centres for c in stave})
     marks = station_marks(spar, {"segment end": ends, "scarf": centres})
     plans = tuple(stave_plan(spar, marks, cache, kind) for kind in range(kind_count(spar)))
     staves = []
     for k, stave_bounds in enumerate(bounds, start=1):
-        last = len(stave_bounds) - 1
+        segs = []
         plan = plans[kind_of_stave(spar, k)]
-        staves.append(tuple(
-            make_segment(plan, k, i + 1, a, b, scarf_at_start=i > 0, scarf_at_end=i < last,
-                         scarf_length=rules.length)
-            for i, (a, b) in enumerate(stave_bounds)))
+        for letter, part in stave_bounds:
+            last = len(part) - 1
+            segs += [make_segment(plan, k, i + 1, a, b, scarf_at_start=i > 0, scarf_at_end=i < last,
+                                  scarf_length=rules.length, part=letter)
+                     for i, (a, b) in enumerate(part)]
+        staves.append(tuple(segs))
     return plans, tuple(staves)

@@ -42,14 +42,16 @@ def _end(cache: SectionCache, z: float) -> PlugEnd:
     return PlugEnd(z=z, across_flats=2 * sec.inner_apothem, across_corners=2 * sec.bore_corner_radius, section=sec)
 
 
-def plug_blocks(spar: Spar, cache: SectionCache) -> tuple[PlugBlock, ...]:
-    """Every plug of the spar as a block to cut, its volume by Simpson's rule on the bore's area.
+def plug_blocks(spar: Spar, cache: SectionCache, plugs: tuple[Plug, ...] | None = None,
+                first: int = 1) -> tuple[PlugBlock, ...]:
+    """Every plug of the spar (or ``plugs``, numbered from ``first``) as a block to cut, its volume by
+    Simpson's rule on the bore's area.
 
     The bore's area is quadratic in z where the bore tapers linearly, so the
     rule is exact within a stretch of straight taper.
     """
     blocks = []
-    for i, plug in enumerate(spar.hollow.plugs, start=1):
+    for i, plug in enumerate(spar.hollow.plugs if plugs is None else plugs, start=first):
         heel, head = _end(cache, plug.start), _end(cache, plug.end)
         knots = sorted({plug.start, plug.end, *[z for z in spar.hollow.diameter.z if plug.start < z < plug.end],
                         *([z for z in spar.hollow.wall.z if plug.start < z < plug.end])})

@@ -334,6 +334,7 @@ class _Aim:
         self.least = MIN_SEGMENT_FACTOR * rules.length
         self.half = rules.length / 2
         self.gap = rules.length + rules.stagger
+        self._orders: dict[tuple, LumberOrder] = {}
 
     # -- rules --
 
@@ -399,7 +400,13 @@ class _Aim:
         return staves * board_feet_rate([Piece("x", 1, 1, length, width, 0.0) for length, width in one], self.stock)
 
     def order(self, centres: tuple[tuple[float, ...], ...], phases: tuple[int, ...], work: Work) -> LumberOrder:
-        return order_lumber(self.pieces(centres, phases), self.stock, units=self.rules.units, work=work)
+        """The lumber order of a placement's pieces. Placements that cut the same pieces (the order depends only on
+        their sorted widths and lengths, see lumber._group) share one solve."""
+        pieces = self.pieces(centres, phases)
+        key = (work, tuple(sorted((p.width, p.length) for p in pieces)))
+        if key not in self._orders:
+            self._orders[key] = order_lumber(pieces, self.stock, units=self.rules.units, work=work)
+        return self._orders[key]
 
 
 def aim_scarfs(plan: StavePlan, spar_length: float, staves: int, rules: ScarfRules, stock: Stock,

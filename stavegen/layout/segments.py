@@ -58,10 +58,13 @@ class Segment:
     narrowest: float
     rough_width: float
     volume: float
+    part: str = ""
+    """The part of a two-piece spar the segment belongs to ("L" lower, "U" upper; "" for a one-piece spar);
+    segments are numbered from 1 within their part."""
 
     @property
     def label(self) -> str:
-        return f"S{self.stave}-{self.index}"
+        return f"{self.part}-S{self.stave}-{self.index}" if self.part else f"S{self.stave}-{self.index}"
 
     @property
     def feather_lines(self) -> tuple[float, ...]:
@@ -134,7 +137,7 @@ def template_ticks(candidates: list[Tick]) -> tuple[Tick, ...]:
 
 
 def make_segment(plan: StavePlan, stave: int, index: int, start: float, end: float,
-                 scarf_at_start: bool, scarf_at_end: bool, scarf_length: float) -> Segment:
+                 scarf_at_start: bool, scarf_at_end: bool, scarf_length: float, part: str = "") -> Segment:
     """The segment of ``plan`` from z = start to end (mm) with its outline and marks."""
     s0 = plan.s_at(start)
     inner = plan.between(start, end)
@@ -164,5 +167,5 @@ def make_segment(plan: StavePlan, stave: int, index: int, start: float, end: flo
         scarf_at_start=scarf_at_start, scarf_at_end=scarf_at_end, scarf_length=scarf_length,
         outline=outline, notch_edge=notch_edge, square_edge=square_edge, ticks=ticks,
         widest=max(widths), narrowest=min(widths), rough_width=max(widths) + 2 * plan.edge_allowance,
-        volume=volume,
+        volume=volume, part=part,
     )

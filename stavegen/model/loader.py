@@ -41,12 +41,14 @@ from .spar import (
     Hollow,
     Joint,
     OutputOptions,
+    Parting,
     Plan,
     Plug,
     Profile,
     Spar,
     Stock,
 )
+from .tubes import tube_table
 from .woods import Wood, known_wood_keys, wood_table
 
 POSITION_TOLERANCE = 0.5  # mm: a station this close to an end counts as at the end
@@ -301,7 +303,7 @@ def _wood(value: Any, units: str, key: str) -> Wood:
         if mor >= moe:
             raise InputError("modulus of rupture must be far below the modulus of elasticity", t.key("mor"))
         return Wood(key=re.sub(r"[^a-z0-9]+", "-", name.lower()).strip("-"), name=name, moe=moe, mor=mor,
-                    density=density, source=source)
+                    density=density, source=source, compression_perp=t.get("compression_perp"))
     raise InputError(f"expected a wood name or a table, got {_kind(value)}", key)
 
 
@@ -536,6 +538,63 @@ def _output(t: _Table | None, units: str, length: float) -> OutputOptions:
     return options
 
 
+def _parting(t: _Table, units: str, length: float, hollow: Hollow, hollow_key: str) -> Parting:
+    """[parting]: where the spar comes apart and what joins it; what a kind does not use is refused."""
+    if hollow.two_axis:
+        raise InputError("a two-piece oval spar is not built yet: its spigot and bore checks are for a round; "
+                         "build the oval in one piece, or the two-piece spar round", t.path)
+    at = t.get("at")
+    kind = t.get("kind")
+    overlap, clearance = t.get("overlap"), t.get("clearance")
+    wood = _wood(t.raw("wood"), units, t.key("wood")) if t.has("wood") else None
+    material = t.get("material")
+    outside, wall = t.get("outside_diameter"), t.get("wall")
+    if at >= length - POSITION_TOLERANCE:
+        raise InputError("{at} is not inside the spar ({length} long): give where the spar parts, from the heel",
+                         t.key("at"), units=units, figures={"at": length_figure(at), "length": length_figure(length)})
+    tube_words = 'is for kind = "tube-spigot" or "sleeve"; a wooden spigot is shaped to the bore'
+    if kind == "wood-spigot":
+        for name in ("material", "outside_diameter", "wall"):
+            if t.has(name):
+                raise t.fail(name, tube_words)
+        wood = wood or hollow.wood
+    else:
+        if wood is not None:
+            raise t.fail("wood", f'is for kind = "wood-spigot"; a {kind} is given by material, wall'
+                                 + (" and outside_diameter" if kind == "tube-spigot" else ""))
+        if material is None:
+            raise t.fail("material", f'missing: kind = "{kind}" needs the tube\'s material '
+                                     f"(one of {', '.join(tube_table())})")
+        if wall is None:
+            raise t.fail("wall", f'missing: kind = "{kind}" needs the tube\'s wall thickness')
+        if kind == "tube-spigot":
+            if outside is None:
+                raise t.fail("outside_diameter", 'missing: kind = "tube-spigot" needs the tube\'s outside diameter')
+            if 2 * wall >= outside:
+                raise InputError("a wall of {wall} fills a tube {od} across: there is no bore", t.key("wall"),
+                                 units=units, figures={"wall": length_figure(wall), "od": length_figure(outside)})
+        elif outside is not None:
+            raise t.fail("outside_diameter", "is for a tube spigot; a sleeve's bore is the spar's diameter plus "
+                                             "the clearance")
+    if overlap is not None and (at - overlap <= 0 or at + overlap >= length):
+        raise InputError("an overlap of {overlap} each way from {at} runs past an end of the spar", t.key("overlap"),
+                         units=units, figures={"overlap": length_figure(overlap), "at": position_figure(at)})
+    if overlap is not None and kind != "sleeve":
+        for i, plug in enumerate(hollow.plugs, start=1):
+            if plug.start < at + overlap and plug.end > at - overlap:
+                raise InputError("plug {i} fills the bore where the spigot goes ({lo} to {hi} from the heel); "
+                                 "move the plug or the parting".replace("{i}", str(i)), f"hollow.plug[{i}]",
+                                 units=units, figures={"lo": position_figure(at - overlap),
+                                                       "hi": position_figure(at + overlap)})
+    bearing = [(hollow.wood, f"{hollow_key}.wood")] + ([(wood, t.key("wood"))] if kind == "wood-spigot" else [])
+    for bears, key in bearing:
+        if bears.compression_perp is None:
+            raise InputError(f"the parting's {kind} bears on {shown(bears.name)}, which gives no compression_perp "
+                             "(compression perpendicular to grain): add it to the wood's table", key)
+    return Parting(at=at, kind=kind, overlap=overlap, clearance=clearance, wood=wood if kind == "wood-spigot" else None,
+                   material=tube_table()[material] if material else None, outside_diameter=outside, wall=wall)
+
+
 def _jumps(profile: Profile, key: str, units: str):
     """(key of the station, factor, words) for each stretch of a diameter profile: how much it changes."""
     for i in range(1, len(profile.value)):
@@ -633,13 +692,16 @@ def parse_spar(data: dict[str, Any], source: str = "") -> Spar:
         stock_t = top.sub("stock")
         stock = None if stock_t is None else _stock(stock_t, units, length, hollow)
         output = _output(top.sub("output"), units, length)
+        parting_t = top.sub("parting")
+        parting = None if parting_t is None else _parting(parting_t, units, length, hollow, "hollow")
         spar = Spar(name=name, units=units, length=length, plan=plan, hollow=hollow, stock=stock, output=output,
-                    source=source, head_load=head_load)
+                    source=source, head_load=head_load, parting=parting)
         notices = _plausibility(spar)
     except InputError as exc:
         raise exc.located(source, units)
     return Spar(name=name, units=units, length=length, plan=plan, hollow=hollow, stock=stock, output=output,
-                source=source, head_load=head_load, head_load_given=spar_t.has("head_load"), notices=notices)
+                source=source, head_load=head_load, head_load_given=spar_t.has("head_load"), notices=notices,
+                parting=parting)
 
 
 def read_spar_bytes(path: str | Path) -> bytes:

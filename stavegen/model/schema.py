@@ -19,7 +19,8 @@ from dataclasses import field as _field
 from typing import Any
 
 from .spar import (DEFAULT_STRENGTH_TARGET, HOLLOW_SHAPES, JOINTS, MAX_STAVES, MIN_STAVES, NOTCH_CUTS, PAPERS,
-                   SEPARATIONS, SHAPES, TAPERS)
+                   PARTINGS, SEPARATIONS, SHAPES, TAPERS)
+from .tubes import tube_table
 
 
 @dataclass(frozen=True)
@@ -341,7 +342,50 @@ WOOD = Table("wood", "Wherever a wood is asked for (`plan.wood`, `hollow.wood`, 
         example=_u('"33 lb/ft3"', '"530 kg/m3"')),
     Key("source", "text", "where the figures come from", default="defined in the spar file", longest=300,
         example=_u('"the table the figures come from"', '"the table the figures come from"')),
+    Key("compression_perp", "stress", "compression perpendicular to the grain (proportional limit): what a "
+        "spigot or sleeve of a two-piece spar may press on it", default=UNSET, aside=_u('"600 psi"', '"4 MPa"'),
+        note="Needed only where a [parting] bears on this wood; the built-in woods carry the Wood Handbook's "
+             "figure."),
 ), note="Use figures for clear wood at 12 % moisture content from a source you trust, and name it.")
+
+PARTING = Table("parting", "Where a two-piece spar comes apart (for the trailer or the shed) and how its parts "
+                "join.", short="a spar that comes apart: where, and how it joins", keys=(
+    Key("at", "length", "where the spar parts, from the heel", example=_u('"8 ft"', "2400")),
+    Key("kind", "choice", "how the parts join", default="wood-spigot", choices=PARTINGS,
+        example=_u('"wood-spigot"', '"wood-spigot"'),
+        choice_notes={
+            "wood-spigot": "a solid wooden spigot glued into the heel part's bore and sliding into the head part's, "
+                           "shaped to the bore: the bore's own polygon less the clearance all round, glued up from "
+                           "the same boards as the staves",
+            "tube-spigot": "a bought tube (`material`, `outside_diameter`, `wall`) glued into a plug bored for it in "
+                           "the heel part and sliding into a plug bored for it in the head part",
+            "sleeve": "a tube (`material`, `wall`) over the outside of the butt, its bore the spar's diameter there "
+                      "plus the clearance; both parts plugged under it",
+        }),
+    Key("overlap", "length", "how far the spigot (or sleeve) reaches into each part",
+        default=Words("chosen: the least of 2 to 4 diameters that keeps the bearing within the wood's"),
+        aside=_u("12", "300"),
+        note="Common practice (no published rule) brackets 2 to 4 of the spar's diameters at the parting. Left "
+             "out, stavegen takes the least overlap in that bracket at which the bearing pressure 6M/(d·L²) stays "
+             "within the wood's compression perpendicular to grain, or 4 diameters when none does (and the check "
+             "then fails)."),
+    Key("clearance", "length", "gap all round between the spigot and the bore it slides in (or the sleeve and "
+        "the spar)", default=PerUnit("1/64", 0.4), zero_ok=True, example=_u('"1/64"', "0.4"),
+        note="The head part can kink at the joint by about 2·clearance/overlap radians; the report gives the "
+             "angle."),
+    Key("wood", "wood", "the wooden spigot's wood", default=Words("the hollow spar's wood"),
+        aside=_u('"douglas-fir-coast"', '"douglas-fir-coast"')),
+    Key("material", "choice", "the tube's or the sleeve's material", default=UNSET, choices=tuple(tube_table()),
+        aside=_u('"aluminium-6061-t6"', '"aluminium-6061-t6"'),
+        note="Built-in materials, each with its source (from memory — verify against the supplier's figures)."),
+    Key("outside_diameter", "length", "the tube spigot's outside diameter", default=UNSET, aside=_u('"1 3/4"', "45")),
+    Key("wall", "length", "the tube's or the sleeve's wall thickness", default=UNSET, aside=_u('"1/8"', "3")),
+), note="The checks at the joint take the moment that breaks the plan's solid spar there (MOR·S·F), so the joint "
+        "is as strong as the plan at that station: the spigot (or sleeve) alone carries it across the butt, "
+        "with E·I and moment capacity at least the plan's; it passes to the bore as a pair of forces over the "
+        "overlap, a peak pressure of about 6M/(d·L²) held to the wood's compression perpendicular to grain "
+        "(Wood Handbook); the kink the clearance allows is reported. No plug may fill the bore where a spigot "
+        "goes; no scarf falls within the overlap or within one diameter of its ends.")
 
 TOP = Table("", "The spar file.", required=True, keys=(
     Key("spar", "table", SPAR.meaning),
@@ -349,9 +393,10 @@ TOP = Table("", "The spar file.", required=True, keys=(
     Key("hollow", "table", HOLLOW.meaning),
     Key("stock", "table", STOCK.meaning, default=UNSET),
     Key("output", "table", OUTPUT.meaning, default=Words("the defaults below")),
+    Key("parting", "table", PARTING.meaning, default=UNSET),
 ))
 
-SPAR_FILE: tuple[Table, ...] = (SPAR, PLAN, HOLLOW, NOTCH, PLUG, STOCK, OUTPUT, WOOD)
+SPAR_FILE: tuple[Table, ...] = (SPAR, PLAN, HOLLOW, NOTCH, PLUG, STOCK, OUTPUT, PARTING, WOOD)
 """Every table, in the order the reference and the starter file give them."""
 
 TABLES: dict[str, Table] = {t.path: t for t in (TOP,) + SPAR_FILE}

@@ -12,6 +12,7 @@ from typing import Literal, Union
 
 import numpy as np
 
+from .tubes import TubeMaterial
 from .woods import Wood
 
 AUTO = "auto"
@@ -29,6 +30,11 @@ SHAPES = ("round", "oval", "rectangle")  # plan.shape: a round, an ellipse, a re
 HOLLOW_SHAPES = ("round", "oval")  # hollow.shape
 SEPARATIONS = ("saw", "router")  # how neighbouring pieces are parted on a board (stock.separate_with)
 MIN_STAVES, MAX_STAVES = 4, 24
+# How a two-piece spar's parts join ([parting] kind): a wooden spigot shaped to the bore, a bought tube spigot
+# in plugs bored for it, or an outside sleeve over the butt.
+PARTINGS = ("wood-spigot", "tube-spigot", "sleeve")
+# The overlap a builder leaves to stavegen: common practice (no source) brackets 2 to 4 local diameters.
+OVERLAP_DIAMETERS = (2.0, 4.0)
 SLUG_LONGEST = 60  # characters of the file-name stem made from the spar's name
 
 
@@ -95,6 +101,31 @@ class Plug:
 
     def covers(self, z: float) -> bool:
         return self.start <= z <= self.end
+
+
+@dataclass(frozen=True)
+class Parting:
+    """Where a two-piece spar comes apart and how its parts join (mm).
+
+    The heel part ("lower") carries the spigot glued into its bore from ``at - overlap`` to ``at``; the head
+    part ("upper") slides over it from ``at`` to ``at + overlap``. A sleeve instead reaches ``overlap`` along the
+    outside of each part. ``overlap`` None: chosen by :mod:`stavegen.checks.parting` (2 to 4 diameters).
+    ``clearance`` is all round (radial). ``wood`` makes a wooden spigot; ``material``, ``outside_diameter``
+    and ``wall`` a tube spigot or a sleeve (a sleeve's bore is the spar's diameter plus the clearance).
+    """
+
+    at: float
+    kind: str = "wood-spigot"
+    overlap: float | None = None
+    clearance: float = 0.4
+    wood: Wood | None = None
+    material: TubeMaterial | None = None
+    outside_diameter: float | None = None
+    wall: float | None = None
+
+    @property
+    def is_spigot(self) -> bool:
+        return self.kind != "sleeve"
 
 
 @dataclass(frozen=True)
@@ -218,6 +249,8 @@ class Spar:
     source: str = ""
     head_load: float = DEFAULT_HEAD_LOAD
     head_load_given: bool = False
+    parting: Parting | None = None
+    """Where the spar comes apart, for a two-piece spar ([parting]); None for one piece."""
     notices: tuple[str, ...] = ()
     """Warnings the loader found (unlikely figures), one line each; the pipeline passes them on."""
 

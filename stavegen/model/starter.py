@@ -95,6 +95,8 @@ def starter_text(units: str = "in") -> str:
             out += _key(key, units, value=_MASTHEAD_PLUG[key.name], comment=False)
     out += [""] + _table(schema.STOCK, units) + [""]
     out += _table(schema.OUTPUT, units) + [""]
+    out += ["# A spar that comes apart (two pieces): remove the # before [parting] and the keys you use."]
+    out += _table(schema.PARTING, units, off=True) + [""]
     out += ["# A wood of your own: wherever a wood is asked for (plan, hollow, a plug), a table in place of the",
             "# wood's key. For the staves, delete wood = ... under [hollow] and write:"]
     out += _table(schema.WOOD, units, off=True)

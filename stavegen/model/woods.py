@@ -24,6 +24,9 @@ class Wood:
     density: float
     specific_gravity: float | None = None
     source: str = "defined in the spar file"
+    compression_perp: float | None = None
+    """Compression perpendicular to grain (fibre stress at the proportional limit), N/mm²: what a spigot or a
+    sleeve may press on the wood (:mod:`stavegen.checks.parting`); None when the file's own wood gives none."""
     family = "wood"  # not a field: every Wood is a wood (laminates say "laminate")
 
     @property
@@ -46,6 +49,7 @@ def wood_table() -> dict[str, Wood]:
             density=float(row["density_kg_m3"]),
             specific_gravity=row["specific_gravity"],
             source=row["source"],
+            compression_perp=row["compression_perp_psi"] * MPA_PER_PSI,
         )
         for key, row in rows.items()
     }

@@ -151,6 +151,18 @@ def _saved_words(design: Design) -> str:
     return f"{format_mass(-r.weight_saved, units)} heavier than the plan"
 
 
+def joint_words(design: Design) -> list[str]:
+    """One sentence for each joint of a two-piece spar: its figures against the plan's, and what binds."""
+    fig = Figures(design.spar)
+    out = []
+    for j in design.assessment.joints:
+        out.append(f"Joint at {fig.position(j.at)} ({j.kind}, overlap {fig.cut_length(j.overlap)}): "
+                   f"{'passes' if j.passed else 'FAILS'}; E·I {j.ei_ratio:.3f} and moment {j.strength_ratio:.3f} "
+                   f"of the plan's there, bearing {j.bearing_ratio:.3f} of the allowable, kink {j.kink_deg:.2f}°; "
+                   f"{j.binding} binds.")
+    return out
+
+
 def verdict(design: Design) -> Text:
     r = design.assessment
     spar = design.spar
@@ -165,6 +177,8 @@ def verdict(design: Design) -> Text:
         if r.strength_accepted_below_plan:
             text.append(f" The spar file accepts a spar weaker than the plan (min_strength_ratio "
                         f"{r.strength_target:g}).", style="bold yellow")
+        for line in joint_words(design):
+            text.append(" " + line)
     else:
         text = Text("FAIL ", style="bold red")
         text.append(" ".join(r.shortfalls()) + ".")
@@ -198,6 +212,8 @@ def print_build_summary(console: Console, design: Design, written: list) -> None
         table.add_row("scarfs", Prose((f"{lay.scarfs.count}, each {fig.cut_length(lay.scarfs.length)} long"
                                        + aimed_words(lay.scarf_aim)) if lay.scarfs.count
                                       else "none: every stave is one piece"))
+    for line in joint_words(design):
+        table.add_row("joint", Prose(line))
     saved = r.weight_saved
     table.add_row("weight saved", Prose(f"{format_mass(saved, spar.units)}, {100 * r.weight_saved_share:.0f} % "
                                         f"({format_mass(r.hollow.mass.mass, spar.units)} hollow against "

@@ -91,6 +91,31 @@ def cutlist_rows(design: Design) -> list[list[str]]:
         rows.append([number, text])
     for note in m.notes:
         rows.append(["note", note])
+    for joint in layout.joints:
+        rows += _joint_rows(design, joint, fig)
+    return rows
+
+
+def _joint_rows(design: Design, joint, fig: Figures) -> list[list[str]]:
+    """A two-piece spar's joint after the steps: the spigot's pieces (or the tube to buy), the order of assembly."""
+    from .wording import joint_step_words
+
+    rows: list[list[str]] = [[]]
+    boards = design.layout.board_of
+    blank = joint.spigot
+    if blank is not None:
+        rows.append(["spigot", f"glued up from {blank.layers} layers of the staves' boards, planed to "
+                               f"{fig.dress(blank.across_flats[1])} across the flats at the parting"])
+        rows.append(["label", "length", "rip width", "thickness", "board"])
+        for piece in (c.piece for b in design.layout.lumber.boards for r in b.rips for c in r.cuts):
+            if piece.stave == 0:
+                rows.append([piece.label, fig.cut_length(piece.length), fig.dress(piece.width),
+                             fig.dress(blank.layer_thickness), boards.get(piece.label, "")])
+    else:
+        rows.append([joint.check.kind, f"{joint.check.spigot.words}, buy {fig.cut_length(joint.bought_length)} long"])
+    rows.append(["joint: order of assembly"])
+    for k, line in enumerate(joint_step_words(fig, joint), start=1):
+        rows.append([str(k), line])
     return rows
 
 

@@ -66,6 +66,8 @@ LAYERS: dict[str, tuple[int, int, str]] = {
     "END-BORE": (8, 18, "end views: the bore"),
     "END-ROUND": (1, 25, "end views: the finished round"),
     "END-PLUG": (34, 25, "end views: plug sections at each plug end"),
+    "END-SPIGOT": (40, 25, "a two-piece spar's joint: the wooden spigot's outlines, or the tube's hole in its plugs"),
+    "END-FIT": (150, 25, "a two-piece spar's joint: bore-fit gauges of the upper part's bore the spigot slides in"),
     "SHEET-NOTES": (250, 18, "title, notes, captions and the check line"),
     "SHEET-WARNING": (1, 50, "a design that fails its target says so here: do not cut"),
     "BOARD-OUTLINE": (8, 50, "boards of the lumber order at true size (templates on boards): not to cut"),
@@ -163,7 +165,9 @@ def parts_on_boards(layout: Layout, clearance: Callable[[Segment], tuple[float, 
         for rip in board.rips:
             upper = top - rip.offset - edge
             for cut in rip.cuts:
-                seg = segments[cut.piece.label]
+                seg = segments.get(cut.piece.label)
+                if seg is None:  # a piece that is no stave segment (a spigot's layer): its own drawing shows it
+                    continue
                 out.append(Part(seg, (cut.offset, upper - max(y for _, y in seg.outline)), marks_outside=False))
         top -= board.size.width + 2 * gap
     return out
@@ -247,8 +251,9 @@ class TemplateSheet:
         return f"{self.pos(z)} from the heel"
 
     def description(self, seg: Segment) -> str:
-        count = len(self.layout.staves[seg.stave - 1])
-        return (f"{seg.label}: stave {seg.stave} of {len(self.layout.staves)}, segment {seg.index} of {count}, "
+        count = sum(1 for s in self.layout.staves[seg.stave - 1] if s.part == seg.part)
+        part = {"L": "LOWER PART, ", "U": "UPPER PART, "}.get(seg.part, "")
+        return (f"{seg.label}: {part}stave {seg.stave} of {len(self.layout.staves)}, segment {seg.index} of {count}, "
                 f"from {self.where(seg.start)} to {self.where(seg.end)}, {self.fig.cut_length(seg.length)} along the "
                 f"face; heel end at left")
 
@@ -390,6 +395,8 @@ class TemplateSheet:
         for block in lay.plugs:
             for end_name, end in (("heel", block.heel), ("head", block.head)):
                 items.append(self.plug_view(block.index, end_name, end))
+        for joint in lay.joints:
+            items += self.joint_views(joint)
         x = left
         tallest = 0.0
         caption_room = 5 * 1.6 * s.text
@@ -472,6 +479,50 @@ class TemplateSheet:
                    f"{n} sides, {self.fig.dress(end.across_flats)} across the flats",
                    f"{self.fig.dress(end.across_corners)} across the corners"]
         return draw, (-reach, -reach, reach, reach), caption
+
+    def joint_views(self, joint) -> list:
+        """A two-piece spar's joint at 1:1: the wooden spigot at its glued end, butt and tip (lower part), and
+        gauges of the upper part's bore at its mouth and at the spigot's tip; or a tube's hole in its plugs."""
+        j = joint.check
+        out = []
+
+        def ring_view(ring, layer: str, caption: list[str]):
+            ring = list(ring)
+            reach = max(math.hypot(x, y) for x, y in ring)
+
+            def draw(offset: Point) -> None:
+                self.pen.poly(_shift(ring, *offset), layer, closed=True)
+            return draw, (-reach, -reach, reach, reach), caption
+
+        def circle_view(radius: float, caption: list[str]):
+            def draw(offset: Point) -> None:
+                self.pen.circle(offset, radius, "END-SPIGOT")
+            return draw, (-radius, -radius, radius, radius), caption
+
+        blank = joint.spigot
+        if blank is not None:
+            lo, hi = j.at - j.overlap, j.at + j.overlap
+            for ring, flats, where, z in ((blank.glued_end, blank.across_flats[0], "glued end", lo),
+                                          (blank.butt, blank.across_flats[1], "butt (the parting)", j.at),
+                                          (blank.tip, blank.across_flats[2], "tip", hi)):
+                out.append(ring_view(ring, "END-SPIGOT", [
+                    f"SPIGOT, LOWER PART: {where}, {self.pos(z)} from the heel",
+                    f"{j.staves} sides, {self.fig.dress(flats)} across the flats"]))
+            for ring, where, z in ((blank.bore_at_butt, "mouth", j.at), (blank.bore_at_tip, "spigot's tip", hi)):
+                flats = 2 * max(math.hypot(x, y) for x, y in ring) * math.cos(math.pi / j.staves)
+                out.append(ring_view(ring, "END-FIT", [
+                    f"BORE FIT, UPPER PART: {where}, {self.pos(z)} from the heel",
+                    f"the bore, {self.size(flats)} across the flats: the spigot goes in",
+                    f"with {self.fig.units.length(j.clearance, step=self.fig.units.fine_step(j.clearance))} "
+                    "all round"]))
+        elif j.kind == "tube-spigot":
+            od = j.spigot.outside
+            out.append(circle_view(od / 2, [f"TUBE HOLE, LOWER PART: in plug {joint.plugs[0].index}" if joint.plugs
+                                            else "TUBE HOLE, LOWER PART", f"{self.size(od)} across: a glue fit"]))
+            out.append(circle_view(od / 2 + j.clearance, [
+                f"TUBE HOLE, UPPER PART: in plug {joint.plugs[-1].index}" if joint.plugs else "TUBE HOLE, UPPER PART",
+                f"{self.size(od + 2 * j.clearance)} across: the tube slides in"]))
+        return out
 
     # Notes -----------------------------------------------------------------
     def notes(self, left: float, bottom: float, on_boards: bool = False) -> None:

@@ -10,6 +10,7 @@ from typing import TYPE_CHECKING, Any
 
 from .. import __version__
 from ..cautions import CAUTIONS
+from ..checks.parting import JointCheck
 from ..checks.ratios import ATHWARTSHIPS, DIRECTIONS, FORE_AFT, StationCheck
 from ..model.woods import Wood
 from ..pipeline import Design
@@ -33,6 +34,7 @@ def _wood(wood: Wood) -> dict[str, Any]:
         "mor_mpa": wood.mor,
         "density_kg_m3": wood.density,
         "specific_gravity": wood.specific_gravity,
+        "compression_perp_mpa": wood.compression_perp,
         "source": wood.source,
     }
 
@@ -96,6 +98,43 @@ def _station(check: StationCheck) -> dict[str, Any]:
     }
 
 
+def _joint(j: JointCheck) -> dict[str, Any]:
+    """One joint of a two-piece spar: the promised keys first, then the inputs of its checks."""
+    return {
+        "at_mm": j.at,
+        "overlap_mm": j.overlap,
+        "spigot_EI_Nmm2": j.spigot.ei,
+        "plan_EI_Nmm2": j.plan.ei,
+        "bearing_mpa": j.bearing,
+        "bearing_allowable_mpa": j.bearing_allowable,
+        "kink_deg": j.kink_deg,
+        "passed": j.passed,
+        "kind": j.kind,
+        "overlap_chosen": j.overlap_chosen,
+        "clearance_mm": j.clearance,
+        "spar_od_mm": j.spar_diameter,
+        "bore_across_flats_mm": j.bore,
+        "plan_od_mm": 2 * (4 * j.plan.inertia / math.pi) ** 0.25,
+        "moment_Nmm": j.moment,
+        "force_pair_N": j.force,
+        "spigot": {"words": j.spigot.words, "outside_mm": j.spigot.outside, "inside_mm": j.spigot.inside,
+                   "I_mm4": j.spigot.inertia, "moment_capacity_Nmm": j.spigot.moment_capacity,
+                   "bearing_width_mm": j.spigot.bearing_width},
+        "ei_ratio": j.ei_ratio,
+        "strength_ratio": j.strength_ratio,
+        "bearing_ratio": j.bearing_ratio,
+        "ei_ok": j.ei_ok,
+        "strength_ok": j.strength_ok,
+        "bearing_ok": j.bearing_ok,
+        "bearing_wood": j.bearing_wood,
+        "binding": j.binding,
+        "problem": j.problem or None,
+        "glued_mm": list(j.glued),
+        "sliding_mm": list(j.sliding),
+        "reasons": j.reasons(),
+    }
+
+
 def document(design: Design) -> dict[str, Any]:
     """Every computed figure of ``design`` as plain JSON-ready data."""
     spar = design.spar
@@ -124,8 +163,10 @@ def document(design: Design) -> dict[str, Any]:
             "solved": list(design.solved),
         },
         "woods": {"plan": _wood(spar.plan.wood), "hollow": _wood(hollow.wood),
-                  "plugs": [_wood(p.wood) for p in hollow.plugs]},
+                  "plugs": [_wood(p.wood) for p in hollow.plugs],
+                  "spigot": _wood(spar.parting.wood) if spar.parting and spar.parting.wood else None},
         "stations": [_station(c) for c in result.stations],
+        "joints": [_joint(j) for j in result.joints],
         "check": {
             "passed": result.passed,
             "ei_target": result.ei_target,
@@ -137,6 +178,7 @@ def document(design: Design) -> dict[str, Any]:
             "strength_target_given": hollow.strength_target_given,
             "stiffness_met": result.stiffness_met,
             "strength_met": result.strength_met,
+            "joints_met": result.joints_met,
             "shortfalls": result.shortfalls(),
             **{f"min_{what}_ratio_{way}{tail}": value
                for way in DIRECTIONS

@@ -341,6 +341,8 @@ def station_table(r: Report) -> list:
             note.append("least EI")
         if c is least_strength:
             note.append("least strength")
+        if "parting" in s.reasons:
+            note.append("parting")
         if a.two_axis:  # both dimensions, the widest and narrowest stave, each ratio fore-and-aft / athwartships
             from ..checks.ratios import ATHWARTSHIPS, FORE_AFT
 
@@ -822,7 +824,12 @@ def scarf_map(r: Report) -> list:
         d.add(Rect(X(a), bottom, X(b) - X(a), n * row_h, fillColor=shade, strokeColor=None))
         d.add(String((X(a) + X(b)) / 2, top + 3, "no scarf", fontName=FONT, fontSize=6.5, textAnchor="middle",
                      fillColor=FAIL_RED))
-    for z, words in ((0.0, "heel"), (spar.length, "head")):
+    for joint in lay.joints:  # a two-piece spar: the range kept clear of scarfs round the joint, the parting
+        a, b = joint.keep_clear
+        d.add(Rect(X(a), bottom, X(b) - X(a), n * row_h, fillColor=shade, strokeColor=None))
+        d.add(String((X(a) + X(b)) / 2, top + 3, "joint: no scarf", fontName=FONT, fontSize=6.5,
+                     textAnchor="middle", fillColor=FAIL_RED))
+    for z, words in ((0.0, "heel"), (spar.length, "head")) + tuple((j.check.at, "parting") for j in lay.joints):
         d.add(Line(X(z), bottom - 2, X(z), top + 2, strokeWidth=0.6, strokeDashArray=(2, 2)))
         d.add(String(X(z), top + 12, words, fontName=BOLD, fontSize=7, textAnchor="middle"))
     fills = (colors.Color(0.84, 0.89, 0.95), colors.Color(0.70, 0.80, 0.91))
@@ -837,6 +844,8 @@ def scarf_map(r: Report) -> list:
             at = X(segs[i - 1].end) if i > 0 else X(seg.start)
             d.add(String(at + 3, y + 2, seg.label, fontName=FONT, fontSize=6, textAnchor="start"))
         for prev, nxt in zip(segs, segs[1:]):
+            if not prev.scarf_at_end:  # a two-piece spar's parts meet at the parting: no scarf there
+                continue
             d.add(Rect(X(nxt.start), y - 1, X(prev.end) - X(nxt.start), bar_h + 2, fillColor=colors.black,
                        strokeColor=None))
         for c in lay.scarfs.centres[k]:
@@ -857,7 +866,7 @@ def scarf_map(r: Report) -> list:
     d.add(String(left + span / 2, bottom - 25, x_words, fontName=FONT, fontSize=7, textAnchor="middle"))
     rows = [["stave", "scarfs: centre from the heel (the scarf runs from ... to ...)"]]
     for k, (centres, segs) in enumerate(zip(lay.scarfs.centres, lay.staves), start=1):
-        spans = [(nxt.start, prev.end) for prev, nxt in zip(segs, segs[1:])]
+        spans = [(nxt.start, prev.end) for prev, nxt in zip(segs, segs[1:]) if prev.scarf_at_end]
         rows.append([f"S{k}", ";  ".join(f"{r.where(c)} ({r.where(a)} to {r.where(b)})"
                                          for c, (a, b) in zip(centres, spans)) or "none: one piece"])
     table = _table([list(row) for row in rows], widths=[16 * MM, r.width - 16 * MM],
@@ -1117,8 +1126,167 @@ def cutter_settings(r: Report) -> list:
 
 
 # The report's parts, in order.
+# The joint of a two-piece spar -----------------------------------------------------------------------------
+
+JOINT_SOURCES = (
+    "How the joint is checked. The moment is the one that breaks the plan's solid spar at the parting, M = MOR·S·F "
+    "(S = πD³/32, F = 1.18 for a round: Newlin & Trayer, NACA Report 181, 1924; from memory — verify), so the joint "
+    "is as strong as the plan there; no rig load is guessed. Across the butt the spigot (or sleeve) carries it "
+    "alone: its E·I and moment capacity must reach the plan's there (section properties from Roark's Formulas for "
+    "Stress and Strain). It passes the moment to the bore as a pair of forces over the overlap L: taken as a "
+    "pressure linear along L (a rigid member in an elastic bed), the peak is 6M/(d·L²), d the width it bears "
+    "across, held below the wood's compression perpendicular to grain at the proportional limit (USDA FPL Wood "
+    "Handbook FPL-GTR-282, table 5-3a; from memory — verify). A clearance c all round lets the upper part lean "
+    "about 2c/L before the spigot bears. The overlap of 2 to 4 diameters is common practice, not a published "
+    "rule. None of this replaces a designer: a two-piece spar is not the plan's spar, and where a class rule or a "
+    "survey applies it governs.")
+
+
+def joint_page(r: Report) -> list:
+    """A two-piece spar's joint: the checks with their inputs, a drawing of the overlap, the order of assembly."""
+    joints = r.design.assessment.joints
+    if not joints:
+        return []
+    out: list = []
+    laid = {round(jl.check.at, 6): jl for jl in (r.layout.joints if r.layout is not None else ())}
+    u = r.fig.units
+    for j in joints:
+        jl = laid.get(round(j.at, 6))
+        verdict = PASS_WORD if j.passed else FAIL_WORD
+        how = (f"chosen by the rule: the least of 2 to 4 diameters ({r.length(2 * j.spar_diameter)} to "
+               f"{r.length(4 * j.spar_diameter)}) that keeps the bearing within the wood's" if j.overlap_chosen
+               else "as the spar file gives it")
+        shape = {"wood-spigot": f", {j.staves}-sided, shaped to the bore",
+                 "tube-spigot": f", {r.length(j.spigot.outside)} across, {r.length((j.spigot.outside - j.spigot.inside) / 2)} wall",
+                 "sleeve": f" over the spar, {r.length((j.spigot.outside - j.spigot.inside) / 2)} wall"}[j.kind]
+        intro = (f"The spar comes apart {r.where(j.at)} from the heel, joined by a {j.spigot.words}{shape}. Overlap {r.fig.cut_length(j.overlap)} into each part ({how}); clearance "
+                 f"{u.length(j.clearance, step=u.fine_step(j.clearance))} all round. The plan's spar there is "
+                 f"{r.length(2 * (4 * j.plan.inertia / math.pi) ** 0.25)} across and breaks under "
+                 f"{_moment_words(r, j.moment)}; the force pair over the overlap is {format_force(j.force, r.spar.units)} "
+                 f"each.")
+        rows = [["check", "the joint", "needs", "ratio", "verdict"],
+                ["stiffness across the butt: E·I", _ei_words(r, j.spigot.ei), f"{_ei_words(r, j.plan.ei)} × "
+                 f"{j.ei_target:.3f}", f"{j.ei_ratio:.3f}", "ok" if j.ei_ok else FAIL_WORD],
+                ["strength across the butt: moment", _moment_words(r, j.spigot.moment_capacity),
+                 f"{_moment_words(r, j.moment)} × {j.strength_target:.3f}", f"{j.strength_ratio:.3f}",
+                 "ok" if j.strength_ok else FAIL_WORD],
+                [f"bearing 6M/(d·L²), d = {r.length(j.spigot.bearing_width)}", u.stress(j.bearing),
+                 f"at most {u.stress(j.bearing_allowable)} ({j.bearing_wood}, across the grain)",
+                 f"{j.bearing_ratio:.3f}", "ok" if j.bearing_ok else FAIL_WORD],
+                ["kink the clearance allows, 2c/L", f"{j.kink_deg:.2f}°", "reported", "", ""]]
+        if j.problem:
+            rows.append(["can it be made?", j.problem, "", "", FAIL_WORD])
+        table = _table([[Paragraph(r.t(c), r.styles["cell"]) for c in row] for row in rows],
+                       widths=[w * r.width for w in (0.27, 0.19, 0.31, 0.09, 0.14)], align_right_from=3)
+        binding = {"stiffness": "stiffness (E·I)", "strength": "strength (moment)", "bearing": "bearing"}[j.binding]
+        out += [PageBreak(), r.h2(f"The joint at {r.where(j.at)}: {verdict}"), r.p(r.t(intro), "small"),
+                Spacer(1, 4), table, Spacer(1, 3),
+                r.p(r.t(f"The check that binds: {binding}. ") + " ".join(r.t(x) + "." for x in j.reasons()), "small")]
+        if jl is not None:
+            out += [Spacer(1, 6), _joint_drawing(r, jl), Spacer(1, 4)]
+            out.append(r.p("<b>Order of assembly</b>"))
+            from .wording import joint_step_words
+
+            for k, line in enumerate(joint_step_words(r.fig, jl), start=1):
+                out.append(KeepTogether([Paragraph(r.t(line), r.styles["body"], bulletText=f"{k}."), Spacer(1, 2)]))
+            if jl.spigot is not None:
+                out.append(r.p(r.t(f"The spigot's pieces ({', '.join(jl.spigot.labels)}) are in the board order and "
+                                   "the cutting diagrams with the staves; the templates carry the spigot's outlines "
+                                   "and the bore-fit gauges, each labelled with its part. Stave segments are "
+                                   "lettered L- (lower part) and U- (upper part)."), "small"))
+        out += [Spacer(1, 4), r.p(r.t(JOINT_SOURCES), "small")]
+    return out
+
+
+def _moment_words(r: Report, nmm: float) -> str:
+    if r.spar.units == "in":
+        return f"{nmm / N_PER_LBF / MM_PER_INCH:,.0f} lbf·in"
+    return f"{nmm / 1e6:,.2f} kN·m"
+
+
+def _ei_words(r: Report, nmm2: float) -> str:
+    if r.spar.units == "in":
+        return f"{nmm2 / N_PER_LBF / MM_PER_INCH ** 2 / 1e6:,.2f} million lbf·in²"
+    return f"{nmm2 / 1e9:,.1f} kN·m²"
+
+
+def _joint_drawing(r: Report, jl) -> Drawing:
+    """The overlap in long section, to scale: both parts' walls, the spigot (glued half and sliding half), the
+    plugs, the force pair, the overlap dimensioned each way."""
+    j = jl.check
+    prof = jl.profile
+    z0, z1 = prof[0][0], prof[-1][0]
+    rmax = max(p[1] for p in prof)
+    pad_x, pad_y = 20.0, 34.0
+    k = min((r.width - 2 * pad_x) / (z1 - z0), 150.0 / (2 * rmax))
+    height = 2 * rmax * k + 2 * pad_y
+    d = Drawing(r.width, height)
+    cy = height / 2
+
+    def P(z: float, y: float) -> tuple[float, float]:
+        return pad_x + (z - z0) * k, cy + y * k
+
+    lower = [p for p in prof if p[0] <= j.at + 1e-9]
+    upper = [p for p in prof if p[0] >= j.at - 1e-9]
+    gap = 0.6 / k  # a hairline at the butt
+    for part, fill, shift in ((lower, WOOD, -gap), (upper, colors.Color(0.86, 0.78, 0.62), gap)):
+        for sign in (1, -1):
+            outer = [P(z + (shift if abs(z - j.at) < 1e-9 else 0), sign * rad) for z, rad, _ in part]
+            inner = [P(z + (shift if abs(z - j.at) < 1e-9 else 0), sign * bore) for z, _, bore in part]
+            pts = [c for xy in outer + inner[::-1] for c in xy]
+            d.add(Polygon(pts, fillColor=fill, strokeColor=colors.black, strokeWidth=0.5))
+    for block in jl.plugs:
+        a, b = block.plug.start, block.plug.end
+        ya, yb = block.heel.across_flats / 2, block.head.across_flats / 2
+        pts = [c for xy in (P(a, ya), P(b, yb), P(b, -yb), P(a, -ya)) for c in xy]
+        d.add(Polygon(pts, fillColor=PALE_WOOD, strokeColor=colors.black, strokeWidth=0.4, strokeDashArray=(2, 1)))
+        d.add(String(P((a + b) / 2, 0)[0], cy - 3, f"plug {block.index}", fontName=FONT, fontSize=6,
+                     textAnchor="middle"))
+    lo, hi = j.at - j.overlap, j.at + j.overlap
+    if jl.spigot is not None:
+        ga, gb, gc = (f / 2 for f in jl.spigot.across_flats)
+        glued = [c for xy in (P(lo, ga), P(j.at, gb), P(j.at, -gb), P(lo, -ga)) for c in xy]
+        slide = [c for xy in (P(j.at, gb), P(hi, gc), P(hi, -gc), P(j.at, -gb)) for c in xy]
+        d.add(Polygon(glued, fillColor=colors.Color(0.55, 0.40, 0.25), strokeColor=colors.black, strokeWidth=0.6))
+        d.add(Polygon(slide, fillColor=colors.Color(0.75, 0.60, 0.42), strokeColor=colors.black, strokeWidth=0.6))
+    elif j.kind == "tube-spigot":
+        ro, ri = j.spigot.outside / 2, j.spigot.inside / 2
+        for sign in (1, -1):
+            pts = [c for xy in (P(lo, sign * ro), P(hi, sign * ro), P(hi, sign * ri), P(lo, sign * ri)) for c in xy]
+            d.add(Polygon(pts, fillColor=colors.Color(0.75, 0.78, 0.82), strokeColor=colors.black, strokeWidth=0.6))
+    else:
+        ri, ro = j.spigot.inside / 2, j.spigot.outside / 2
+        for sign in (1, -1):
+            pts = [c for xy in (P(lo, sign * ri), P(hi, sign * ri), P(hi, sign * ro), P(lo, sign * ro)) for c in xy]
+            d.add(Polygon(pts, fillColor=colors.Color(0.75, 0.78, 0.82), strokeColor=colors.black, strokeWidth=0.6))
+    word_glued = "glued" if j.kind != "sleeve" else "sleeve glued"
+    d.add(String(P((lo + j.at) / 2, 0)[0], cy + 3, word_glued, fontName=BOLD, fontSize=6.5, textAnchor="middle",
+                 fillColor=colors.white if jl.spigot is not None else colors.black))
+    d.add(String(P((j.at + hi) / 2, 0)[0], cy + 3, "slides", fontName=BOLD, fontSize=6.5, textAnchor="middle"))
+    # The force pair: at the mouth of the upper part and at the spigot's tip, opposite ways.
+    top = rmax * k
+    for z, up in ((j.at, True), (hi, False)):
+        x = P(z, 0)[0]
+        y0, y1 = (cy + top + 16, cy + top + 2) if up else (cy - top - 16, cy - top - 2)
+        d.add(Line(x, y0, x, y1, strokeColor=FAIL_RED, strokeWidth=1.2))
+        _arrow(d, x, y1, 0, -1 if up else 1, 4)
+    d.add(String(P(j.at, 0)[0] + 4, cy + top + 10, f"M/L = {format_force(j.force, r.spar.units)}", fontName=FONT,
+                 fontSize=6.5, fillColor=FAIL_RED))
+    d.add(String(P(hi, 0)[0] + 4, cy - top - 14, "M/L", fontName=FONT, fontSize=6.5, fillColor=FAIL_RED))
+    # Overlap dimensions, each way from the butt.
+    yd = cy - top - 26
+    for a, b in ((lo, j.at), (j.at, hi)):
+        _dim(d, (P(a, 0)[0], yd), (P(b, 0)[0], yd), r.fig.cut_length(j.overlap), ((P(a, 0)[0] + P(b, 0)[0]) / 2, yd + 2))
+    d.add(String(P(z0, 0)[0], cy + top + 6, "lower part", fontName=BOLD, fontSize=7, textAnchor="start"))
+    d.add(String(P(z1, 0)[0], cy + top + 6, "upper part", fontName=BOLD, fontSize=7, textAnchor="end"))
+    d.add(String(P(j.at, 0)[0], height - 8, f"parting {r.where(j.at)}", fontName=FONT, fontSize=6.5,
+                 textAnchor="middle"))
+    return d
+
+
 SECTIONS: tuple[Section_, ...] = (title_and_verdict, cautions, summary, station_table, section_drawing, ei_plot,
-                                  cut_list, board_order, scarf_map, order_of_operations, cutter_settings, plugs)
+                                  cut_list, board_order, scarf_map, order_of_operations, cutter_settings, plugs,
+                                  joint_page)
 
 
 # Pages ---------------------------------------------------------------------------------------------------------

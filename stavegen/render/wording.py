@@ -16,7 +16,7 @@ from typing import TYPE_CHECKING
 
 from ..layout.machining import CutterSettings, Lean, SawPass
 from ..layout.operations import Step
-from ..units import MM_PER_FOOT, MM_PER_INCH, format_inches, format_tape
+from ..units import MM_PER_FOOT, MM_PER_INCH, Way, format_inches, format_tape
 from .figures import Figures
 
 if TYPE_CHECKING:  # for annotations only: the lumber solver loads scipy.optimize, which `check` never needs
@@ -190,3 +190,26 @@ def aimed_words(aim) -> str:
         return ""
     return (f"; placed for the boards: the cutting plan uses {board_feet_words(aim.board_feet)} board feet, against "
             f"{board_feet_words(aim.slack_first_board_feet)} with the scarfs placed for the rules alone")
+
+
+def joint_step_words(fig, joint) -> list[str]:
+    """A two-piece spar's order of assembly, each step's figures worded in the spar's units (positions as
+    positions, sizes as dressed sizes, counts as counts)."""
+    out = []
+    for text, figures in joint.steps:
+        words = {}
+        for name, mm in figures.items():
+            if name.endswith("_n"):
+                words[name] = f"{mm:.0f}"
+            elif name in ("at", "lo", "a", "b"):
+                words[name] = fig.position(mm)
+            elif name == "clearance":  # down, on a grid fine enough to show it (1/64 in)
+                words[name] = fig.units.length(mm, Way.DOWN, step=fig.units.fine_step(mm))
+            elif name == "od":
+                words[name] = fig.describe(mm)
+            elif name in ("glued", "butt", "tip", "d"):
+                words[name] = fig.dress(mm)  # a plug to fit: wood left to take off
+            else:
+                words[name] = fig.cut_length(mm)
+        out.append(text.format(**words))
+    return out

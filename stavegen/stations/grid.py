@@ -32,6 +32,8 @@ def station_marks(spar: Spar, extra: dict[str, list[float]] | None = None) -> tu
         found += [(z, "wall") for z in spar.hollow.wall.z]
     for plug in spar.hollow.plugs:
         found += [(plug.start, "plug"), (plug.end, "plug")]
+    if spar.parting is not None:  # a two-piece spar is checked, and marked across both parts, where it parts
+        found.append((spar.parting.at, "parting"))
     step = spar.output.mark_spacing
     k = 1
     while k * step < spar.length - MERGE_TOLERANCE:
