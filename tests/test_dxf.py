@@ -210,8 +210,8 @@ def check_templates(result, path: Path, dxf: DxfFile, on_boards: bool = False) -
             # An end lies on the outline itself: measure a micrometre inside it (the width there differs by less).
             measured = width_across(poly, min(max(x0 + x, x0 + 1e-3), x1 - 1e-3))
             section = cache.at(z)
-            expected = [section.stave_width]
-            if spar.hollow.joint.kind == "birdsmouth-flush":
+            expected = [section.widths[seg.stave - 1]]  # this stave's own (an oval's staves differ)
+            if spar.hollow.joint.kind == "birdsmouth-flush" and not spar.hollow.two_axis:
                 expected.append(2 * section.outer_apothem * math.tan(math.pi / n))
             for w in expected:
                 worst = max(worst, abs(measured - w))
@@ -231,15 +231,23 @@ def check_templates(result, path: Path, dxf: DxfFile, on_boards: bool = False) -
         assert any(poly.buffer(1e-6).contains(LineString([(ax, ay), (bx, by)])) for poly in polygons)
 
     # End views: the finished round as circles, the staves placed round without overlap, the plug N-gons.
-    circles = sorted(float(c.first(40)) * unit for c in dxf.on("END-ROUND", "CIRCLE"))
-    assert circles == pytest.approx(sorted([layout.widest_section.radius, layout.narrowest_section.radius]))
+    if spar.hollow.two_axis:  # an oval's finished outline drawn as a polyline: as wide and deep as the section
+        ovals = [Polygon([(x * unit, y * unit) for x, y in e.points]) for e in dxf.on("END-ROUND", "LWPOLYLINE")]
+        wholes = sorted((s.assembled for s in (layout.widest_section, layout.narrowest_section)),
+                        key=lambda s: s.fore_aft)
+        for oval, whole in zip(sorted(ovals, key=lambda p: p.bounds[2] - p.bounds[0]), wholes):
+            assert oval.bounds[2] - oval.bounds[0] == pytest.approx(whole.fore_aft, rel=1e-9)
+            assert oval.bounds[3] - oval.bounds[1] == pytest.approx(whole.athwartships, rel=1e-9)
+    else:
+        circles = sorted(float(c.first(40)) * unit for c in dxf.on("END-ROUND", "CIRCLE"))
+        assert circles == pytest.approx(sorted([layout.widest_section.radius, layout.narrowest_section.radius]))
     rings = [Polygon([(x * unit, y * unit) for x, y in e.points]) for e in dxf.on("END-STAVE", "LWPOLYLINE")]
     assert len(rings) == 2 + 2 * n
     assembled = rings[2:2 + n]
     for a in range(n):
         for b in range(a + 1, n):
             assert assembled[a].intersection(assembled[b]).area <= 1e-6 * assembled[a].area
-    if spar.hollow.joint.kind in ("birdsmouth-flush", "bevel"):
+    if spar.hollow.joint.kind in ("birdsmouth-flush", "bevel") and not spar.hollow.two_axis:
         a_o = layout.widest_section.outer_apothem
         ngon = n * a_o**2 * math.tan(math.pi / n)  # regular N-gon of apothem a_o
         assert shapely.union_all(assembled).convex_hull.area == pytest.approx(ngon, rel=1e-6)
@@ -251,7 +259,10 @@ def check_templates(result, path: Path, dxf: DxfFile, on_boards: bool = False) -
     assert len(plugs) == len(ends)
     for poly, end in zip(plugs, ends):
         assert len(poly.exterior.coords) - 1 == n
-        assert 4 * poly.area / poly.length == pytest.approx(end.across_flats, rel=1e-9)
+        if spar.hollow.two_axis:  # an oval's bore: its flats facing fore-and-aft bound it across the sheet
+            assert poly.bounds[2] - poly.bounds[0] == pytest.approx(end.across_flats, rel=1e-9)
+        else:
+            assert 4 * poly.area / poly.length == pytest.approx(end.across_flats, rel=1e-9)
     # Nothing drawn for the end views or the notes lies on a part.
     cut_area = shapely.union_all(polygons)
     for e in dxf.entities:

@@ -9,7 +9,8 @@ from ..stations.evaluate import SectionCache, Station, evaluate_stations, region
 from ..stations.grid import StationMark, intervals
 from .parting import JointCheck, check_joints
 from .beam import MassFigures, euler_load, mass_and_centre, tip_deflection
-from .ratios import StationCheck, Stiffness, check_station, hollow_round, solid_round
+from .ratios import (ATHWARTSHIPS, DIRECTIONS, FORE_AFT, StationCheck, Stiffness, check_station, hollow_round,
+                     hollow_stiffness, plan_stiffness, solid_round)
 
 @dataclass(frozen=True)
 class SparFigures:
@@ -19,6 +20,18 @@ class SparFigures:
     tip_deflection: float
     euler_load: float
     head_load: float
+    direction: str = ""
+    """For a spar that is not round, the direction of ``tip_deflection`` and ``euler_load``: the weaker
+    (:data:`~stavegen.checks.ratios.FORE_AFT` or ``ATHWARTSHIPS``); empty for a round spar."""
+    by_direction: tuple[tuple[str, float, float], ...] = ()
+    """(direction, head deflection mm, Euler load N) in each direction, for a spar that is not round."""
+
+    def in_direction(self, direction: str) -> tuple[float, float]:
+        """(head deflection mm, Euler load N) bending in ``direction`` (the same both ways for a round)."""
+        for name, deflection, euler in self.by_direction:
+            if name == direction:
+                return deflection, euler
+        return self.tip_deflection, self.euler_load
 
     @property
     def head_stiffness(self) -> float:
@@ -85,6 +98,17 @@ class Assessment:
         return pick(self.hollow) / pick(self.plan)
 
     @property
+    def two_axis(self) -> bool:
+        """True when the hollow spar or the plan is not round: every figure is given in both directions."""
+        return self.spar.hollow.two_axis or self.spar.plan.shape != "round"
+
+    def weakest_stiffness_in(self, direction: str) -> StationCheck:
+        return min(self.stations, key=lambda s: s.ei_ratio_in(direction))
+
+    def weakest_strength_in(self, direction: str) -> StationCheck:
+        return min(self.stations, key=lambda s: s.strength_ratio_in(direction))
+
+    @property
     def weakest_stiffness(self) -> StationCheck:
         return min(self.stations, key=lambda s: s.ei_ratio)
 
@@ -145,24 +169,39 @@ def _stretch_figures(spar: Spar, cache: SectionCache, marks: tuple[StationMark, 
     stretches = intervals(positions)
     plan: list[tuple[Stiffness, Stiffness, Stiffness]] = []
     hollow: list[tuple[Stiffness, Stiffness, Stiffness]] = []
+    round_plan = spar.plan.shape == "round"
     for stretch in stretches:
         plug = spar.hollow.plug_at(stretch[1])
-        plan.append(tuple(solid_round(spar, float(spar.plan.diameter.at(z))) for z in stretch))
+        plan.append(tuple(solid_round(spar, float(spar.plan.diameter.at(z))) if round_plan
+                          else plan_stiffness(spar, z) for z in stretch))
         middle = stretch[1]  # a stretch never straddles a plug's, a layer's or a strip's end: its middle decides
-        hollow.append(tuple(hollow_round(spar, regions_at(spar, cache.at(z, cover=middle), plug, middle))
-                            for z in stretch))
+        hollow.append(tuple(hollow_stiffness(spar, cache.at(z, cover=middle), plug, middle) for z in stretch))
     return stretches, plan, hollow
 
 
-def _figures(spar: Spar, stretches, stiffness, load: float) -> SparFigures:
-    ei = [tuple(s.ei for s in triple) for triple in stiffness]
+def _figures(spar: Spar, stretches, stiffness, load: float, direction: str = "") -> SparFigures:
+    """Mass, centre and the beam figures; bending in ``direction`` (empty: a round's single stiffness), with
+    both directions' figures kept for a spar that is not round."""
     mass = [tuple(s.mass_per_length for s in triple) for triple in stiffness]
-    return SparFigures(
-        mass=mass_and_centre(stretches, mass),
-        tip_deflection=tip_deflection(stretches, ei, spar.length, load),
-        euler_load=euler_load(stretches, ei, spar.length),
-        head_load=load,
-    )
+
+    def beam(way: str) -> tuple[float, float]:
+        ei = [tuple((s.ei_in(way) if way else s.ei) for s in triple) for triple in stiffness]
+        return tip_deflection(stretches, ei, spar.length, load), euler_load(stretches, ei, spar.length)
+
+    if not direction:
+        deflection, euler = beam("")
+        return SparFigures(mass=mass_and_centre(stretches, mass), tip_deflection=deflection, euler_load=euler,
+                           head_load=load)
+    both = tuple((way, *beam(way)) for way in DIRECTIONS)
+    _, deflection, euler = next(b for b in both if b[0] == direction)
+    return SparFigures(mass=mass_and_centre(stretches, mass), tip_deflection=deflection, euler_load=euler,
+                       head_load=load, direction=direction, by_direction=both)
+
+
+def weaker_direction(stiffness) -> str:
+    """The direction the hollow spar bends most easily in: the one with the smaller E·I summed along it."""
+    totals = {way: sum(1 / s.ei_in(way) for triple in stiffness for s in triple) for way in DIRECTIONS}
+    return max(DIRECTIONS, key=lambda way: totals[way])
 
 
 def _region_key(region) -> tuple[str, str, str]:
@@ -178,6 +217,8 @@ def region_totals(stations: tuple[StationCheck, ...], stretches, hollow) -> tupl
     masses: dict[tuple[str, str, str], float] = {}
     found: dict[tuple[str, str, str], object] = {}
     for (z0, zm, z1), triple in zip(stretches, hollow):
+        if any(s.regions is None for s in triple):
+            return ()
         per = [{_region_key(r): s.regions.mass_of(r) for r in s.regions.regions} for s in triple]
         for key in set().union(*per):
             f0, fm, f1 = (p.get(key, 0.0) for p in per)
@@ -192,6 +233,8 @@ def region_totals(stations: tuple[StationCheck, ...], stretches, hollow) -> tupl
         at_weakest = None  # the region may not reach the station of least EI ratio
         for c in stations:
             regions = c.hollow.regions
+            if regions is None:
+                continue
             here = [r for r in regions.regions if _region_key(r) == key]
             if not here:
                 continue
@@ -213,11 +256,13 @@ def assess(spar: Spar, marks: tuple[StationMark, ...] | None = None, cache: Sect
     checks = tuple(check_station(spar, s) for s in stations)
     used_marks = tuple(StationMark(s.z, s.reasons) for s in stations)
     stretches, plan, hollow = _stretch_figures(spar, cache, used_marks)
+    two_axis = spar.hollow.two_axis or spar.plan.shape != "round"
+    direction = weaker_direction(hollow) if two_axis else ""
     return Assessment(
         spar=spar,
         stations=checks,
-        plan=_figures(spar, stretches, plan, spar.head_load),
-        hollow=_figures(spar, stretches, hollow, spar.head_load),
+        plan=_figures(spar, stretches, plan, spar.head_load, direction),
+        hollow=_figures(spar, stretches, hollow, spar.head_load, direction),
         regions=region_totals(checks, stretches, hollow),
         joints=check_joints(spar, cache),
     )

@@ -31,7 +31,7 @@ from dataclasses import dataclass
 
 from ..model.spar import Plug, Spar
 from ..section.regions import Limit, RegionSection
-from ..stations.evaluate import Station, regions_of
+from ..stations.evaluate import Station, regions_at, regions_of
 
 # Form factors relative to a rectangular test beam (Newlin & Trayer 1924, from memory — verify).
 ROUND_FORM_FACTOR = 1.18
@@ -39,6 +39,8 @@ RECTANGLE_FORM_FACTOR = 1.0
 RECTANGLE_SHAPE_FACTOR = 1.5  # Z/S of a rectangle: (bh²/4)/(bh²/6)
 ROUND_SHAPE_FACTOR = 16 / (3 * math.pi)  # Z/S of a solid round: (D³/6)/(πD³/32)
 TOLERANCE = 1e-12  # relative: a ratio this close below its target is roundoff, not a shortfall
+FORE_AFT, ATHWARTSHIPS = "fore_aft", "athwartships"
+DIRECTIONS = (FORE_AFT, ATHWARTSHIPS)
 
 
 def form_factor(shape_factor: float) -> float:
@@ -64,6 +66,37 @@ class Stiffness:
     first_limit: Limit | None = None
     limits: tuple[Limit, ...] = ()
     """For the hollow section: its material regions, and the one whose material reaches its limit first."""
+    # Two directions, for a section that is not round: fore-and-aft (bending in the fore-and-aft plane, about the
+    # athwartships axis) and athwartships. None: the same as the single figures above (a round). For a section
+    # that is not round, the single figures are the weaker direction's.
+    inertia_fore_aft: float | None = None
+    inertia_athwartships: float | None = None
+    ei_fore_aft: float | None = None
+    ei_athwartships: float | None = None
+    moment_fore_aft: float | None = None
+    moment_athwartships: float | None = None
+    form_factor_fore_aft: float | None = None
+    form_factor_athwartships: float | None = None
+
+    def inertia_in(self, direction: str) -> float:
+        value = self.inertia_fore_aft if direction == FORE_AFT else self.inertia_athwartships
+        return self.inertia if value is None else value
+
+    def ei_in(self, direction: str) -> float:
+        value = self.ei_fore_aft if direction == FORE_AFT else self.ei_athwartships
+        return self.ei if value is None else value
+
+    def moment_in(self, direction: str) -> float:
+        value = self.moment_fore_aft if direction == FORE_AFT else self.moment_athwartships
+        return self.moment_capacity if value is None else value
+
+    def form_factor_in(self, direction: str) -> float:
+        value = self.form_factor_fore_aft if direction == FORE_AFT else self.form_factor_athwartships
+        return self.form_factor if value is None else value
+
+    @property
+    def two_axis(self) -> bool:
+        return self.ei_fore_aft is not None
 
 
 def solid_round(spar: Spar, diameter: float) -> Stiffness:
@@ -77,6 +110,78 @@ def solid_round(spar: Spar, diameter: float) -> Stiffness:
         mass_per_length=wood.density * 1e-9 * math.pi * diameter**2 / 4,
         form_factor=ROUND_FORM_FACTOR,
     )
+
+
+def _two_way(fa: Stiffness, at: Stiffness, mass: float) -> Stiffness:
+    """One Stiffness holding both directions; its single figures the weaker direction's."""
+    weak = fa if fa.ei <= at.ei else at
+    return Stiffness(
+        inertia=weak.inertia, ei=weak.ei, moment_capacity=min(fa.moment_capacity, at.moment_capacity),
+        mass_per_length=mass, form_factor=weak.form_factor, regions=weak.regions, first_limit=weak.first_limit,
+        inertia_fore_aft=fa.inertia, inertia_athwartships=at.inertia, ei_fore_aft=fa.ei, ei_athwartships=at.ei,
+        moment_fore_aft=fa.moment_capacity, moment_athwartships=at.moment_capacity,
+        form_factor_fore_aft=fa.form_factor, form_factor_athwartships=at.form_factor)
+
+
+def solid_ellipse(spar: Spar, fore_aft: float, athwartships: float) -> Stiffness:
+    """The plan's solid ellipse: I = π a³ b / 4 fore-and-aft, π a b³ / 4 athwartships, S = I / (half the depth)
+    (Roark, Table A.1); its plastic modulus 4 a² b / 3 gives the round's shape factor 16/(3π), so the round's
+    form factor."""
+    wood = spar.plan.wood
+    a, b = fore_aft / 2, athwartships / 2
+
+    def one(i: float, reach: float) -> Stiffness:
+        return Stiffness(inertia=i, ei=wood.moe * i, moment_capacity=wood.mor * i / reach * ROUND_FORM_FACTOR,
+                         mass_per_length=0.0, form_factor=ROUND_FORM_FACTOR)
+
+    return _two_way(one(math.pi * a**3 * b / 4, a), one(math.pi * a * b**3 / 4, b),
+                    wood.density * 1e-9 * math.pi * a * b)
+
+
+def solid_rectangle(spar: Spar, fore_aft: float, athwartships: float, corner: float = 0.0) -> Stiffness:
+    """The plan's solid rectangle, corners rounded to ``corner``: I = b d³ / 12 without rounding (Roark, Table
+    A.1), exact with it; the form factor from its shape factor (1 for a sharp rectangle)."""
+    from ..section.ellipse import rounded_rectangle_half_moment, rounded_rectangle_moments
+
+    wood = spar.plan.wood
+    m = rounded_rectangle_moments(fore_aft, athwartships, corner)
+
+    def one(i: float, reach: float, plastic: float) -> Stiffness:
+        elastic = i / reach
+        factor = form_factor(plastic / elastic)
+        return Stiffness(inertia=i, ei=wood.moe * i, moment_capacity=wood.mor * elastic * factor,
+                         mass_per_length=0.0, form_factor=factor)
+
+    return _two_way(one(m.iyy, fore_aft / 2, rounded_rectangle_half_moment(fore_aft, athwartships, corner)),
+                    one(m.ixx, athwartships / 2, rounded_rectangle_half_moment(athwartships, fore_aft, corner)),
+                    wood.density * 1e-9 * m.area)
+
+
+def plan_stiffness(spar: Spar, z: float) -> Stiffness:
+    """The plan's solid section at ``z`` mm from the heel, in its shape."""
+    plan = spar.plan
+    if plan.shape == "round":
+        return solid_round(spar, float(plan.diameter.at(z)))
+    fore_aft, athwartships = float(plan.diameter.at(z)), float(plan.athwartships.at(z))
+    if plan.shape == "oval":
+        return solid_ellipse(spar, fore_aft, athwartships)
+    return solid_rectangle(spar, fore_aft, athwartships, plan.corner_radius)
+
+
+def hollow_oval(spar: Spar, section, plug: Plug | None) -> Stiffness:
+    """The oval hollow section in both directions, each read off the section's material regions for bending that
+    way (:func:`stavegen.stations.evaluate.oval_regions_at`), as :func:`hollow_round` reads a round's."""
+    from ..stations.evaluate import oval_regions_at
+
+    parts = [hollow_round(spar, oval_regions_at(spar, section, plug, way)) for way in DIRECTIONS]
+    return _two_way(parts[0], parts[1], parts[0].mass_per_length)
+
+
+def hollow_stiffness(spar: Spar, section, plug: Plug | None, z: float | None = None) -> Stiffness:
+    """The hollow section, round or oval, read off its material regions."""
+    if spar.hollow.two_axis:
+        return hollow_oval(spar, section, plug)
+    return hollow_round(spar, regions_at(spar, section, plug, z))
 
 
 def hollow_round(spar: Spar, regions: RegionSection) -> Stiffness:
@@ -114,12 +219,34 @@ class StationCheck:
     strength_target: float = 1.0
 
     @property
+    def two_axis(self) -> bool:
+        return self.hollow.two_axis or self.plan.two_axis
+
+    def ei_ratio_in(self, direction: str) -> float:
+        """Hollow over plan E·I in one direction (:data:`FORE_AFT` or :data:`ATHWARTSHIPS`)."""
+        return self.hollow.ei_in(direction) / self.plan.ei_in(direction)
+
+    def strength_ratio_in(self, direction: str) -> float:
+        return self.hollow.moment_in(direction) / self.plan.moment_in(direction)
+
+    @property
     def ei_ratio(self) -> float:
-        return self.hollow.ei / self.plan.ei
+        """The EI ratio; for a section that is not round (hollow or plan) the lesser of the two directions'."""
+        if not self.two_axis:
+            return self.hollow.ei / self.plan.ei
+        return min(self.ei_ratio_in(d) for d in DIRECTIONS)
 
     @property
     def strength_ratio(self) -> float:
-        return self.hollow.moment_capacity / self.plan.moment_capacity
+        if not self.two_axis:
+            return self.hollow.moment_capacity / self.plan.moment_capacity
+        return min(self.strength_ratio_in(d) for d in DIRECTIONS)
+
+    def ei_ok_in(self, direction: str) -> bool:
+        return self.ei_ratio_in(direction) >= self.ei_target * (1 - TOLERANCE)
+
+    def strength_ok_in(self, direction: str) -> bool:
+        return self.strength_ratio_in(direction) >= self.strength_target * (1 - TOLERANCE)
 
     @property
     def ei_ok(self) -> bool:
@@ -143,8 +270,10 @@ def check_station(spar: Spar, station: Station) -> StationCheck:
     ei_target, strength_target = targets(spar)
     return StationCheck(
         station=station,
-        plan=solid_round(spar, station.plan_diameter),
-        hollow=hollow_round(spar, regions_of(spar, station)),
+        plan=(solid_round(spar, station.plan_diameter) if spar.plan.shape == "round"
+              else plan_stiffness(spar, station.z)),
+        hollow=(hollow_oval(spar, station.section, station.plug) if spar.hollow.two_axis
+                else hollow_round(spar, regions_of(spar, station))),
         ei_target=ei_target,
         strength_target=strength_target,
     )

@@ -115,12 +115,12 @@ def blank_for(spar: Spar, seg: Segment, thickness: float) -> tuple[Blank, float]
     return Blank(width, thickness), grid.on_grid(width + allowance, Way.UP)
 
 
-def _segment_holding(staves: tuple[tuple[Segment, ...], ...], z: float) -> Segment:
-    """Stave 1's segment that holds position z (mm from the heel)."""
-    for seg in staves[0]:
+def _segment_holding(staves: tuple[tuple[Segment, ...], ...], z: float, stave: int = 1) -> Segment:
+    """Stave ``stave``'s segment (stave 1's by default) that holds position z (mm from the heel)."""
+    for seg in staves[stave - 1]:
         if seg.start <= z <= seg.end:
             return seg
-    return staves[0][-1]
+    return staves[stave - 1][-1]
 
 
 def _edge_bend(plan: StavePlan, seg: Segment) -> float:
@@ -134,11 +134,31 @@ def _edge_bend(plan: StavePlan, seg: Segment) -> float:
     return float(np.max(np.abs(ys - chord)))
 
 
-def machining(spar: Spar, plan: StavePlan, staves: tuple[tuple[Segment, ...], ...], cache) -> Machining:
-    """Settings for every segment's blank, at the widest and narrowest stations, and the order of operations."""
+def machining(spar: Spar, plan: StavePlan, staves: tuple[tuple[Segment, ...], ...], cache,
+              plans: tuple[StavePlan, ...] = ()) -> Machining:
+    """Settings for every segment's blank, at the widest and narrowest stations, and the order of operations.
+
+    ``plans``, one for each kind of stave when the staves differ (an oval spar): the widest and narrowest
+    stations are then the widest and narrowest of any stave, each on a stave of its kind.
+    """
     kerf = spar.stock.kerf
-    inside = [st for st in plan.stations if 0 <= st.z <= spar.length]
-    widest_st, narrowest_st = max(inside, key=lambda st: st.width), min(inside, key=lambda st: st.width)
+    plans = plans or (plan,)
+    from .staves import kind_of_stave
+
+    def first_of_kind(kind: int) -> int:
+        return next(k for k in range(1, len(staves) + 1) if kind_of_stave(spar, k) == kind)
+
+    inside_of = [[st for st in p.stations if 0 <= st.z <= spar.length] for p in plans]
+    widest_kind = max(range(len(plans)), key=lambda j: max(st.width for st in inside_of[j]))
+    narrowest_kind = min(range(len(plans)), key=lambda j: min(st.width for st in inside_of[j]))
+    inside = inside_of[0]
+    widest_st = max(inside_of[widest_kind], key=lambda st: st.width)
+    narrowest_st = min(inside_of[narrowest_kind], key=lambda st: st.width)
+    extremes = ((widest_st, first_of_kind(widest_kind), widest_kind),
+                (narrowest_st, first_of_kind(narrowest_kind), narrowest_kind))
+
+    def section_at(z: float, kind: int):
+        return cache.at(z).kind_section(kind)
     thicknesses = [st.thickness for st in plan.stations]
     one_setting = max(thicknesses) - min(thicknesses) <= 1e-9
     notes: list[str] = []
@@ -146,7 +166,7 @@ def machining(spar: Spar, plan: StavePlan, staves: tuple[tuple[Segment, ...], ..
     per_station: list[StationNotch] = []
     found: list[StationSettings] = []
     if one_setting:
-        reference = cache.at(widest_st.z)
+        reference = section_at(widest_st.z, widest_kind)
         t = reference.thickness
         first = None
         for stave in staves:
@@ -155,10 +175,10 @@ def machining(spar: Spar, plan: StavePlan, staves: tuple[tuple[Segment, ...], ..
                 settings = cutter_settings(reference, kerf, blank, plan=first.saw if first else None)
                 first = first or settings
                 segments.append(SegmentSetup(seg.label, blank, rough, settings))
-        for st in (widest_st, narrowest_st):
-            seg = _segment_holding(staves, st.z)
+        for st, stave, kind in extremes:
+            seg = _segment_holding(staves, st.z, stave)
             setup = next(s for s in segments if s.label == seg.label)
-            section = cache.at(st.z)
+            section = section_at(st.z, kind)
             settings = cutter_settings(section, kerf, setup.blank, plan=setup.settings.saw)
             if not same_notch(settings, setup.settings):
                 raise RuntimeError("one setting was chosen but the notch differs along the stave")
@@ -170,19 +190,19 @@ def machining(spar: Spar, plan: StavePlan, staves: tuple[tuple[Segment, ...], ..
             for seg in stave:
                 zs = [seg.start, seg.end] + [s.z for s in plan.between(seg.start, seg.end)]
                 blank, rough = blank_for(spar, seg, max(plan.thickness_at(z) for z in zs))
-                section = cache.at(min(max(seg.start, 0.0), spar.length))
+                section = section_at(min(max(seg.start, 0.0), spar.length), kind_of_stave(spar, seg.stave))
                 settings = cutter_settings(section, kerf, Blank(max(blank.width, section.stave_width),
                                                                 section.thickness), saw=False)
                 segments.append(SegmentSetup(seg.label, blank, rough, settings))
         for st in inside:
-            section = cache.at(st.z)
+            section = section_at(st.z, 0)
             if section.notch is None:
                 continue
             s = cutter_settings(section, kerf, saw=False)
             per_station.append(StationNotch(st.z, section.thickness, s.notch_depth, s.apex_height, s.router))
-        for st in (widest_st, narrowest_st):
-            seg = _segment_holding(staves, st.z)
-            section = cache.at(st.z)
+        for st, stave, kind in extremes:
+            seg = _segment_holding(staves, st.z, stave)
+            section = section_at(st.z, kind)
             found.append(StationSettings(st.z, section, cutter_settings(section, kerf, saw=False), seg.label))
         notes.append("The notch changes along the stave with the tapered wall (notch_cut = \"follow-wall\"): no fixed "
                      "table-saw or router-table set-up cuts it. Cut it on a CNC router with a 90° V-bit following "
@@ -291,6 +311,11 @@ def steps(spar: Spar, plan: StavePlan, m: Machining) -> list[Step]:
                                       "rounding, plane the outer face down to the wall at each station first "
                                       "(station table); the notch is untouched and the joint closes as cut.",
                         (Figure("thickness", m.stave_thickness, "dress"),)))
+    if h.two_axis:
+        out.append(Step("places", "The staves are not all alike: each has its own width along the spar (cut list, "
+                                  "templates). Mark every stave with its number, and lay it in its place round the "
+                                  "oval as the report's section drawing numbers them (stave 1 athwartships, counter-"
+                                  "clockwise looking from the heel); staves of the same width may change places."))
     out.append(Step("dry fit", "Dry-fit the staves round the plugs (plugs table) with bands or hose clamps; number "
                                "the staves and mark the stations across them."))
     if h.strips and any(strip.place == "inner-face" for strip in h.strips):

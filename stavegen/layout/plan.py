@@ -19,7 +19,7 @@ from .plugs import PlugBlock, plug_blocks
 from .scarfs import ScarfAim, ScarfPlan, ScarfRules, aim_scarfs, segment_bounds
 from .sheathing import ClothItem, cloth_and_resin
 from .segments import Segment, make_segment
-from .staves import StavePlan, StaveStation, stave_plan
+from .staves import StavePlan, StaveStation, kind_count, kind_of_stave, stave_plan
 from .templates import Template, make_templates
 
 
@@ -36,6 +36,21 @@ class Layout:
     scarf_aim: ScarfAim | None = None  # board feet with the slack-first scarfs and with the chosen ones
     sheathing: tuple[ClothItem, ...] = ()  # cloth, tape and resin for the layers and strips
     joints: tuple[JointLayout, ...] = ()  # a two-piece spar's joint: its parts, spigot, plugs, order of assembly
+    plans: tuple[StavePlan, ...] = ()
+    """One plan for each kind of stave (an oval spar's staves differ); empty: ``plan`` serves every stave."""
+    kinds: tuple[int, ...] = ()
+    """The kind of each stave (index 0 = stave 1), into ``plans``."""
+
+    def plan_for(self, stave: int) -> StavePlan:
+        """The plan of stave number ``stave`` (from 1)."""
+        if not self.plans:
+            return self.plan
+        return self.plans[self.kinds[stave - 1]]
+
+    @property
+    def distinct(self) -> bool:
+        """True when the staves are not all the same (an oval spar)."""
+        return len(self.plans) > 1
 
     @property
     def board_of(self) -> dict[str, str]:
@@ -93,21 +108,27 @@ def lay_out(spar: Spar, cache: SectionCache | None = None, step: Callable[[str],
                          "(thickness, widths, lengths)", "stock", spar.source)
     cache = cache or SectionCache(spar)
     marks = station_marks(spar)
-    base = stave_plan(spar, marks, cache)
+    bases = tuple(stave_plan(spar, marks, cache, kind) for kind in range(kind_count(spar)))
+    base = max(bases, key=lambda p: p.widest().width)  # scarfs aimed on the widest stave's plan
     if spar.parting is not None:
         return _two_parts(spar, cache, base, step)
     rules = scarf_rules(spar, base)
+    if len(bases) > 1:
+        rules = replace(rules, slope_factor=max(p.max_slope_factor() for p in bases))
     if step is not None:
         step("placing the scarfs for the boards")
     choice = aim_scarfs(base, spar.length, spar.hollow.staves, rules, spar.stock, rough=_rough_width(spar))
     for scarfs in dict.fromkeys((choice.plan, choice.slack_first)):
-        plan, staves, shop, lumber = cut_and_order(spar, cache, base, scarfs, rules, step)
+        plans, staves, shop, lumber = cut_and_order(spar, cache, base, scarfs, rules, step)
+        plan = plans[0]
         # the aimed scarfs were measured on the plan before its segments were cut: should the cut segments need
         # more than measured, the slack-first scarfs are laid out instead
         if choice.aim is None or lumber.board_feet <= choice.aim.board_feet + 1e-6 or scarfs is choice.slack_first:
             break
+    kinds = tuple(kind_of_stave(spar, k) for k in range(1, spar.hollow.staves + 1))
     return Layout(plan=plan, scarfs=scarfs, staves=staves, plugs=plug_blocks(spar, cache), machining=shop,
                   lumber=lumber, scarf_aim=choice.aim if scarfs is choice.plan else None,
+                  plans=plans if len(plans) > 1 else (), kinds=kinds if len(plans) > 1 else (),
                   sheathing=cloth_and_resin(spar, cache))
 
 
@@ -115,18 +136,18 @@ def cut_and_order(spar: Spar, cache: SectionCache, base: StavePlan, scarfs: Scar
                   step: Callable[[str], None] | None = None, parts: tuple[PartSpan, ...] = (),
                   extra: tuple[Piece, ...] = ()):
     """The segments of ``scarfs``, their cutter settings and the boards they are cut from:
-    (stave plan, staves, machining, lumber order). ``parts``: a two-piece spar's parts, each cut on its own;
-    ``extra``: further pieces from the same boards (a wooden spigot's layers)."""
-    plan, staves = _segments(spar, cache, base, scarfs, rules, parts)
+    (stave plans, one for each kind of stave, staves, machining, lumber order). ``parts``: a two-piece spar's
+    parts, each cut on its own; ``extra``: further pieces from the same boards (a wooden spigot's layers)."""
+    plans, staves = _segments(spar, cache, base, scarfs, rules, parts)
     if step is not None:
         step("working out the cutter settings")
-    shop = machining(spar, plan, staves, cache)
+    shop = machining(spar, plans[0], staves, cache, plans)
     if step is not None:
         step("ordering lumber")
     rough = {s.label: s.rough_width for s in shop.segments}
     pieces = [Piece(label=seg.label, stave=seg.stave, segment=seg.index, length=seg.length,
                     width=rough[seg.label], volume=seg.volume) for stave in staves for seg in stave]
-    return plan, staves, shop, order_lumber(pieces + list(extra), spar.stock, units=spar.units)
+    return plans, staves, shop, order_lumber(pieces + list(extra), spar.stock, units=spar.units)
 
 
 def part_plan(base: StavePlan, start: float, end: float) -> StavePlan:
@@ -157,9 +178,9 @@ def _two_parts(spar: Spar, cache: SectionCache, base: StavePlan, step: Callable[
               for p in joint.parts]
     scarfs = ScarfPlan(centres=tuple(tuple(c for plan in chosen for c in plan.centres[k]) for k in range(staves)),
                        phases=chosen[0].phases, length=rules.length)
-    plan, cut, shop, lumber = cut_and_order(spar, cache, base, scarfs, rules, step, joint.parts,
-                                            _spigot_pieces(spar, joint))
-    return Layout(plan=plan, scarfs=scarfs, staves=cut, plugs=plug_blocks(spar, cache) + joint.plugs,
+    plans, cut, shop, lumber = cut_and_order(spar, cache, base, scarfs, rules, step, joint.parts,
+                                             _spigot_pieces(spar, joint))
+    return Layout(plan=plans[0], scarfs=scarfs, staves=cut, plugs=plug_blocks(spar, cache) + joint.plugs,
                   machining=shop, lumber=lumber, scarf_aim=None, joints=(joint,))
 
 
@@ -184,22 +205,25 @@ def _rough_width(spar: Spar) -> Callable[[float], float]:
 
 
 def _segments(spar: Spar, cache: SectionCache, base: StavePlan, scarfs: ScarfPlan, rules: ScarfRules,
-              parts: tuple[PartSpan, ...] = ()) -> tuple[StavePlan, list[tuple[Segment, ...]]]:
-    """The stave plan with stations at every segment end and scarf, and each stave's segments (each part's
-    numbered from 1 and lettered with its part, for a two-piece spar)."""
+              parts: tuple[PartSpan, ...] = ()) -> tuple[tuple[StavePlan, ...], list[tuple[Segment, ...]]]:
+    """The stave plans (one for each kind of stave) with stations at every segment end and scarf, and each
+    stave's segments, cut from its own kind's plan (each part's numbered from 1 and lettered with its part, for a
+    two-piece spar)."""
     spans = [(p.letter, p.start, p.end) for p in parts] or [("", base.start, base.end)]
     bounds = [[(letter, segment_bounds(a, b, [c for c in centres if a < c < b], rules.length))
                for letter, a, b in spans] for centres in scarfs.centres]
     ends = sorted({z for stave in bounds for _, part in stave for a, b in part for z in (a, b) if 0 <= z <= spar.length})
     centres = sorted({c for stave in scarfs.centres for c in stave})
-    plan = stave_plan(spar, station_marks(spar, {"segment end": ends, "scarf": centres}), cache)
+    marks = station_marks(spar, {"segment end": ends, "scarf": centres})
+    plans = tuple(stave_plan(spar, marks, cache, kind) for kind in range(kind_count(spar)))
     staves = []
     for k, stave_bounds in enumerate(bounds, start=1):
         segs = []
+        plan = plans[kind_of_stave(spar, k)]
         for letter, part in stave_bounds:
             last = len(part) - 1
             segs += [make_segment(plan, k, i + 1, a, b, scarf_at_start=i > 0, scarf_at_end=i < last,
                                   scarf_length=rules.length, part=letter)
                      for i, (a, b) in enumerate(part)]
         staves.append(tuple(segs))
-    return plan, tuple(staves)
+    return plans, tuple(staves)

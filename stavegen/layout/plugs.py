@@ -37,6 +37,8 @@ class PlugBlock:
 
 def _end(cache: SectionCache, z: float) -> PlugEnd:
     sec = cache.at(z)
+    if sec.shape != "round":  # an oval's bore: across its flats fore-and-aft, and its widest reach across corners
+        return PlugEnd(z=z, across_flats=sec.bore_across_flats, across_corners=2 * sec.bore_corner_reach, section=sec)
     return PlugEnd(z=z, across_flats=2 * sec.inner_apothem, across_corners=2 * sec.bore_corner_radius, section=sec)
 
 

@@ -1,6 +1,7 @@
 """One stave along its length: widths at every station, true length along its face, the taper.
 
-All N staves of a spar have the same shape, so one plan serves them all.
+All N staves of a round spar have the same shape, so one plan serves them all; an oval spar has one plan
+for each kind of stave (the staves that pair off by symmetry, :func:`kind_of_stave`).
 Positions: z is mm from the heel along the spar's axis (negative in the heel
 end allowance, past the length in the head's); s is mm along the stave's
 outer face from its cut heel end, s = ∫ √(1 + (da_o/dz)²) dz. Widths are
@@ -112,17 +113,37 @@ class StavePlan:
         return 0.0, w
 
 
-def stave_plan(spar: Spar, marks: tuple[StationMark, ...], cache: SectionCache) -> StavePlan:
+def kind_of_stave(spar: Spar, stave: int) -> int:
+    """The kind (0-based) of stave number ``stave`` (from 1): 0 for every stave of a round; for an oval the
+    symmetry class of its place round the section (:func:`stavegen.section.oval.kind_of`)."""
+    if not spar.hollow.two_axis:
+        return 0
+    from ..section.oval import kind_of
+
+    return kind_of(spar.hollow.staves, stave - 1)
+
+
+def kind_count(spar: Spar) -> int:
+    """How many different staves the spar has: 1 for a round, N // 4 + 1 for an oval."""
+    if not spar.hollow.two_axis:
+        return 1
+    from ..section.oval import kind_count as count
+
+    return count(spar.hollow.staves)
+
+
+def stave_plan(spar: Spar, marks: tuple[StationMark, ...], cache: SectionCache, kind: int = 0) -> StavePlan:
     """The stave shape at ``marks`` (heel to head), extended by the end allowance at each end.
 
-    In the end allowances the stave keeps the width of the end it runs past.
+    In the end allowances the stave keeps the width of the end it runs past. ``kind`` picks the stave of an
+    oval spar (every stave of a round is the same).
     """
     hollow = spar.hollow
     allowance = spar.stock.edge_allowance if spar.stock is not None else 0.0
     e = hollow.end_allowance
     rows: list[tuple[float, tuple[str, ...], object]] = []
     for mark in marks:
-        rows.append((mark.z, mark.reasons, cache.at(mark.z)))
+        rows.append((mark.z, mark.reasons, cache.at(mark.z).kind_section(kind)))
     if e > 0:
         rows.insert(0, (-e, ("heel end",), rows[0][2]))
         rows.append((spar.length + e, ("head end",), rows[-1][2]))

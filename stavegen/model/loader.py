@@ -504,27 +504,86 @@ def _staves(t: _Table) -> int | str:
     return staves
 
 
+def _plan(t: _Table, units: str, length: float) -> Plan:
+    """The plan's wood, shape and stations (diameters, or two dimensions for an oval or a rectangle)."""
+    wood = _wood(t.raw("wood"), units, t.key("wood"))
+    shape = t.get("shape")
+    corner = t.get("corner_radius")
+    if shape == "round":
+        diameter, athwartships = _diameters(t.raw("stations"), units, t.key("stations"), length, shape), None
+    else:
+        diameter, athwartships = _dimensions(t.raw("stations"), units, t.key("stations"), length)
+    if corner > 0:
+        if shape != "rectangle":
+            raise t.fail("corner_radius", f'rounds a rectangle\'s corners; the plan is {shape} (shape = "rectangle")')
+        least = min(min(diameter.value), min(athwartships.value))
+        if corner >= least / 2:
+            raise InputError("corner radius {corner} is not less than half the smallest dimension ({least})",
+                             t.key("corner_radius"), units=units,
+                             figures={"corner": length_figure(corner), "least": length_figure(least)})
+    return Plan(wood=wood, diameter=diameter, shape=shape, athwartships=athwartships, corner_radius=corner)
+
+
+def _dimensions(value: Any, units: str, key: str, length: float) -> tuple[Profile, Profile]:
+    """Fore-and-aft and athwartships profiles from ``[position, fore_aft, athwartships]`` triples."""
+    if not isinstance(value, list) or not value:
+        raise InputError(f"expected a list of [position, fore_aft, athwartships] triples, got {_kind(value)}", key)
+    for i, triple in enumerate(value):
+        if not isinstance(triple, list) or len(triple) != 3:
+            raise InputError(f"expected [position, fore_aft, athwartships] for a shape that is not round, "
+                             f"got {_kind(triple)}", f"{key}[{i + 1}]")
+    fore_aft = _diameters([[p, f] for p, f, _ in value], units, key, length)
+    athwartships = _diameters([[p, a] for p, _, a in value], units, key, length)
+    return fore_aft, athwartships
+
+
 def _hollow(t: _Table, units: str, length: float, plan: Plan) -> Hollow:
     wood = _wood(t.raw("wood"), units, t.key("wood"))
     staves = _staves(t)
     joint = _joint(t)
     wall = _wall(t.raw("wall"), units, length)
+    if t.has("shape"):
+        shape = t.get("shape")
+    elif plan.shape in schema.HOLLOW_SHAPES:
+        shape = plan.shape
+    else:
+        raise t.fail("shape", f"missing: the plan is a {plan.shape}, and stavegen builds hollow spars round or oval; "
+                              'say which (shape = "oval" or "round") and give the stations')
+    athwartships = None
     if t.has("stations") and t.raw("stations") == AUTO:
         diameter, given = AUTO, False
+        athwartships = AUTO if shape != "round" else None
+        if (shape == "round") != (plan.shape == "round"):
+            raise t.fail("stations", f'"auto" scales the plan\'s dimensions, but the plan is {plan.shape} and the '
+                                     f"hollow spar {shape}: give the hollow spar's stations")
     elif t.has("stations") and isinstance(t.raw("stations"), str):
         raise t.fail("stations", f"expected [[position, diameter], ...] or \"auto\", got {shown(t.raw('stations'))}")
-    elif t.has("stations"):
-        diameter = _diameters(t.raw("stations"), units, t.key("stations"), length)
+    elif t.has("stations") and shape != "round":
+        diameter, athwartships = _dimensions(t.raw("stations"), units, t.key("stations"), length)
         given = True
+    elif t.has("stations"):
+        diameter = _diameters(t.raw("stations"), units, t.key("stations"), length, shape)
+        given = True
+    elif (shape == "round") != (plan.shape == "round"):
+        raise t.fail("stations", f"missing: a {shape} hollow spar of a {plan.shape} plan needs its own stations")
     else:
-        diameter, given = plan.diameter, False
+        diameter, athwartships, given = plan.diameter, plan.athwartships, False
+    if shape != "round":
+        if joint.kind not in ("birdsmouth-flush", "bevel", "birdsmouth-centered", "birdsmouth-custom"):
+            raise t.fail("joint", f"an oval hollow spar is built with a birdsmouth or bevel joint, not {joint.kind}")
+        if isinstance(staves, int) and staves % 2:
+            raise t.fail("staves", f"an oval spar needs an even number of staves (not {staves}), so that its "
+                                   "section is symmetric fore-and-aft and athwartships")
     plugs = _plugs(t.raw("plug"), units, length, wood)
     own = _OWN.get()
     layers = _layers(t.raw("layer"), units, length, own)
     strips = _strips(t.raw("strip"), units, length, own)
     hollow = Hollow(wood=wood, staves=staves, joint=joint, wall=wall, diameter=diameter, diameter_given=given,
-                    plugs=plugs, strength_target_given=t.has("min_strength_ratio"), layers=layers, strips=strips,
-                    **t.fields())
+                    plugs=plugs, strength_target_given=t.has("min_strength_ratio"), shape=shape,
+                    athwartships=athwartships, layers=layers, strips=strips, **t.fields())
+    if (layers or strips) and hollow.two_axis:
+        raise InputError("sheathing layers and reinforcing strips are counted on round spars only (for now)",
+                         "hollow.layer" if layers else "hollow.strip")
     if layers and isinstance(diameter, Profile):
         for z, d in zip(diameter.z, diameter.value):
             sheath = hollow.sheath(z, length)
@@ -536,6 +595,8 @@ def _hollow(t: _Table, units: str, length: float, plan: Plan) -> Hollow:
     if isinstance(wall, Profile) and isinstance(diameter, Profile):
         for z, thick in zip(wall.z, wall.value):
             radius = float(diameter.at(z)) / 2 - hollow.sheath(z, length)
+            if isinstance(athwartships, Profile):
+                radius = min(radius, float(athwartships.at(z)) / 2)
             if thick >= radius:
                 raise InputError("wall {wall} is as thick as the spar's radius ({radius}) at {z} from the heel: "
                                  "there is no bore", "hollow.wall", units=units,
@@ -625,6 +686,9 @@ def _output(t: _Table | None, units: str, length: float) -> OutputOptions:
 
 def _parting(t: _Table, units: str, length: float, hollow: Hollow, hollow_key: str) -> Parting:
     """[parting]: where the spar comes apart and what joins it; what a kind does not use is refused."""
+    if hollow.two_axis:
+        raise InputError("a two-piece oval spar is not built yet: its spigot and bore checks are for a round; "
+                         "build the oval in one piece, or the two-piece spar round", t.path)
     at = t.get("at")
     kind = t.get("kind")
     overlap, clearance = t.get("overlap"), t.get("clearance")
@@ -686,8 +750,13 @@ def _jumps(profile: Profile, key: str, units: str):
                                         f"{format_length(b, units)} ({jump:.2f} times) in one stretch")
 
 
-def _diameters(value: Any, units: str, key: str, length: float) -> Profile:
+def _diameters(value: Any, units: str, key: str, length: float, shape: str = "round") -> Profile:
     """A diameter profile heel to head, refused where it jumps as no spar does (a slipped digit, a wrong unit)."""
+    if shape == "round" and isinstance(value, list):
+        for i, pair in enumerate(value):
+            if isinstance(pair, list) and len(pair) == 3:
+                raise InputError("expected [position, diameter] for a round spar; three figures at a station "
+                                 "need shape = \"oval\" (or \"rectangle\" in the plan)", f"{key}[{i + 1}]")
     profile = _profile(value, units, key, length, "diameter", whole_length=True)
     for here, jump, said in _jumps(profile, key, units):
         if jump >= DIAMETER_JUMP_REFUSED:
@@ -774,10 +843,7 @@ def parse_spar(data: dict[str, Any], source: str = "") -> Spar:
         own = _own_materials(top.raw("materials"), units)
         token = _OWN.set(own)
         plan_t = top.sub("plan")
-        plan = Plan(
-            wood=_wood(plan_t.raw("wood"), units, plan_t.key("wood")),
-            diameter=_diameters(plan_t.raw("stations"), units, plan_t.key("stations"), length),
-        )
+        plan = _plan(plan_t, units, length)
         hollow = _hollow(top.sub("hollow"), units, length, plan)
         stock_t = top.sub("stock")
         stock = None if stock_t is None else _stock(stock_t, units, length, hollow)

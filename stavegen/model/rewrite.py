@@ -63,7 +63,11 @@ def solved_values(original: Spar, solved: Spar) -> list[tuple[str, str]]:
         out.append(("staves", str(s.staves)))
     if isinstance(h.wall, str) and h.wall in WALL_SOLVES:
         out.append(("wall", _profile(s.wall, units)))
-    if h.diameter == AUTO:
+    if h.diameter == AUTO and s.two_axis:  # [position, fore_aft, athwartships], each rounded up
+        triples = ", ".join(f"[{_position(z, units)}, {_up(v, units)}, {_up(float(s.athwartships.at(z)), units)}]"
+                            for z, v in zip(s.diameter.z, s.diameter.value))
+        out.append(("stations", f"[{triples}]"))
+    elif h.diameter == AUTO:
         out.append(("stations", _profile(s.diameter, units, pairs=True)))
     return out
 

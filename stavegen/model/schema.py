@@ -18,8 +18,8 @@ from dataclasses import dataclass
 from dataclasses import field as _field
 from typing import Any
 
-from .spar import (DEFAULT_STRENGTH_TARGET, JOINTS, MAX_STAVES, MIN_STAVES, NOTCH_CUTS, PAPERS, PARTINGS, SEPARATIONS,
-                   STRIP_PLACES, TAPERS)
+from .spar import (DEFAULT_STRENGTH_TARGET, HOLLOW_SHAPES, JOINTS, MAX_STAVES, MIN_STAVES, NOTCH_CUTS, PAPERS,
+                   PARTINGS, SEPARATIONS, SHAPES, STRIP_PLACES, TAPERS)
 from .tubes import tube_table
 
 
@@ -72,7 +72,8 @@ KINDS: dict[str, str] = {
                "with its unit: `\"28 lb/ft3\"`, `\"450 kg/m3\"`",
     "wood": "the key of a built-in wood (`stavegen woods` lists them) or an inline table defining one "
             "(see *A wood of your own*)",
-    "stations": "a list of `[position from the heel, diameter]` pairs, heel to head, positions increasing",
+    "stations": "a list of `[position from the heel, diameter]` pairs, heel to head, positions increasing; for "
+                "an oval or a rectangle `[position, fore_aft, athwartships]` triples",
     "wall": "a thickness (a length), or `[[position, thickness], ...]` (one pair gives a constant wall; "
             "several run heel to head, linear between), or `\"auto\"` / `\"auto-tapered\"`",
     "staves": f"a whole number from {MIN_STAVES} to {MAX_STAVES}, or `\"auto\"`",
@@ -177,7 +178,15 @@ SPAR = Table("spar", "What the spar is and the unit the file is written in.", re
 PLAN = Table("plan", "The solid spar drawn in the plans: the stiffness and strength target.", required=True,
              short="the solid spar in the plans: the stiffness target", keys=(
     Key("wood", "wood", "the wood the plans specify", example=_u('"sitka-spruce"', '"sitka-spruce"')),
-    Key("stations", "stations", "the plan's diameters, heel (0) to head (the spar's length)",
+    Key("shape", "choice", "the shape of the plan's section", default="round", choices=SHAPES,
+        choice_notes={"round": "a round: each station gives a diameter",
+                      "oval": "an ellipse: each station gives `[position, fore_aft, athwartships]`, the "
+                              "dimension fore-and-aft and the one athwartships",
+                      "rectangle": "a rectangle (a spar drawn square or as glued planks): each station gives "
+                                   "`[position, fore_aft, athwartships]`; `corner_radius` rounds its corners"}),
+    Key("corner_radius", "length", "radius of a rectangle's rounded corners", default=0, zero_ok=True,
+        aside=_u('"3/8"', "10"), note="Only with `shape = \"rectangle\"`; less than half the smaller dimension."),
+    Key("stations", "stations", "the plan's diameters (or dimensions), heel (0) to head (the spar's length)",
         example=_u('[[0, 3.5], ["5 ft", 3.5], ["12 ft", 3.0], ["16 ft", 2.0]]',
                    "[[0, 90], [1500, 90], [3700, 76], [4900, 50]]"),
         note="The first position must be 0 and the last the spar's length (within 0.5 mm); diameters are "
@@ -284,11 +293,19 @@ HOLLOW = Table("hollow", "The stave-built spar you will make.", required=True, s
         }),
     Key("notch", "table", "your cutter's notch, with joint = \"birdsmouth-custom\" (see [hollow.notch])",
         default=UNSET),
+    Key("shape", "choice", "the shape of the hollow spar's section", default=Words("the plan's shape"),
+        choices=HOLLOW_SHAPES, aside=_u('"oval"', '"oval"'),
+        choice_notes={"round": "round, of identical staves",
+                      "oval": "an ellipse, its stations `[position, fore_aft, athwartships]`: staves of unequal "
+                              "widths round the polygon that rounds to the ellipse, each width from its own "
+                              "closure, the same V and bevel at every joint; needs an even number of staves"},
+        note="A round plan's hollow spar may be oval and an oval plan's round (give `stations` then). Stiffness "
+             "and strength are checked fore-and-aft and athwartships, each against the plan's."),
     Key("wall", "wall", "stave thickness before rounding", example=_u('"11/16"', "18"),
         note="`\"auto\"`: the least constant thickness that meets the target at every station and midway "
              "between, within `stock.thickness` and without the round breaking into the bore. "
              "`\"auto-tapered\"`: the least thickness at each station, linear between."),
-    Key("stations", "stations", "finished diameters if not the plan's, or \"auto\"",
+    Key("stations", "stations", "finished diameters (or dimensions) if not the plan's, or \"auto\"",
         default=Words("the plan's diameters"),
         aside=_u('[[0, 3.6], ["5 ft", 3.6], ["12 ft", 3.1], ["16 ft", 2.1]]', "[[0, 92], [1500, 92], [3700, 78], [4900, 52]]"),
         note="`\"auto\"` (with a wall given): the plan's diameters times the least factor, never below 1, "

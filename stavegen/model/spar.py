@@ -28,6 +28,8 @@ DEFAULT_STRENGTH_TARGET = 1.0  # the hollow spar at least as strong as the plan 
 DEFAULT_HEAD_LOAD = 1000.0  # N: the reference sideways head load for comparing deflections (1 kN)
 STRIP_PLACES = ("inner-face", "groove")  # where reinforcing tape lies in each stave
 PAPERS = ("letter", "a4")
+SHAPES = ("round", "oval", "rectangle")  # plan.shape: a round, an ellipse, a rectangle
+HOLLOW_SHAPES = ("round", "oval")  # hollow.shape
 SEPARATIONS = ("saw", "router")  # how neighbouring pieces are parted on a board (stock.separate_with)
 MIN_STAVES, MAX_STAVES = 4, 24
 # How a two-piece spar's parts join ([parting] kind): a wooden spigot shaped to the bore, a bought tube spigot
@@ -169,10 +171,27 @@ class Parting:
 
 @dataclass(frozen=True)
 class Plan:
-    """The solid spar drawn in the plans: the stiffness and strength target."""
+    """The solid spar drawn in the plans: the stiffness and strength target.
+
+    ``diameter`` is the round's diameter, or for an oval or a rectangle (``shape``) the fore-and-aft
+    dimension; ``athwartships`` then gives the other (None for a round). ``corner_radius`` rounds a
+    rectangle's corners (mm).
+    """
 
     wood: Wood
     diameter: Profile
+    shape: str = "round"
+    athwartships: Profile | None = None
+    corner_radius: float = 0.0
+
+    @property
+    def fore_aft(self) -> Profile:
+        return self.diameter
+
+    @property
+    def athwart(self) -> Profile:
+        """The athwartships dimension along the spar (the diameter for a round)."""
+        return self.athwartships if self.athwartships is not None else self.diameter
 
 
 @dataclass(frozen=True)
@@ -203,6 +222,18 @@ class Hollow:
     diameter_given: bool = False
     layers: tuple[Layer, ...] = ()
     strips: tuple[Strip, ...] = ()
+    shape: str = "round"
+    athwartships: Union[Profile, Literal["auto"], None] = None
+    """For an oval hollow spar, its athwartships dimension along the spar (``diameter`` is then fore-and-aft)."""
+
+    @property
+    def two_axis(self) -> bool:
+        """True for a hollow spar that is not round (its section differs fore-and-aft and athwartships)."""
+        return self.shape != "round"
+
+    @property
+    def athwart(self):
+        return self.athwartships if self.athwartships is not None else self.diameter
 
     def plug_at(self, z: float) -> Plug | None:
         for plug in self.plugs:

@@ -38,7 +38,7 @@ def _comment_lines(prefix: str, comment: str) -> list[str]:
     return [prefix] + [f"{'':<{COLUMN - 1}} # {part}" for part in textwrap.wrap(comment, WIDTH - COLUMN - 2)]
 
 
-def _meaning(key: schema.Key, live: bool) -> str:
+def _meaning(key: schema.Key, live: bool, units: str) -> str:
     text = key.meaning
     if key.kind == "choice":
         text += ": " + " | ".join(key.choices)
@@ -65,7 +65,7 @@ def _key(key: schema.Key, units: str, off: bool = False, value: PerUnit | None =
         value = key.aside
     text = value.get(units) if value is not None else toml_text(key.default_for(units))
     line = f"{'' if live else '# '}{key.name} = {text}"
-    return _comment_lines(line, _meaning(key, live)) if comment else [line]
+    return _comment_lines(line, _meaning(key, live, units)) if comment else [line]
 
 
 def _table(decl: schema.Table, units: str, off: bool = False, skip: tuple[str, ...] = ()) -> list[str]:

@@ -51,6 +51,8 @@ def station_table(design: Design) -> Table:
     weakest = result.weakest_stiffness
     table = Table(title="Station by station against the plan", header_style="bold", title_justify="left",
                   box=box.SIMPLE_HEAD, pad_edge=False)
+    if result.two_axis:
+        return _two_axis_rows(design, table)
     for col, justify in (("from\nheel", "right"), ("plan\nOD", "right"), ("\nOD", "right"), ("\nwall", "right"),
                          ("stave\nwidth", "right"), ("notch\ndepth", "right"), ("EI\nratio", "right"),
                          ("strength\nratio", "right"), ("\nplug", "center"), ("", "left")):
@@ -65,6 +67,35 @@ def station_table(design: Design) -> Table:
             fig.describe(s.plan_diameter), fig.dress(s.diameter), fig.dress(s.wall),
             fig.mark_width(sec.stave_width), fig.notch_depth(sec.notch.depth if sec.notch else None),
             f"{c.ei_ratio:.3f}", f"{c.strength_ratio:.3f}", "●" if s.plug else "",
+            ("SHORT: " + " and ".join(short)) if short else ("least EI" if c is weakest else "ok"),
+            style=style,
+        )
+    return table
+
+
+def _two_axis_rows(design: Design, table: Table) -> Table:
+    """The station table of a spar that is not round: both dimensions, and the EI and strength ratios
+    fore-and-aft (f-a) and athwartships (ath); the staves' widths are in `section`, the cut list and the report."""
+    from ..checks.ratios import ATHWARTSHIPS, FORE_AFT
+
+    spar, result = design.spar, design.assessment
+    fig = Figures(spar)
+    weakest = result.weakest_stiffness
+    for col in ("from\nheel", "plan\nf-a x ath", "\nf-a x ath", "\nwall", "EI ratio\nf-a", "EI ratio\nath", "strength\nf-a", "strength\nath"):
+        table.add_column(col, justify="right", no_wrap=True)
+    table.add_column("\nplug", justify="center", no_wrap=True)
+    table.add_column("", justify="left")
+    for c in result.stations:
+        s = c.station
+        short = [w for w, ok in (("EI", c.ei_ok), ("strength", c.strength_ok)) if not ok]
+        style = "red" if short else ("bold yellow" if c is weakest else None)
+        table.add_row(
+            fig.position(s.z) if spar.units == "in" else f"{s.z:.0f} mm",
+            f"{fig.describe(s.plan_diameter)} x {fig.describe(s.plan_athwart)}",
+            f"{fig.dress(s.fore_aft)} x {fig.dress(s.athwart)}", fig.dress(s.wall),
+            f"{c.ei_ratio_in(FORE_AFT):.3f}", f"{c.ei_ratio_in(ATHWARTSHIPS):.3f}",
+            f"{c.strength_ratio_in(FORE_AFT):.3f}", f"{c.strength_ratio_in(ATHWARTSHIPS):.3f}",
+            "●" if s.plug else "",
             ("SHORT: " + " and ".join(short)) if short else ("least EI" if c is weakest else "ok"),
             style=style,
         )
@@ -96,6 +127,17 @@ def spar_table(design: Design) -> Table:
         ("Euler load, heel fixed, head free", format_force(r.plan.euler_load, spar.units),
          format_force(r.hollow.euler_load, spar.units), r.compared("euler")),
     ]
+    if r.hollow.direction:  # a spar that is not round: the beam figures are the weaker direction's, then the other
+        from ..checks.ratios import ATHWARTSHIPS, FORE_AFT
+
+        words = {FORE_AFT: "fore-and-aft", ATHWARTSHIPS: "athwartships"}
+        weak = r.hollow.direction
+        other = ATHWARTSHIPS if weak == FORE_AFT else FORE_AFT
+        rows = rows[:2] + [(label + f", {words[weak]} (the weaker way)", a, b, ratio) for label, a, b, ratio in rows[2:]]
+        pd, pe = r.plan.in_direction(other)
+        hd, he = r.hollow.in_direction(other)
+        rows += [(f"head deflection, {words[other]}", fig.describe(pd), fig.describe(hd), hd / pd),
+                 (f"Euler load, {words[other]}", format_force(pe, spar.units), format_force(he, spar.units), he / pe)]
     for label, a, b, ratio in rows:
         table.add_row(label, a, b, f"{ratio:.3f}")
     return table
@@ -216,13 +258,21 @@ def section_table(spar: Spar, check: StationCheck, si: bool = False) -> Table:
                   title_justify="left")
     table.add_column("", style="bold")
     table.add_column("", justify="right", no_wrap=True)
-    rows: list[tuple[str, str]] = [
-        ("staves, joint", f"{sec.staves}, {sec.joint}"),
-        ("finished diameter (plan)", f"{fig.dress(s.diameter)} ({fig.describe(s.plan_diameter)})"),
+    two = check.two_axis
+    rows: list[tuple[str, str]] = [("staves, joint", f"{sec.staves}, {sec.joint}")]
+    if two:
+        rows += [("finished fore-and-aft x athwartships (plan)",
+                  f"{fig.dress(s.fore_aft)} x {fig.dress(s.athwart)} ({fig.describe(s.plan_diameter)} x "
+                  f"{fig.describe(s.plan_athwart)}, {spar.plan.shape})"),
+                 ("stave widths round the section", ", ".join(
+                     f"{fig.mark_width(k.width)} ({k.count})" for k in sec.kinds) + " (how many)")]
+    else:
+        rows.append(("finished diameter (plan)", f"{fig.dress(s.diameter)} ({fig.describe(s.plan_diameter)})"))
+    rows += [
         ("across flats before rounding", fig.describe(sec.across_flats)),
         ("wall (the bore's)", fig.dress(s.wall)),
         ("stave thickness", fig.dress(sec.thickness)),
-        ("stave width before the notch", fig.mark_width(sec.stave_width)),
+        ("stave width before the notch" + (", widest" if two else ""), fig.mark_width(sec.stave_width)),
     ]
     if sec.notch:
         phi, other = sec.v_face_angles
@@ -240,11 +290,30 @@ def section_table(spar: Spar, check: StationCheck, si: bool = False) -> Table:
         ("voids inside the round", fig.units.area(sec.void_area, si)),
         ("glue line per joint", fig.describe(sec.glue_line)),
         ("wood area", fig.units.area(sec.area, si)),
-        ("I of the wall", fig.units.second_moment(sec.inertia, si)),
-        ("section modulus I/R", fig.units.section_modulus(sec.modulus, si)),
-        ("plug", escape(s.plug.wood.name) if s.plug else "none"),
-        ("EI ratio / strength ratio", f"{check.ei_ratio:.3f} / {check.strength_ratio:.3f}"),
-        ("form factor, hollow / plan", f"{check.hollow.form_factor:.3f} / {check.plan.form_factor:.3f}"),
+    ]
+    if two:
+        from ..checks.ratios import ATHWARTSHIPS, FORE_AFT
+
+        rows += [
+            ("I of the wall, fore-and-aft / athwartships", f"{fig.units.second_moment(sec.inertia_fore_aft, si)} / "
+                                                           f"{fig.units.second_moment(sec.inertia_athwartships, si)}"),
+            ("plug", escape(s.plug.wood.name) if s.plug else "none"),
+            ("EI ratio fore-and-aft / athwartships", f"{check.ei_ratio_in(FORE_AFT):.3f} / "
+                                                     f"{check.ei_ratio_in(ATHWARTSHIPS):.3f}"),
+            ("strength ratio fore-and-aft / athwartships", f"{check.strength_ratio_in(FORE_AFT):.3f} / "
+                                                           f"{check.strength_ratio_in(ATHWARTSHIPS):.3f}"),
+            ("form factor fore-and-aft, hollow / plan", f"{check.hollow.form_factor_in(FORE_AFT):.3f} / "
+                                                        f"{check.plan.form_factor_in(FORE_AFT):.3f}"),
+        ]
+    else:
+        rows += [
+            ("I of the wall", fig.units.second_moment(sec.inertia, si)),
+            ("section modulus I/R", fig.units.section_modulus(sec.modulus, si)),
+            ("plug", escape(s.plug.wood.name) if s.plug else "none"),
+            ("EI ratio / strength ratio", f"{check.ei_ratio:.3f} / {check.strength_ratio:.3f}"),
+            ("form factor, hollow / plan", f"{check.hollow.form_factor:.3f} / {check.plan.form_factor:.3f}"),
+        ]
+    rows += [
         ("meets the targets here", "yes" if check.ok else "NO: " + " and ".join(
             w for w, ok in (("EI", check.ei_ok), ("strength", check.strength_ok)) if not ok)),
     ]

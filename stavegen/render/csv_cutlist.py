@@ -52,12 +52,12 @@ def cutlist_rows(design: Design) -> list[list[str]]:
     col(f"from heel ({pos_word})", "position", lambda seg: seg.start)
     col(f"to ({pos_word})", "position", lambda seg: seg.end)
     col(f"length along face, cut ({pos_word})", "cut-length", lambda seg: seg.length)
-    col(f"width at heel end ({len_word})", "mark-width", lambda seg: plan.width_at(seg.start))
-    col(f"width at head end ({len_word})", "mark-width", lambda seg: plan.width_at(seg.end))
+    col(f"width at heel end ({len_word})", "mark-width", lambda seg: layout.plan_for(seg.stave).width_at(seg.start))
+    col(f"width at head end ({len_word})", "mark-width", lambda seg: layout.plan_for(seg.stave).width_at(seg.end))
     col(f"widest ({len_word})", "mark-width", lambda seg: seg.widest)
     col(f"blank width ({len_word})", "dress", lambda seg: setups[seg.label].blank.width)
     col(f"rip width ({len_word})", "dress", lambda seg: setups[seg.label].rough_width)
-    col(f"thickness ({len_word})", "dress", lambda seg: _thickest(plan, seg))
+    col(f"thickness ({len_word})", "dress", lambda seg: _thickest(layout.plan_for(seg.stave), seg))
     for k in width_passes:
         p = m.widest.settings.saw[k - 1]
         kind = "fence-nearer" if p.leaves_wood_when_fence_is == "nearer" else "fence-farther"

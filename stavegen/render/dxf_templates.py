@@ -37,8 +37,7 @@ from ..layout.lumber import Board
 from ..layout.plan import Layout
 from ..layout.segments import Segment
 from ..pipeline import Design
-from ..section.properties import Section, bore_ring
-from ..section.staves import placed
+from ..section.properties import Section
 from ..units import to_unit
 from .csv_cutlist import fails_line
 from .figures import Figures
@@ -433,18 +432,30 @@ class TemplateSheet:
         return draw, (min(xs), min(ys), max(xs), max(ys)), caption
 
     def assembled_view(self, what: str, z: float, section: Section):
+        section = section.assembled  # an oval's whole section, not the one stave the settings are for
         n = section.staves
-        stave = section.stave_polygon()
-        staves = [list(placed(stave, n, k).exterior.coords)[:-1] for k in range(n)]
-        bore = bore_ring(n, section.inner_apothem)
+        staves = section.placed_rings()
+        bore = section.bore_points()
         reach = max(math.hypot(x, y) for ring in staves for x, y in ring)
+        oval = section.shape != "round"
 
         def draw(offset: Point) -> None:
             for ring in staves:
                 self.pen.poly(_shift(ring, *offset), "END-STAVE", closed=True)
             self.pen.poly(_shift(bore, *offset), "END-BORE", closed=True)
-            self.pen.circle(offset, section.radius, "END-ROUND")
+            if oval:
+                self.pen.poly(_shift(section.finished_points(360), *offset), "END-ROUND", closed=True)
+            else:
+                self.pen.circle(offset, section.radius, "END-ROUND")
 
+        if oval:
+            caption = [f"ASSEMBLED at the {what}, {self.pos(z)} from the heel",
+                       f"{n} staves, {self.size(section.across_flats)} by "
+                       f"{self.size(section.across_flats_athwartships)} across the flats",
+                       f"finished oval {self.fig.dress(section.fore_aft)} fore-and-aft (across the sheet) by "
+                       f"{self.fig.dress(section.athwartships)} athwartships",
+                       "stave 1 at the top, numbered counter-clockwise looking from the heel"]
+            return draw, (-reach, -reach, reach, reach), caption
         caption = [f"ASSEMBLED at the {what}, {self.pos(z)} from the heel",
                    f"{n} staves, {self.size(section.across_flats)} across the flats",
                    f"finished round {self.fig.dress(2 * section.radius)} diameter",
@@ -453,12 +464,17 @@ class TemplateSheet:
 
     def plug_view(self, index: int, end_name: str, end):
         n = end.section.staves
-        ring = bore_ring(n, end.section.inner_apothem)
+        ring = end.section.bore_points()
         reach = max(math.hypot(x, y) for x, y in ring)
 
         def draw(offset: Point) -> None:
             self.pen.poly(_shift(ring, *offset), "END-PLUG", closed=True)
 
+        if end.section.shape != "round":
+            caption = [f"PLUG {index}, {end_name} end, {self.pos(end.z)} from the heel",
+                       f"{n} sides, {self.fig.dress(end.across_flats)} across the flats fore-and-aft",
+                       f"{self.fig.dress(end.section.bore_across_flats_athwartships)} athwartships"]
+            return draw, (-reach, -reach, reach, reach), caption
         caption = [f"PLUG {index}, {end_name} end, {self.pos(end.z)} from the heel",
                    f"{n} sides, {self.fig.dress(end.across_flats)} across the flats",
                    f"{self.fig.dress(end.across_corners)} across the corners"]

@@ -11,7 +11,7 @@ from typing import TYPE_CHECKING, Any
 from .. import __version__
 from ..cautions import CAUTIONS
 from ..checks.parting import JointCheck
-from ..checks.ratios import StationCheck
+from ..checks.ratios import ATHWARTSHIPS, DIRECTIONS, FORE_AFT, StationCheck
 from ..model.woods import Wood
 from ..pipeline import Design
 from .figures import Figures
@@ -102,6 +102,28 @@ def _station(check: StationCheck) -> dict[str, Any]:
             "kind": check.hollow.first_limit.region.kind, "label": check.hollow.first_limit.region.label,
             "material": check.hollow.first_limit.region.material.key,
             "moment_Nmm": check.hollow.first_limit.moment},
+        # both directions (equal pairs for a round); fore_aft resists bending in the fore-and-aft plane
+        "fore_aft_mm": s.fore_aft,
+        "athwartships_mm": s.athwart,
+        "plan_fore_aft_mm": s.plan_diameter,
+        "plan_athwartships_mm": s.plan_athwart,
+        "I_fore_aft_mm4": sec.inertia_fore_aft,
+        "I_athwartships_mm4": sec.inertia_athwartships,
+        "EI_fore_aft_Nmm2": check.hollow.ei_in(FORE_AFT),
+        "EI_athwartships_Nmm2": check.hollow.ei_in(ATHWARTSHIPS),
+        "plan_I_fore_aft_mm4": check.plan.inertia_in(FORE_AFT),
+        "plan_I_athwartships_mm4": check.plan.inertia_in(ATHWARTSHIPS),
+        "plan_EI_fore_aft_Nmm2": check.plan.ei_in(FORE_AFT),
+        "plan_EI_athwartships_Nmm2": check.plan.ei_in(ATHWARTSHIPS),
+        "ei_ratio_fore_aft": check.ei_ratio_in(FORE_AFT),
+        "ei_ratio_athwartships": check.ei_ratio_in(ATHWARTSHIPS),
+        "strength_ratio_fore_aft": check.strength_ratio_in(FORE_AFT),
+        "strength_ratio_athwartships": check.strength_ratio_in(ATHWARTSHIPS),
+        "ei_ok_fore_aft": check.ei_ok_in(FORE_AFT),
+        "ei_ok_athwartships": check.ei_ok_in(ATHWARTSHIPS),
+        "strength_ok_fore_aft": check.strength_ok_in(FORE_AFT),
+        "strength_ok_athwartships": check.strength_ok_in(ATHWARTSHIPS),
+        "stave_widths_mm": list(sec.widths),
     }
 
 
@@ -156,6 +178,9 @@ def document(design: Design) -> dict[str, Any]:
             "length_mm": spar.length,
             "staves": hollow.staves,
             "joint": hollow.joint.kind,
+            "shape": hollow.shape,
+            "plan_shape": spar.plan.shape,
+            "plan_corner_radius_mm": spar.plan.corner_radius,
             "units": spar.units,
             "source": spar.source,
             "taper": hollow.taper,
@@ -184,6 +209,14 @@ def document(design: Design) -> dict[str, Any]:
             "strength_met": result.strength_met,
             "joints_met": result.joints_met,
             "shortfalls": result.shortfalls(),
+            **{f"min_{what}_ratio_{way}{tail}": value
+               for way in DIRECTIONS
+               for what, weakest_in, ratio in (("ei", result.weakest_stiffness_in, "ei_ratio_in"),
+                                               ("strength", result.weakest_strength_in, "strength_ratio_in"))
+               for tail, value in (("", getattr(weakest_in(way), ratio)(way)),
+                                   ("_z_mm", weakest_in(way).station.z))},
+            **{f"{what}_met_{way}": all(getattr(c, ok)(way) for c in result.stations)
+               for way in DIRECTIONS for what, ok in (("stiffness", "ei_ok_in"), ("strength", "strength_ok_in"))},
         },
         "mass": {
             "hollow_kg": result.hollow.mass.mass,
@@ -202,6 +235,10 @@ def document(design: Design) -> dict[str, Any]:
             "hollow_tip_deflection_mm": result.hollow.tip_deflection,
             "plan_euler_load_N": result.plan.euler_load,
             "hollow_euler_load_N": result.hollow.euler_load,
+            "weaker_direction": result.hollow.direction or None,
+            **{f"{who}_{what}_{way}{unit}": figures.in_direction(way)[k]
+               for way in DIRECTIONS for who, figures in (("plan", result.plan), ("hollow", result.hollow))
+               for k, (what, unit) in enumerate((("tip_deflection", "_mm"), ("euler_load", "_N")))},
         },
         "regions": [{"kind": t.kind, "label": t.label, "material": t.material.key, "mass_kg": t.mass,
                      "ei_added_at_least_ei_ratio": t.ei_added_at_weakest, "ei_added_least": t.ei_added_least,
@@ -245,21 +282,27 @@ def _segment(seg: Segment, board: str | None) -> dict[str, Any]:
     }
 
 
-def _layout(layout: Layout, fig: Figures) -> dict[str, Any]:
-    plan = layout.plan
-    boards = layout.board_of
+def _stave_plan(plan) -> dict[str, Any]:
     return {
-        "stave_plan": {
-            "taper": plan.taper,
-            "cut_length_mm": plan.cut_length,
-            "finished_length_mm": plan.finished_length,
-            "end_allowance_mm": plan.end_allowance,
-            "edge_allowance_mm": plan.edge_allowance,
-            "stations": [{"z_mm": st.z, "s_mm": st.s, "width_mm": st.width, "rough_width_mm": st.rough_width,
-                          "thickness_mm": st.thickness, "notch_depth_mm": st.notch_depth,
-                          "apex_height_mm": st.apex_height, "reasons": list(st.reasons)} for st in plan.stations],
-        },
-        "staves": [{"index": k, "phase": layout.scarfs.phases[k - 1],
+        "taper": plan.taper,
+        "cut_length_mm": plan.cut_length,
+        "finished_length_mm": plan.finished_length,
+        "end_allowance_mm": plan.end_allowance,
+        "edge_allowance_mm": plan.edge_allowance,
+        "stations": [{"z_mm": st.z, "s_mm": st.s, "width_mm": st.width, "rough_width_mm": st.rough_width,
+                      "thickness_mm": st.thickness, "notch_depth_mm": st.notch_depth,
+                      "apex_height_mm": st.apex_height, "reasons": list(st.reasons)} for st in plan.stations],
+    }
+
+
+def _layout(layout: Layout, fig: Figures) -> dict[str, Any]:
+    boards = layout.board_of
+    kinds = layout.kinds or (0,) * len(layout.staves)
+    return {
+        "stave_plan": _stave_plan(layout.plan),  # stave 1's (every stave's for a round)
+        # an oval's staves differ: one plan for each kind of stave (staves of one kind are alike)
+        "stave_plans": [_stave_plan(p) for p in (layout.plans or (layout.plan,))],
+        "staves": [{"index": k, "phase": layout.scarfs.phases[k - 1], "kind": kinds[k - 1],
                     "segments": [_segment(seg, boards.get(seg.label)) for seg in segs]}
                    for k, segs in enumerate(layout.staves, start=1)],
         "scarfs": [{"stave": k, "z_mm": z, "length_mm": layout.scarfs.length}

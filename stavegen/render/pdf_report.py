@@ -266,6 +266,19 @@ def summary(r: Report) -> list:
         ["Euler load, heel fixed, head free", format_force(a.plan.euler_load, units),
          format_force(a.hollow.euler_load, units), f"{a.compared('euler'):.3f}"],
     ]
+    if a.hollow.direction:  # not round: the beam figures above are the weaker direction's; the other way after
+        from ..checks.ratios import ATHWARTSHIPS, FORE_AFT
+
+        words = {FORE_AFT: "fore-and-aft", ATHWARTSHIPS: "athwartships"}
+        weak = a.hollow.direction
+        other = ATHWARTSHIPS if weak == FORE_AFT else FORE_AFT
+        for row in whole[3:]:
+            row[0] += f", {words[weak]} (the weaker way)"
+        pd, pe = a.plan.in_direction(other)
+        hd, he = a.hollow.in_direction(other)
+        whole += [[f"head deflection, {words[other]}", r.length(pd), r.length(hd), f"{hd / pd:.3f}"],
+                  [f"Euler load, {words[other]}", format_force(pe, units), format_force(he, units),
+                   f"{he / pe:.3f}"]]
     saving = (f"Weight saved: {format_mass(saved, units)} ({100 * a.weight_saved_share:.0f} % of the plan's)."
               if saved >= 0 else f"The hollow spar is {format_mass(-saved, units)} heavier than the plan.")
     load_note = (f"The head load, {load_words}, is the one the spar file names (spar.head_load)"
@@ -290,11 +303,13 @@ def _rough_width(r: Report, z: float) -> float | None:
     """The rough (rip) width the layout computed at station z, if the layout has that station."""
     if r.layout is None:
         return None
-    stations = r.layout.plan.stations  # heel to head: the first within the tolerance, found by bisection
-    i = bisect.bisect_left(stations, z - MERGE_TOLERANCE, key=lambda st: st.z)
-    if i < len(stations) and abs(stations[i].z - z) <= MERGE_TOLERANCE:
-        return stations[i].rough_width
-    return None
+    found = []
+    for plan in r.layout.plans or (r.layout.plan,):  # an oval's: the widest stave's
+        stations = plan.stations  # heel to head: the first within the tolerance, found by bisection
+        i = bisect.bisect_left(stations, z - MERGE_TOLERANCE, key=lambda st: st.z)
+        if i < len(stations) and abs(stations[i].z - z) <= MERGE_TOLERANCE:
+            found.append(stations[i].rough_width)
+    return max(found) if found else None
 
 
 STATION_ROWS_PER_TABLE = 200  # an even number: the stripes run on across blocks
@@ -306,6 +321,10 @@ def station_table(r: Report) -> list:
     u = r.unit_note
     head = [f"from heel{u}", "plan\nOD", "finished\nOD", "wall", "stave width\nfinished", "stave width\nrough",
             "notch\ndepth", "apex\nheight", "EI\nratio", "strength\nratio", "plug", "note"]
+    if a.two_axis:
+        head = [f"from heel{u}", "plan f-a\nx ath", "finished\nf-a x ath", "wall", "staves\nnarrowest to\nwidest",
+                "widest\nrough", "notch\ndepth", "apex\nheight", "EI ratio\nf-a / ath",
+                "strength\nf-a / ath", "plug", "note"]
     if u:
         head = [head[0]] + [h + (" (mm)" if 0 < i < 8 else "") for i, h in enumerate(head) if i > 0]
     rows: list[list[str]] = [head]
@@ -324,13 +343,27 @@ def station_table(r: Report) -> list:
             note.append("least strength")
         if "parting" in s.reasons:
             note.append("parting")
-        rows.append([r.cell(s.z, "position"), r.cell(s.plan_diameter), r.cell(s.diameter, "dress"),
-                     r.cell(s.wall, "dress"), r.cell(sec.stave_width, "mark-width"),
-                     r.cell(_rough_width(r, s.z), "dress"),
-                     r.cell(sec.notch.depth if sec.notch else None, "notch-depth"),
-                     r.cell(sec.notch.apex_height if sec.notch else None, "apex-height"),
-                     f"{c.ei_ratio:.3f}", f"{c.strength_ratio:.3f}", "yes" if s.plug else "",
-                     "\n".join(note)])
+        if a.two_axis:  # both dimensions, the widest and narrowest stave, each ratio fore-and-aft / athwartships
+            from ..checks.ratios import ATHWARTSHIPS, FORE_AFT
+
+            rows.append([r.cell(s.z, "position"), f"{r.cell(s.plan_diameter)}\nx {r.cell(s.plan_athwart)}",
+                         f"{r.cell(s.fore_aft, 'dress')}\nx {r.cell(s.athwart, 'dress')}",
+                         r.cell(s.wall, "dress"),
+                         f"{r.cell(min(sec.widths), 'mark-width')} to\n{r.cell(max(sec.widths), 'mark-width')}",
+                         r.cell(_rough_width(r, s.z), "dress"),
+                         r.cell(sec.notch.depth if sec.notch else None, "notch-depth"),
+                         r.cell(sec.notch.apex_height if sec.notch else None, "apex-height"),
+                         f"{c.ei_ratio_in(FORE_AFT):.3f}\n{c.ei_ratio_in(ATHWARTSHIPS):.3f}",
+                         f"{c.strength_ratio_in(FORE_AFT):.3f}\n{c.strength_ratio_in(ATHWARTSHIPS):.3f}",
+                         "yes" if s.plug else "", "\n".join(note)])
+        else:
+            rows.append([r.cell(s.z, "position"), r.cell(s.plan_diameter), r.cell(s.diameter, "dress"),
+                         r.cell(s.wall, "dress"), r.cell(sec.stave_width, "mark-width"),
+                         r.cell(_rough_width(r, s.z), "dress"),
+                         r.cell(sec.notch.depth if sec.notch else None, "notch-depth"),
+                         r.cell(sec.notch.apex_height if sec.notch else None, "apex-height"),
+                         f"{c.ei_ratio:.3f}", f"{c.strength_ratio:.3f}", "yes" if s.plug else "",
+                         "\n".join(note)])
         if note:
             marks.append((i, not c.ok))
     widths = [18, 14, 15, 13, 17, 17, 14, 14, 12, 14, 9, 24]
@@ -421,10 +454,79 @@ def _check_bar(d: Drawing, x: float, y: float, r: Report, k: float) -> None:
 SHEATHING = colors.Color(0.55, 0.75, 0.55)  # glass and epoxy over the wood in the section figure
 
 
+def _oval_section_drawing(r: Report, check: StationCheck) -> list:
+    """An oval section: every stave (each kind its own width), the finished oval with its axes named, the bore."""
+    sec = check.station.section
+    n = sec.staves
+    a_mm, b_mm = sec.semi_axes
+    rings_mm = sec.placed_rings()
+    reach_mm = max(max(abs(x), abs(y)) for ring in rings_mm for x, y in ring)
+    sa, sb = _scale_for(2 * reach_mm, min(r.width / MM - 30, 150.0))
+    k = MM * sa / sb
+    half = reach_mm * k
+    kinds = ", ".join(f"{r.fig.mark_width(kind.width)} ({kind.count} staves: "
+                      f"{', '.join(str(m + 1) for m in kind.members)})" for kind in sec.kinds)
+    notes = [
+        f"{n} staves, {sec.joint}; finished {r.fig.dress(sec.fore_aft)} fore-and-aft by "
+        f"{r.fig.dress(sec.athwartships)} athwartships: the heavy oval (pale: wood taken off in rounding)",
+        f"stave widths before the notch, widest first: {kinds}; stave 1 faces athwartships, numbered "
+        f"counter-clockwise looking from the heel",
+        f"stave thickness {r.fig.dress(sec.thickness)}, wall {r.fig.dress(check.station.wall)}",
+        f"wall after rounding at least {r.fig.least(sec.least_wall)}",
+        f"across the flats before rounding {r.length(sec.across_flats)} fore-and-aft, "
+        f"{r.length(sec.across_flats_athwartships)} athwartships" + ("; plugged here (grey)" if check.station.plug
+                                                                     else ""),
+        f"scale {_scale_words(sa, sb)} when printed at 100 %",
+    ]
+    height = 2 * half + 30
+    d = Drawing(r.width, height)
+    cx, cy = r.width / 2, height - half - 8
+    rings = [[v for x, y in ring for v in (cx + x * k, cy + y * k)] for ring in rings_mm]
+    oval = [v for x, y in sec.finished_points(240) for v in (cx + x * k, cy + y * k)]
+    for ring in rings:
+        d.add(Polygon(ring, fillColor=PALE_WOOD, strokeColor=None))
+    d.add(Polygon(oval, fillColor=WOOD, strokeColor=None))
+    for ring in rings:
+        d.add(Polygon(ring, fillColor=None, strokeColor=colors.Color(0.45, 0.35, 0.2), strokeWidth=0.4))
+    d.add(Polygon([v for x, y in sec.bore_points() for v in (cx + x * k, cy + y * k)],
+                  fillColor=colors.Color(0.82, 0.82, 0.82) if check.station.plug else colors.white,
+                  strokeColor=colors.Color(0.45, 0.35, 0.2), strokeWidth=0.4))
+    d.add(Polygon(oval, fillColor=None, strokeColor=colors.black, strokeWidth=1.1))
+    for i, ring in enumerate(rings_mm):  # stave numbers on the outer faces
+        mx = sum(x for x, _ in ring) / len(ring)
+        my = sum(y for _, y in ring) / len(ring)
+        d.add(String(cx + mx * k, cy + my * k - 2, str(i + 1), fontName=FONT, fontSize=6, textAnchor="middle"))
+    axis = colors.Color(0.2, 0.3, 0.6)
+    d.add(Line(cx - half - 4, cy, cx + half + 4, cy, strokeWidth=0.4, strokeColor=axis, strokeDashArray=(4, 2)))
+    d.add(Line(cx, cy - half - 4, cx, cy + half + 4, strokeWidth=0.4, strokeColor=axis, strokeDashArray=(4, 2)))
+    d.add(String(cx + half + 6, cy - 2.5, "fore-and-aft", fontName=ITALIC, fontSize=7, fillColor=axis))
+    d.add(String(cx + 3, cy + half + 6, "athwartships", fontName=ITALIC, fontSize=7, fillColor=axis))
+    _dim(d, (cx - a_mm * k, cy - b_mm * k - 6), (cx + a_mm * k, cy - b_mm * k - 6),
+         f"fore-and-aft {r.fig.dress(sec.fore_aft)}", (cx, cy - b_mm * k - 15))
+    _check_bar(d, 0, 4, r, k)
+    half_rows = math.ceil(len(notes) / 2)
+    cells = [[r.p(r.t(notes[i]), "small"), r.p(r.t(notes[i + half_rows]), "small") if i + half_rows < len(notes)
+              else ""] for i in range(half_rows)]
+    table = Table(cells, colWidths=[r.width / 2] * 2, hAlign="LEFT")
+    table.setStyle(TableStyle([("LEFTPADDING", (0, 0), (-1, -1), 0), ("TOPPADDING", (0, 0), (-1, -1), 0.5),
+                               ("BOTTOMPADDING", (0, 0), (-1, -1), 0.5), ("VALIGN", (0, 0), (-1, -1), "TOP")]))
+    out = [CondPageBreak(height + 80),
+           r.h2(f"Section at the widest stave, {r.where(check.station.z)} from the heel"), d, Spacer(1, 4), table,
+           Spacer(1, 8)]
+    for kind in sec.kinds:
+        out.append(r.p(r.t(f"Stave {kind.members[0] + 1} (and {', '.join(str(m + 1) for m in kind.members[1:])}: "
+                           f"the same stave):"
+                           if kind.count > 1 else f"Stave {kind.members[0] + 1}:"), "small"))
+        out += _stave_detail(r, sec.kind_section(kind.index))
+    return out
+
+
 def section_drawing(r: Report) -> list:
     a = r.design.assessment
     check: StationCheck = max(a.stations, key=lambda c: c.station.section.stave_width)
     sec: Section = check.station.section
+    if sec.shape != "round":
+        return _oval_section_drawing(r, check)
     regions = check.hollow.regions
     n = sec.staves
     R = sec.radius
@@ -636,25 +738,45 @@ def ei_plot(r: Report) -> list:
     unit, _ = _position_axis(r)
     ei_unit, ei_words = _ei_axis(r)
     z = [c.station.z / unit for c in a.stations]
-    plan = list(zip(z, [c.plan.ei / ei_unit for c in a.stations]))
-    hollow = list(zip(z, [c.hollow.ei / ei_unit for c in a.stations]))
-    ratio = list(zip(z, [c.ei_ratio for c in a.stations]))
     target = [(z[0], a.ei_target), (z[-1], a.ei_target)]
     bands = [(p.start / unit, p.end / unit, "plug") for p in r.spar.hollow.plugs]
     blue = colors.Color(0.1, 0.3, 0.7)
-    top = _plot(r, [(plan, colors.black, 1.2, (4, 2)), (hollow, blue, 1.4, None)], ei_words, 190, y_min=0,
-                bands=bands, legend=[("plan (solid)", colors.black, (4, 2)), ("hollow", blue, None)])
-    ratios = [v for _, v in ratio]
+    green = colors.Color(0.15, 0.5, 0.2)
+    if a.two_axis:
+        from ..checks.ratios import ATHWARTSHIPS, FORE_AFT
+
+        ways = ((FORE_AFT, "fore-and-aft", blue), (ATHWARTSHIPS, "athwartships", green))
+        lines, legend, ratio_lines, ratio_legend = [], [], [], []
+        for way, words, colour in ways:
+            lines += [(list(zip(z, [c.plan.ei_in(way) / ei_unit for c in a.stations])), colour, 1.0, (4, 2)),
+                      (list(zip(z, [c.hollow.ei_in(way) / ei_unit for c in a.stations])), colour, 1.4, None)]
+            legend += [(f"plan {words}", colour, (4, 2)), (f"hollow {words}", colour, None)]
+            ratio_lines.append((list(zip(z, [c.ei_ratio_in(way) for c in a.stations])), colour, 1.4, None))
+            ratio_legend.append((words, colour, None))
+        ratios = [v for line in ratio_lines for _, v in line[0]]
+        words = ("E·I of the plan's solid spar (dashed) and of the hollow spar fore-and-aft and athwartships at "
+                 "every station; below, the ratio in each direction against the target. Plugged stretches are "
+                 "shaded.")
+    else:
+        plan = list(zip(z, [c.plan.ei / ei_unit for c in a.stations]))
+        hollow = list(zip(z, [c.hollow.ei / ei_unit for c in a.stations]))
+        ratio = list(zip(z, [c.ei_ratio for c in a.stations]))
+        lines = [(plan, colors.black, 1.2, (4, 2)), (hollow, blue, 1.4, None)]
+        legend = [("plan (solid)", colors.black, (4, 2)), ("hollow", blue, None)]
+        ratio_lines, ratio_legend = [(ratio, blue, 1.4, None)], [("ratio", blue, None)]
+        ratios = [v for _, v in ratio]
+        words = ("E·I of the plan's solid spar and of the hollow spar at every station; below, their ratio "
+                 "against the target. Plugged stretches are shaded; a plug stiffens the spar where it fills "
+                 "the bore.")
+    top = _plot(r, lines, ei_words, 190, y_min=0, bands=bands, legend=legend)
     lo = min(min(ratios), a.ei_target, 1.0)
     hi = max(max(ratios), a.ei_target)
     pad = 0.05 * (hi - lo or 1)
-    series = [(ratio, blue, 1.4, None), (target, FAIL_RED, 1.0, (3, 2))]
+    series = ratio_lines + [(target, FAIL_RED, 1.0, (3, 2))]
     bottom = _plot(r, series, "E·I ratio, hollow / plan", 170, y_min=lo - pad, y_max=hi + pad, bands=bands,
-                   legend=[("ratio", blue, None), (f"target {a.ei_target:.3f}", FAIL_RED, (3, 2))])
-    return [CondPageBreak(420), r.h2("Stiffness along the spar"),
-            r.p(r.t("E·I of the plan's solid spar and of the hollow spar at every station; below, their ratio "
-                    "against the target. Plugged stretches are shaded; a plug stiffens the spar where it fills "
-                    "the bore."), "small"), top, Spacer(1, 6), bottom]
+                   legend=ratio_legend + [(f"target {a.ei_target:.3f}", FAIL_RED, (3, 2))])
+    return [CondPageBreak(420), r.h2("Stiffness along the spar"), r.p(r.t(words), "small"), top, Spacer(1, 6),
+            bottom]
 
 
 # Cut list, scarf map, plugs --------------------------------------------------------------------------------------

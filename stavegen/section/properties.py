@@ -11,7 +11,7 @@ holds by construction. Lengths mm, areas mm², second moments mm⁴.
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 from functools import cached_property
 
 import shapely
@@ -47,6 +47,62 @@ class Section:
     overlap: float
     glue_line: float
     hollow_reach: float = 0.0
+    whole: object = field(default=None, compare=False, repr=False)
+    """For one stave of an oval (:meth:`~stavegen.section.oval.OvalSection.kind_section`): the whole oval section
+    it belongs to (end views draw that); None for a round's section, which is itself whole."""
+
+    @property
+    def assembled(self):
+        """The whole section this one's stave belongs to (itself for a round)."""
+        return self.whole if self.whole is not None else self
+
+    shape = "round"
+
+    @property
+    def fore_aft(self) -> float:
+        """The finished outside fore-and-aft (the diameter), mm."""
+        return 2 * self.radius
+
+    @property
+    def athwartships(self) -> float:
+        return 2 * self.radius
+
+    @property
+    def inertia_fore_aft(self) -> float:
+        return self.inertia
+
+    @property
+    def inertia_athwartships(self) -> float:
+        return self.inertia
+
+    @property
+    def kinds(self) -> tuple:
+        """One kind of stave: every stave of a round is the same."""
+        from .oval import StaveKind
+
+        return (StaveKind(0, tuple(range(self.staves)), self.stave_width, self.outer_apothem, self.frame),)
+
+    def kind_section(self, j: int = 0) -> "Section":
+        return self
+
+    def placed_rings(self) -> list[list[tuple[float, float]]]:
+        """Every stave in the axis frame, before rounding."""
+        from .staves import placed
+
+        polygon = self.stave_polygon()
+        return [list(placed(polygon, self.staves, k).exterior.coords)[:-1] for k in range(self.staves)]
+
+    def bore_points(self) -> list[tuple[float, float]]:
+        return bore_ring(self.staves, self.inner_apothem)
+
+    def finished_points(self, count: int = 360) -> list[tuple[float, float]]:
+        r = self.radius
+        return [(r * math.cos(2 * math.pi * i / count), r * math.sin(2 * math.pi * i / count)) for i in range(count)]
+
+    @property
+    def widths(self) -> tuple[float, ...]:
+        """Every stave's width before the notch, mm (all the same in a round)."""
+        return (self.stave_width,) * self.staves
 
     @property
     def least_wall(self) -> float:

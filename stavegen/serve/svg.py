@@ -21,7 +21,7 @@ from shapely.geometry import Point, Polygon
 
 from ..model.spar import Spar
 from ..pipeline import Design
-from ..section.properties import Section, bore_ring
+from ..section.properties import Section
 from ..section.staves import placed_ring
 from ..stations.evaluate import Station
 from ..render.figures import Figures
@@ -85,12 +85,17 @@ def section_svg(spar: Spar, station: Station) -> str:
     sec: Section = station.section
     units = spar.units
     n = sec.staves
-    staves = list(placed_ring(sec.stave_polygon(), n, range(n)))
+    oval = sec.shape != "round"
+    if oval:
+        staves = [Polygon(ring) for ring in sec.placed_rings()]
+    else:
+        staves = list(placed_ring(sec.stave_polygon(), n, range(n)))
     reach = max(math.hypot(x, y) for p in staves for x, y in p.exterior.coords)
-    plan_r = station.plan_diameter / 2
+    plan_r = max(station.plan_diameter, station.plan_athwart) / 2
     extent = max(reach, plan_r, sec.radius) * 1.05
-    disc = Point(0.0, 0.0).buffer(sec.radius, quad_segs=ROUND_QUADS)
-    bore = Polygon(bore_ring(n, sec.inner_apothem))
+    disc = (Polygon(sec.finished_points(4 * ROUND_QUADS * 4)) if oval
+            else Point(0.0, 0.0).buffer(sec.radius, quad_segs=ROUND_QUADS))
+    bore = Polygon(sec.bore_points())
     line = extent / 250
     body = []
     for k, stave in enumerate(staves):
@@ -105,22 +110,42 @@ def section_svg(spar: Spar, station: Station) -> str:
     if sec.void_area > 0:
         voids = disc.difference(shapely.union_all(staves + [bore]))
         body.append(f'<path class="void" d="{_path(voids)}" fill="#d33" stroke="none"/>')
-    body.append(f'<circle class="round" cx="0" cy="0" r="{_num(sec.radius)}" fill="none" stroke="#222" '
-                f'stroke-width="{_num(line * 1.6)}"/>')
-    body.append(f'<circle class="plan" cx="0" cy="0" r="{_num(plan_r)}" fill="none" stroke="#2563eb" '
-                f'stroke-width="{_num(line)}" stroke-dasharray="{_num(line * 6)} {_num(line * 4)}"/>')
+    if oval:
+        a, b = sec.semi_axes
+        pa, pb = station.plan_diameter / 2, station.plan_athwart / 2
+        body.append(f'<ellipse class="round" cx="0" cy="0" rx="{_num(a)}" ry="{_num(b)}" fill="none" stroke="#222" '
+                    f'stroke-width="{_num(line * 1.6)}"/>')
+        if spar.plan.shape == "rectangle":
+            body.append(f'<rect class="plan" x="{_num(-pa)}" y="{_num(-pb)}" width="{_num(2 * pa)}" '
+                        f'height="{_num(2 * pb)}" rx="{_num(spar.plan.corner_radius)}" fill="none" stroke="#2563eb" '
+                        f'stroke-width="{_num(line)}" stroke-dasharray="{_num(line * 6)} {_num(line * 4)}"/>')
+        else:
+            body.append(f'<ellipse class="plan" cx="0" cy="0" rx="{_num(pa)}" ry="{_num(pb)}" fill="none" '
+                        f'stroke="#2563eb" stroke-width="{_num(line)}" '
+                        f'stroke-dasharray="{_num(line * 6)} {_num(line * 4)}"/>')
+    else:
+        body.append(f'<circle class="round" cx="0" cy="0" r="{_num(sec.radius)}" fill="none" stroke="#222" '
+                    f'stroke-width="{_num(line * 1.6)}"/>')
+        body.append(f'<circle class="plan" cx="0" cy="0" r="{_num(plan_r)}" fill="none" stroke="#2563eb" '
+                    f'stroke-width="{_num(line)}" stroke-dasharray="{_num(line * 6)} {_num(line * 4)}"/>')
     size = extent * 0.075
     fig = Figures(spar)
-    sheathed = station.diameter - 2 * sec.radius > 1e-9
+    sheathed = station.diameter - 2 * sec.radius > 1e-9 and not oval
     if sheathed:  # the sheathing over the rounded wood, to the finished diameter
         body.append(f'<circle class="sheathing" cx="0" cy="0" r="{_num(station.diameter / 2)}" fill="none" '
                     f'stroke="#4a8a4a" stroke-width="{_num(line * 1.6)}"/>')
-    words = (f"{n} staves, OD {fig.dress(station.diameter)}"
-             + (f" (wood {fig.dress(2 * sec.radius)}, sheathed)" if sheathed else "")
-             + f", wall {fig.dress(station.wall)}" + (", plugged" if plug else ""))
+    if oval:
+        words = (f"{n} staves, {fig.dress(sec.fore_aft)} fore-and-aft (across) by {fig.dress(sec.athwartships)} "
+                 f"athwartships, wall {fig.dress(station.wall)}" + (", plugged" if plug else ""))
+        plan_words = (f"plan (dashed, {spar.plan.shape}): {format_length(station.plan_diameter, units)} by "
+                      f"{format_length(station.plan_athwart, units)}")
+    else:
+        words = (f"{n} staves, OD {fig.dress(station.diameter)}"
+                 + (f" (wood {fig.dress(2 * sec.radius)}, sheathed)" if sheathed else "")
+                 + f", wall {fig.dress(station.wall)}" + (", plugged" if plug else ""))
+        plan_words = f"plan (dashed): OD {format_length(station.plan_diameter, units)}"
     body.append(_text(0, extent + size * 1.3, words, size))
-    body.append(_text(0, extent + size * 2.6, f"plan (dashed): OD {format_length(station.plan_diameter, units)}",
-                      size * 0.85, fill="#2563eb"))
+    body.append(_text(0, extent + size * 2.6, plan_words, size * 0.85, fill="#2563eb"))
     title = f"Section at {format_length(station.z, units, tape=True)} from the heel"
     return _svg((-extent, -extent, 2 * extent, 2 * extent + size * 3.2), body, title, "section-svg",
                 {"staves": str(n), "od-mm": _num(station.diameter), "wall-mm": _num(station.wall),
@@ -148,9 +173,19 @@ def stave_svg(spar: Spar, sec: Section) -> str:
     """One stave's cross-section at the station, outer face up: the engine's polygon, the wood left after
     rounding shaded, and its width, thickness and notch dimensioned."""
     fig = Figures(spar)
+    if sec.shape != "round":  # an oval: its widest stave, in its own frame, the oval turned with it
+        from shapely.affinity import rotate
+
+        from ..section.oval import normal_angle
+
+        j = max(sec.kinds, key=lambda kind: kind.width).index
+        turn = math.degrees(normal_angle(sec.staves, j)) - 90.0
+        disc = rotate(Polygon(sec.finished_points(4 * ROUND_QUADS * 4)), -turn, origin=(0.0, 0.0))
+        sec = sec.kind_section(j)
+    else:
+        disc = Point(0.0, 0.0).buffer(sec.radius, quad_segs=ROUND_QUADS)
     frame = sec.frame
     polygon = sec.stave_polygon()
-    disc = Point(0.0, 0.0).buffer(sec.radius, quad_segs=ROUND_QUADS)
     finished = disc.intersection(polygon)
     minx, miny, maxx, maxy = polygon.bounds
     w, t = maxx - minx, maxy - miny

@@ -242,6 +242,8 @@ def compare_stave_counts(spar: Spar, pool: Pool | None = None, progress: Progres
         raise InputError('staves = "auto" needs a [stock] table: the choice is by the wood to buy', "hollow.staves")
     first = MIN_STAVES if spar.hollow.joint.kind == "bevel" else MIN_STAVES + 1
     counts = list(range(first, MAX_STAVES + 1))
+    if spar.hollow.two_axis:  # an oval needs an even count, symmetric about both axes
+        counts = [n for n in counts if n % 2 == 0]
     refuse_too_many(spar, MOST_STATIONS_COMPARED, f" when it compares the {len(counts)} stave counts")
     tell = progress or (lambda done, total, words="": None)
     steps = {"done": 0, "total": 2 * len(counts), "words": f"checking {first} to {MAX_STAVES} staves"}

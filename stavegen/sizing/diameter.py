@@ -25,7 +25,7 @@ from ..errors import DesignError
 from ..model.spar import Profile, Spar
 from ..units import format_exact, format_length
 from .roots import Miss, Window, common_windows, window
-from .targets import (Criterion, Point, check_at, closed_form_applies, closed_form_check_at, closed_form_checker,
+from .targets import (Criterion, Point, athwartships_share, check_at, closed_form_applies, closed_form_check_at, closed_form_checker,
                       closed_form_trusted, criteria_of, place, points_of, ratio_text)
 from .wall import BORE_CLEARANCE, BORE_CORNERS, CORNER_MINIMUM
 
@@ -47,6 +47,8 @@ class DiameterSolution:
 def scale_range(spar: Spar, point: Point) -> tuple[float, str, float, str]:
     """Least and greatest scale factor at ``point`` and what sets each (see the module's bounds)."""
     h = spar.hollow
+    if h.two_axis:
+        return _oval_scale_range(spar, point)
     t = float(h.wall.at(point.z))
     plan_radius = point.plan_diameter / 2
     cos = math.cos(math.pi / h.staves)
@@ -56,6 +58,34 @@ def scale_range(spar: Spar, point: Point) -> tuple[float, str, float, str]:
     low, low_by = (1.0, PLAN) if bore <= 1.0 else (bore, BORE_CLOSES)
     high = ((t - h.planing_allowance - corner * cos - BORE_CLEARANCE) / (1 - cos) + sheath) / plan_radius
     return low, low_by, high, (CORNER_MINIMUM if corner else BORE_CORNERS)
+
+
+def _oval_scale_range(spar: Spar, point: Point) -> tuple[float, str, float, str]:
+    """:func:`scale_range` for an oval: k times the plan's smaller half-dimension over the wall (the bore closes
+    below), and the largest k whose bore's corners stay inside the finished oval (brentq on their reach)."""
+    from scipy.optimize import brentq
+
+    from ..section.oval import corner_reach
+
+    h = spar.hollow
+    t = float(h.wall.at(point.z))
+    fore_aft = point.plan_diameter
+    athwartships = fore_aft * athwartships_share(spar, point.z)
+    corner = h.min_corner_wall or 0.0
+    bore = t / (min(fore_aft, athwartships) / 2) * (1 + 1e-9)
+    low, low_by = (1.0, PLAN) if bore <= 1.0 else (bore, BORE_CLOSES)
+    high_by = CORNER_MINIMUM if corner else BORE_CORNERS
+
+    def excess(k: float) -> float:
+        return corner_reach(h.staves, k * fore_aft, k * athwartships, t, h.planing_allowance, corner) - 1.0
+
+    if excess(low) >= 0:
+        return low, low_by, low * (1 - 1e-9), high_by
+    top = 2 * low
+    while excess(top) < 0 and top < 1e6:
+        top *= 2
+    high = brentq(excess, low, top, xtol=1e-12, rtol=1e-12) * (1 - 1e-9)
+    return low, low_by, high, high_by
 
 
 def scale_window(spar: Spar, point: Point, criteria: tuple[Criterion, ...], trust: bool = False) -> Window | Miss:

@@ -19,7 +19,8 @@ from ..stations.evaluate import SectionCache, Station
 from ..units import format_exact, format_length_up
 from .diameter import BORE_CLOSES, PLAN, describe_scale, solve_diameter_scale
 from .roots import NOTCH
-from .targets import EI_RATIO, STRENGTH_RATIO, Point, check_at, closed_form_applies, criteria_of, place, points_of
+from .targets import (EI_RATIO, STRENGTH_RATIO, Point, check_at, closed_form_applies, criteria_of, place, points_of,
+                      station_at)
 from .wall import BORE_CORNERS, CORNER_MINIMUM, WallSolution, solve_constant_wall, solve_tapered_wall
 
 if TYPE_CHECKING:
@@ -49,9 +50,7 @@ def _exact_check(spar: Spar, point: Point, sections: SectionCache | None) -> Sta
     radius, wall = float(spar.hollow.diameter.at(point.z)) / 2, float(spar.hollow.wall.at(point.z))
     if sections is None:
         return check_at(spar, point, radius, wall)
-    station = Station(z=point.z, reasons=point.reasons, plan_diameter=point.plan_diameter, diameter=2 * radius,
-                      wall=wall, plug=point.plug, section=sections.at(point.z))
-    return check_station(spar, station)
+    return check_station(spar, station_at(spar, point, radius, wall, sections.at(point.z)))
 
 
 def _least(spar: Spar, sections: SectionCache | None = None) -> str:
@@ -121,7 +120,12 @@ def _solve_size(spar: Spar, skip: bool, trust: bool) -> tuple[Spar, object]:
     h = spar.hollow
     if h.diameter == AUTO:
         solution = solve_diameter_scale(spar, skip=skip, trust=trust)
-        return replace(spar, hollow=replace(h, diameter=solution.diameter, diameter_given=True)), solution
+        athwartships = h.athwartships
+        if h.two_axis:  # the scale applies to both dimensions
+            plan = spar.plan.athwart
+            athwartships = Profile(plan.z, tuple(solution.scale * d for d in plan.value))
+        return replace(spar, hollow=replace(h, diameter=solution.diameter, diameter_given=True,
+                                            athwartships=athwartships)), solution
     solver = solve_constant_wall if h.wall == AUTO else solve_tapered_wall
     solution = solver(spar, skip=skip, trust=trust)
     return replace(spar, hollow=replace(h, wall=solution.wall)), solution

@@ -23,10 +23,10 @@ from typing import Callable
 
 from ..checks.ratios import StationCheck, check_station, targets
 from ..errors import DesignError
-from ..model.spar import Plug, Spar
+from ..model.spar import Plug, Profile, Spar
 from ..section.integrals import Moments
 from ..section.properties import bore_ring
-from ..stations.evaluate import Station, hollow_section, plug_at_station, where, wood_radius
+from ..stations.evaluate import Station, hollow_section, oval_section, plug_at_station, where, wood_radius
 from ..units import Way, system
 from ..stations.grid import station_marks
 
@@ -95,6 +95,26 @@ def place(spar: Spar, point: Point) -> str:
     return where(spar, point.z) + ("" if point.at_station else f" ({MIDDLE})")
 
 
+def athwartships_share(spar: Spar, z: float) -> float:
+    """An oval hollow spar's athwartships dimension over its fore-and-aft one at ``z``: the file's, or the plan's
+    when the hollow spar's dimensions are solved (the scale applies to both)."""
+    h = spar.hollow
+    if isinstance(h.athwartships, Profile) and isinstance(h.diameter, Profile):
+        return float(h.athwartships.at(z)) / float(h.diameter.at(z))
+    return float(spar.plan.athwart.at(z)) / float(spar.plan.diameter.at(z))
+
+
+def station_at(spar: Spar, point: Point, radius: float, wall: float, section) -> Station:
+    """The Station a trial section makes at ``point``: finished ``radius`` (half the fore-and-aft dimension of an
+    oval), ``wall`` (mm)."""
+    two = spar.hollow.two_axis
+    return Station(z=point.z, reasons=point.reasons, plan_diameter=point.plan_diameter, diameter=2 * radius,
+                   wall=wall, plug=point.plug, section=section,
+                   plan_athwartships=(float(spar.plan.athwartships.at(point.z)) if spar.plan.athwartships is not None
+                                      else None),
+                   athwartships=section.athwartships if two else None)
+
+
 def check_at(spar: Spar, point: Point, radius: float, wall: float) -> StationCheck:
     """The section of finished ``radius`` (layers included) and ``wall`` (mm) at ``point``, as it would be built,
     against the plan.
@@ -104,10 +124,13 @@ def check_at(spar: Spar, point: Point, radius: float, wall: float) -> StationChe
     exact section of the wall itself.
     """
     thickness = system(spar.units).on_grid(wall, Way.UP)
-    section = hollow_section(spar, wood_radius(spar, radius, point.z), wall, place(spar, point), thickness=thickness)
-    station = Station(z=point.z, reasons=point.reasons, plan_diameter=point.plan_diameter, diameter=2 * radius,
-                      wall=wall, plug=point.plug, section=section)
-    return check_station(spar, station)
+    if spar.hollow.two_axis:
+        section = oval_section(spar, 2 * radius, 2 * radius * athwartships_share(spar, point.z), wall,
+                               place(spar, point), thickness=thickness)
+    else:
+        section = hollow_section(spar, wood_radius(spar, radius, point.z), wall, place(spar, point),
+                                 thickness=thickness)
+    return check_station(spar, station_at(spar, point, radius, wall, section))
 
 
 CLOSED_FORM_JOINTS = ("birdsmouth-flush", "bevel")  # joints that leave no voids: wall = disc − bore
@@ -221,7 +244,7 @@ def closed_form_trusted(spar: Spar, point: Point, criteria: tuple[Criterion, ...
 
 
 def closed_form_applies(spar: Spar) -> bool:
-    return spar.hollow.joint.kind in CLOSED_FORM_JOINTS
+    return spar.hollow.joint.kind in CLOSED_FORM_JOINTS and not spar.hollow.two_axis
 
 
 def agrees(exact: StationCheck, quick: StationCheck, criteria: tuple[Criterion, ...]) -> bool:

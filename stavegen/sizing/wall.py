@@ -33,7 +33,7 @@ from ..model.spar import AUTO_TAPERED, Profile, Spar
 from ..units import format_exact, format_length, format_length_up
 from ..stations.evaluate import wood_radius
 from .roots import INSIDE, NOTCH, NOTCH_UPPER, UPPER, Miss, Window, common_windows, window
-from .targets import (Criterion, Point, check_at, closed_form_applies, closed_form_check_at, closed_form_checker,
+from .targets import (Criterion, Point, athwartships_share, check_at, closed_form_applies, closed_form_check_at, closed_form_checker,
                       closed_form_trusted, criteria_of, place, points_of, ratio_text)
 
 KEY = "hollow.wall"
@@ -55,13 +55,43 @@ class WallSolution:
     thickened: int = 0
 
 
+def oval_wall_range(spar: Spar, z: float) -> tuple[float, str, float]:
+    """:func:`wall_range` for an oval at ``z``: the thinnest wall whose bore's corners stay inside the finished
+    oval (shrunk by hollow.min_corner_wall), found by brentq on the corners' reach, and just under the smaller
+    half-dimension."""
+    from scipy.optimize import brentq
+
+    from ..section.oval import corner_reach
+
+    h = spar.hollow
+    fore_aft = float(h.diameter.at(z))
+    athwartships = fore_aft * athwartships_share(spar, z)
+    corner = h.min_corner_wall or 0.0
+    thickest = min(fore_aft, athwartships) / 2 * (1 - 1e-9)
+
+    def excess(t: float) -> float:
+        return corner_reach(h.staves, fore_aft, athwartships, t, h.planing_allowance, corner) - 1.0
+
+    low = 1e-6
+    if excess(low) <= 0:
+        thinnest = low
+    elif excess(thickest) >= 0:
+        thinnest = thickest
+    else:
+        thinnest = brentq(excess, low, thickest, xtol=1e-12, rtol=1e-12) + BORE_CLEARANCE
+    return thinnest, (CORNER_MINIMUM if corner else BORE_CORNERS), thickest
+
+
 def wall_range(spar: Spar, radius: float, z: float | None = None) -> tuple[float, str, float]:
     """Thinnest wall (mm) a finished ``radius`` allows, what sets it, and the thickest (just under the radius).
 
     Thinnest: t ≥ R + p − (R − c_min)·cos(π/N) + clearance, from the bore's
-    corner radius a_i / cos(π/N) ≤ R − c_min (c_min = hollow.min_corner_wall or 0).
+    corner radius a_i / cos(π/N) ≤ R − c_min (c_min = hollow.min_corner_wall or 0). For an oval (``z``
+    given), :func:`oval_wall_range`.
     """
     h = spar.hollow
+    if h.two_axis and z is not None:
+        return oval_wall_range(spar, z)
     if z is not None:
         radius = wood_radius(spar, radius, z)  # the wood under the layers
     cos = math.cos(math.pi / h.staves)

@@ -31,9 +31,72 @@ class Station:
     wall: float
     plug: Plug | None
     section: Section
+    plan_athwartships: float | None = None
+    """The plan's athwartships dimension (mm), for a plan that is not round; ``plan_diameter`` is then fore-and-aft."""
+    athwartships: float | None = None
+    """The hollow spar's athwartships dimension (mm), when it is oval; ``diameter`` is then fore-and-aft."""
     regions: RegionSection | None = None
     """The section's material regions (staves, plug, layers, strips): :func:`regions_at`, made by
     :func:`evaluate_stations`; None where a caller left it to :func:`regions_of`."""
+
+    @property
+    def fore_aft(self) -> float:
+        return self.diameter
+
+    @property
+    def athwart(self) -> float:
+        return self.athwartships if self.athwartships is not None else self.diameter
+
+    @property
+    def plan_athwart(self) -> float:
+        return self.plan_athwartships if self.plan_athwartships is not None else self.plan_diameter
+
+
+def _oval_stave_shape(section) -> object:
+    """An oval's finished staves as shapely polygons: each clipped by the oval drawn as a 720-sided polygon
+    (drawing and outside measurement only, the figures are exact)."""
+    import shapely
+    from shapely.geometry import Polygon
+
+    oval = Polygon(section.finished_points(720))
+    pieces = [Polygon(ring).intersection(oval) for ring in section.placed_rings()]
+    return shapely.MultiPolygon([p for p in pieces if not p.is_empty and p.geom_type == "Polygon"])
+
+
+def _oval_bore_shape(section) -> object:
+    from shapely.geometry import Polygon
+
+    return Polygon(section.bore_points())
+
+
+def _turned(m, across: bool):
+    """Moments as they are, or with x and y exchanged (``across``): the region bending the other way."""
+    from ..section.integrals import Moments
+
+    return Moments(m.area, m.qy, m.qx, m.iyy, m.ixx, m.ixy) if across else m
+
+
+def oval_regions_at(spar: Spar, section, plug: Plug | None, direction: str = "athwartships") -> RegionSection:
+    """The material regions of an oval section for bending in ``direction`` ("fore_aft" or "athwartships").
+
+    A RegionSection bends about its horizontal axis (∫y² dA): as drawn, that is bending athwartships; for
+    fore-and-aft bending the integrals are turned a quarter (x and y exchanged). Each region's ``reach`` is its
+    farthest fibre across that axis (the oval's half-dimension for the staves, the bore's for a plug) and its
+    ``plastic`` the plastic modulus that way; the geometry is the oval's as drawn.
+    """
+    h = spar.hollow
+    wood = h.wood
+    across = direction == "fore_aft"
+    a, b = section.semi_axes
+    z_wall, z_bore = section.plastic_moduli_fore_aft if across else section.plastic_moduli_athwartships
+    bore_reach = max(abs(x if across else y) for x, y in section.bore_points())
+    regions = [Region(STAVE, wood, _turned(section.wall, across), a if across else b,
+                      h.lamination_factor * wood.moe, plastic=z_wall,
+                      shape=None if across else partial(_oval_stave_shape, section), pieces=section.staves)]
+    if plug is not None:
+        regions.append(Region(PLUG, plug.wood, _turned(section.bore, across), bore_reach, plug.wood.moe,
+                              plastic=z_bore, shape=None if across else partial(_oval_bore_shape, section)))
+    return section_of(regions, wood.moe)
 
 
 def _stave_shape(section, grooves: tuple[tuple[float, float, float], ...] = ()) -> object:
@@ -135,6 +198,8 @@ def regions_at(spar: Spar, section: Section, plug: Plug | None, z: float | None 
     ``plastic_moduli``, ``radius``, ``inner_apothem``, ``staves`` and ``bore_corner_radius``). ``z`` None: no
     layers or strips.
     """
+    if getattr(section, "shape", "round") != "round":  # an oval: its regions as drawn, bending athwartships
+        return oval_regions_at(spar, section, plug)
     h = spar.hollow
     wood = h.wood
     z_wall, z_bore = section.plastic_moduli
@@ -242,6 +307,20 @@ def hollow_section(spar: Spar, radius: float, wall: float, at: str = "", thickne
     return evaluate_section(h.staves, h.joint, radius, t, h.planing_allowance + (t - wall), at, spar.units)
 
 
+def oval_section(spar: Spar, fore_aft: float, athwartships: float, wall: float, at: str = "",
+                 thickness: float | None = None):
+    """The oval section as the staves are built (see :func:`hollow_section`): finished outside
+    ``fore_aft`` × ``athwartships``, the file's ``wall`` there (mm)."""
+    from ..section.oval import evaluate_oval
+
+    h = spar.hollow
+    t = thickness if thickness is not None else stave_thickness(spar)
+    if t is None:
+        t = system(spar.units).on_grid(wall, Way.UP)
+    return evaluate_oval(h.staves, h.joint, fore_aft, athwartships, t, h.planing_allowance + (t - wall), at,
+                         spar.units)
+
+
 class SectionCache:
     """Sections keyed by (radius, wall): tapers often repeat the same section."""
 
@@ -258,6 +337,14 @@ class SectionCache:
         spar = self.spar
         radius = wood_radius(spar, float(spar.hollow.diameter.at(z)) / 2, z if cover is None else cover)
         wall = float(spar.hollow.wall.at(z))
+        if spar.hollow.two_axis:
+            athwartships = float(spar.hollow.athwartships.at(z))
+            key = (round(radius, 9), round(wall, 9), round(athwartships, 9))
+            section = self._cache.get(key)
+            if section is None:
+                section = oval_section(spar, 2 * radius, athwartships, wall, where(spar, z), self._thickness)
+                self._cache[key] = section
+            return section
         key = (round(radius, 9), round(wall, 9))
         section = self._cache.get(key)
         if section is None:
@@ -279,10 +366,13 @@ def evaluate_stations(spar: Spar, marks: tuple[StationMark, ...] | None = None,
             z=mark.z,
             reasons=mark.reasons,
             plan_diameter=float(spar.plan.diameter.at(mark.z)),
-            diameter=float(spar.hollow.diameter.at(mark.z)),
+            diameter=section.fore_aft if spar.hollow.two_axis else float(spar.hollow.diameter.at(mark.z)),
             wall=float(spar.hollow.wall.at(mark.z)),
             plug=plug,
             section=section,
+            plan_athwartships=(float(spar.plan.athwartships.at(mark.z)) if spar.plan.athwartships is not None
+                               else None),
+            athwartships=section.athwartships if spar.hollow.two_axis else None,
             regions=regions_at(spar, section, plug, mark.z),
         ))
     return tuple(stations)

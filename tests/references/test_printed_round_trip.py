@@ -52,8 +52,9 @@ def rebuilt(data: dict, rows, units: str, wall: bool, diameters: bool) -> dict:
     data = {k: dict(v) for k, v in data.items()}
     if wall:
         data["hollow"]["wall"] = [[as_file_value(z, units), as_file_value(w, units)] for z, _, w in rows]
-    if diameters:
-        data["hollow"]["stations"] = [[as_file_value(z, units), as_file_value(od, units)] for z, od, _ in rows]
+    if diameters:  # an oval prints "fore-and-aft x athwartships": written back as [position, fore_aft, athwartships]
+        data["hollow"]["stations"] = [[as_file_value(z, units)] + [as_file_value(d, units) for d in od.split(" x ")]
+                                      for z, od, _ in rows]
     return data
 
 
