@@ -30,6 +30,7 @@ from ..model.spar import Spar
 from ..pipeline import Design, design
 
 CACHED_DESIGNS = 16
+CACHED_BOATS = 4
 
 _designs: OrderedDict[tuple[str, bytes, bool], Design | InputError] = OrderedDict()
 
@@ -41,23 +42,28 @@ def spar_from_text(raw: bytes, name: str) -> Spar:
     return spar_from_bytes(raw, name)
 
 
-def designed(raw: bytes, name: str, layout: bool) -> Design:
-    """``pipeline.design`` of the text (with the shop plan when ``layout``), once per text."""
-    key = (name, raw, layout)
-    found = _designs.get(key)
+def _remembered(cache: OrderedDict, key: tuple, make: Callable[[], Any], keep: int) -> Any:
+    """``make()`` once per ``key``: the last ``keep`` answers (an InputError among them, raised again) are kept."""
+    found = cache.get(key)
     if found is None:
         try:
-            found = design(spar_from_text(raw, name), layout=layout)
+            found = make()
         except InputError as exc:
             found = exc
-        _designs[key] = found
-        while len(_designs) > CACHED_DESIGNS:
-            _designs.popitem(last=False)
+        cache[key] = found
+        while len(cache) > keep:
+            cache.popitem(last=False)
     else:
-        _designs.move_to_end(key)
+        cache.move_to_end(key)
     if isinstance(found, InputError):
         raise type(found)(found.problem, found.key, found.source)
     return found
+
+
+def designed(raw: bytes, name: str, layout: bool) -> Design:
+    """``pipeline.design`` of the text (with the shop plan when ``layout``), once per text."""
+    return _remembered(_designs, (name, raw, layout), lambda: design(spar_from_text(raw, name), layout=layout),
+                       CACHED_DESIGNS)
 
 
 def check(raw: bytes, name: str, layout: bool = False) -> str:
@@ -172,21 +178,8 @@ def designed_boat(boat: bytes, spars: dict[str, bytes], name: str, layout: bool)
     """``design_boat`` of the texts, once per set of texts."""
     from ..boat import design_boat
 
-    key = (name, boat, tuple(sorted(spars.items())), layout)
-    found = _boats.get(key)
-    if found is None:
-        try:
-            found = design_boat(boat_from_texts(boat, spars, name), layout=layout)
-        except InputError as exc:
-            found = exc
-        _boats[key] = found
-        while len(_boats) > 4:
-            _boats.popitem(last=False)
-    else:
-        _boats.move_to_end(key)
-    if isinstance(found, InputError):
-        raise type(found)(found.problem, found.key, found.source)
-    return found
+    return _remembered(_boats, (name, boat, tuple(sorted(spars.items())), layout),
+                       lambda: design_boat(boat_from_texts(boat, spars, name), layout=layout), CACHED_BOATS)
 
 
 def boat_check(boat: bytes, spars: dict[str, bytes], name: str, layout: bool = False) -> str:
