@@ -443,6 +443,19 @@ def _scale_words(a: int, b: int) -> str:
     return f"{a}:{b}"
 
 
+def _section_page_head(r, check, d, notes: list[str], height: float) -> list:
+    """The section page's heading, its drawing ``d`` and its notes in two columns."""
+    half_rows = math.ceil(len(notes) / 2)
+    cells = [[r.p(r.t(notes[i]), "small"), r.p(r.t(notes[i + half_rows]), "small") if i + half_rows < len(notes)
+              else ""] for i in range(half_rows)]
+    table = Table(cells, colWidths=[r.width / 2] * 2, hAlign="LEFT")
+    table.setStyle(TableStyle([("LEFTPADDING", (0, 0), (-1, -1), 0), ("TOPPADDING", (0, 0), (-1, -1), 0.5),
+                               ("BOTTOMPADDING", (0, 0), (-1, -1), 0.5), ("VALIGN", (0, 0), (-1, -1), "TOP")]))
+    return [CondPageBreak(height + 80),
+            r.h2(f"Section at the widest stave, {r.where(check.station.z)} from the heel"), d, Spacer(1, 4), table,
+            Spacer(1, 8)]
+
+
 def _check_bar(d: Drawing, x: float, y: float, r: Report, k: float) -> None:
     """A short rule at the drawing's scale (k points per mm): 2 in or 50 mm, labelled."""
     real = 2 * MM_PER_INCH if r.spar.units == "in" else 50.0
@@ -504,15 +517,7 @@ def _oval_section_drawing(r: Report, check: StationCheck) -> list:
     _dim(d, (cx - a_mm * k, cy - b_mm * k - 6), (cx + a_mm * k, cy - b_mm * k - 6),
          f"fore-and-aft {r.fig.dress(sec.fore_aft)}", (cx, cy - b_mm * k - 15))
     _check_bar(d, 0, 4, r, k)
-    half_rows = math.ceil(len(notes) / 2)
-    cells = [[r.p(r.t(notes[i]), "small"), r.p(r.t(notes[i + half_rows]), "small") if i + half_rows < len(notes)
-              else ""] for i in range(half_rows)]
-    table = Table(cells, colWidths=[r.width / 2] * 2, hAlign="LEFT")
-    table.setStyle(TableStyle([("LEFTPADDING", (0, 0), (-1, -1), 0), ("TOPPADDING", (0, 0), (-1, -1), 0.5),
-                               ("BOTTOMPADDING", (0, 0), (-1, -1), 0.5), ("VALIGN", (0, 0), (-1, -1), "TOP")]))
-    out = [CondPageBreak(height + 80),
-           r.h2(f"Section at the widest stave, {r.where(check.station.z)} from the heel"), d, Spacer(1, 4), table,
-           Spacer(1, 8)]
+    out = _section_page_head(r, check, d, notes, height)
     for kind in sec.kinds:
         out.append(r.p(r.t(f"Stave {kind.members[0] + 1} (and {', '.join(str(m + 1) for m in kind.members[1:])}: "
                            f"the same stave):"
@@ -583,15 +588,7 @@ def section_drawing(r: Report) -> list:
          f"stave {r.fig.dress(sec.thickness)}", (cx + 4, cy + (sec.inner_apothem + sec.outer_apothem) / 2 * k - 2.5),
          anchor="start")
     _check_bar(d, 0, 4, r, k)
-    half_rows = math.ceil(len(notes) / 2)
-    cells = [[r.p(r.t(notes[i]), "small"), r.p(r.t(notes[i + half_rows]), "small") if i + half_rows < len(notes)
-              else ""] for i in range(half_rows)]
-    table = Table(cells, colWidths=[r.width / 2] * 2, hAlign="LEFT")
-    table.setStyle(TableStyle([("LEFTPADDING", (0, 0), (-1, -1), 0), ("TOPPADDING", (0, 0), (-1, -1), 0.5),
-                               ("BOTTOMPADDING", (0, 0), (-1, -1), 0.5), ("VALIGN", (0, 0), (-1, -1), "TOP")]))
-    out = [CondPageBreak(height + 80),
-           r.h2(f"Section at the widest stave, {r.where(check.station.z)} from the heel"), d, Spacer(1, 4), table,
-           Spacer(1, 8)]
+    out = _section_page_head(r, check, d, notes, height)
     out += _stave_detail(r, sec)
     return out
 
