@@ -204,6 +204,8 @@ class Cut:
     staves: int
     notch: Notch | None
     apex_x: float | None = None  # apex from the notched edge (mm), birdsmouth only
+    box: bool = False  # a box spar's piece: square edges, no bevel
+    rebate: tuple[float, float] | None = None  # a box face's rebate along edge 1: (depth, width), mm
 
     @property
     def phi(self) -> float:
@@ -212,6 +214,11 @@ class Cut:
     def stave(self, blank: Blank) -> Polygon:
         """The blank once the notch (or edge 1's bevel) is cut: the blank's frame, counter-clockwise."""
         rect = box(0.0, 0.0, blank.width, blank.thickness)
+        if self.box:  # the rebate along edge 1, on the inner side: depth up from the inner face, width from the edge
+            if self.rebate is None:
+                return shapely.normalize(rect)
+            depth, width = self.rebate
+            return shapely.normalize(rect.difference(box(0.0, 0.0, width, depth)))
         if self.notch is None:
             run = blank.thickness * math.tan(math.pi / self.staves)
             return shapely.normalize(Polygon([(run, 0.0), (blank.width, 0.0), (blank.width, blank.thickness),
@@ -222,6 +229,8 @@ class Cut:
 
 def cut_of(section: Section) -> Cut:
     """The cut a section's stave needs, in the blank's frame (notched edge at x = 0, inner face at y = 0)."""
+    if section.joint == "box":
+        return Cut(section.staves, None, box=True, rebate=section.rebate)
     if section.notch is None:
         return Cut(section.staves, None)
     return Cut(section.staves, section.notch, section.frame.apex[0] - section.frame.x_notch_edge)
@@ -281,6 +290,11 @@ def _faces(cut: Cut, blank: Blank) -> tuple[Polygon, list[_Face]]:
 
 
 def _name_faces(cut: Cut, faces: list[_Face]) -> list[_Face]:
+    if cut.box:
+        if len(faces) != (2 if cut.rebate else 0):
+            raise DesignError(f"cutter settings: the rebate left {len(faces)} cut faces, not 2", "hollow.corner")
+        return sorted((replace(f, name="rebate's cheek" if f.angle > 45 else "rebate's floor") for f in faces),
+                      key=lambda f: f.name)
     if cut.notch is None:
         if len(faces) != 1:
             raise DesignError(f"cutter settings: edge 1's bevel left {len(faces)} cut faces, not 1", "hollow.joint")
@@ -475,7 +489,7 @@ def _contacts(stock: Polygon, place: _Placement, size: float) -> tuple[float, fl
 
 
 def _sides(cut: Cut) -> tuple[Side, ...]:
-    if cut.notch is None:
+    if cut.notch is None or cut.box:
         return (Side.OUTER_FACE, Side.INNER_FACE, Side.EDGE_1, Side.EDGE_2)
     return (Side.OUTER_FACE, Side.INNER_FACE, Side.NOTCHED_EDGE, Side.SQUARE_EDGE)
 
@@ -509,6 +523,8 @@ def _search(cut: Cut, blank: Blank, kerf: float) -> tuple[SawPass, ...]:
     away from the fence (common practice), the most bearing in the last pass.
     """
     kept, faces = _faces(cut, blank)
+    if not faces:  # a box's side, or any piece of a box with sides between faces: nothing to cut but the blank
+        return ()
     size = _size(blank)
     options = [_candidates(f, _sides(cut), blank, kerf, kept) for f in faces]
     for f, found in zip(faces, options):
@@ -537,7 +553,7 @@ def _search(cut: Cut, blank: Blank, kerf: float) -> tuple[SawPass, ...]:
 
 def saw_passes_for(cut: Cut, blank: Blank, kerf: float, plan: tuple[SawPass, ...] | None = None) -> tuple[SawPass, ...]:
     """The passes for ``blank``: searched afresh, or following ``plan`` (the same sides, order and faces)."""
-    if plan is None:
+    if plan is None or not plan:
         return _search(cut, blank, kerf)
     kept, faces = _faces(cut, blank)
     by_name = {f.name: f for f in faces}
@@ -631,6 +647,8 @@ def cutter_settings(section: Section, kerf: float, blank: Blank | None = None,
     if cut.notch is not None and blank.width <= cut.apex_x:
         raise ValueError("the blank is narrower than the notch")
     passes = saw_passes_for(cut, blank, kerf, plan) if saw else ()
+    if cut.box:
+        return CutterSettings(section.staves, section.joint, None, None, None, None, passes, None, blank)
     if section.notch is None:
         return CutterSettings(section.staves, section.joint, None, None, None, bevel_angle(section.staves), passes,
                               None, blank)
@@ -660,6 +678,12 @@ def final_edge(section: Section, blank: Blank, width: float) -> Polygon:
     cut = cut_of(section)
     after = cut.stave(blank)
     t = blank.thickness
+    if cut.box:  # edge 2 cut square to the line, then (a face) its own rebate along it, as edge 1's
+        piece = after.intersection(box(-1.0, -1.0, width, t + 1.0))
+        if cut.rebate is not None:
+            depth, across = cut.rebate
+            piece = piece.difference(box(width - across, -1.0, width + 1.0, depth))
+        return shapely.normalize(piece)
     if cut.notch is None:
         run = t * math.tan(math.pi / section.staves)
         keep = Polygon([(-t, 0.0), (width - run, 0.0), (width, t), (-t, t)])

@@ -168,12 +168,16 @@ def machining(spar: Spar, plan: StavePlan, staves: tuple[tuple[Segment, ...], ..
     if one_setting:
         reference = section_at(widest_st.z, widest_kind)
         t = reference.thickness
-        first = None
+        box = spar.hollow.is_box  # a box's faces and sides are cut differently (a face's rebates): by kind
+        firsts: dict[int, CutterSettings] = {}
         for stave in staves:
+            kind = kind_of_stave(spar, stave[0].stave) if box else widest_kind
+            own = section_at(widest_st.z, kind) if box else reference
             for seg in stave:
                 blank, rough = blank_for(spar, seg, t)
-                settings = cutter_settings(reference, kerf, blank, plan=first.saw if first else None)
-                first = first or settings
+                first = firsts.get(kind)
+                settings = cutter_settings(own, kerf, blank, plan=first.saw if first else None)
+                firsts.setdefault(kind, settings)
                 segments.append(SegmentSetup(seg.label, blank, rough, settings))
         for st, stave, kind in extremes:
             seg = _segment_holding(staves, st.z, stave)
@@ -245,6 +249,8 @@ def _pass_step(k: int, p: SawPass, rest: str) -> Step:
 def steps(spar: Spar, plan: StavePlan, m: Machining) -> list[Step]:
     """The order of operations, rip to round."""
     h = spar.hollow
+    if h.is_box:
+        return box_steps(spar, plan, m)
     birdsmouth = h.joint.is_birdsmouth
     symmetric = h.taper == "symmetric"
     tapered_wall = not h.wall.is_constant
@@ -335,6 +341,58 @@ def steps(spar: Spar, plan: StavePlan, m: Machining) -> list[Step]:
         return out
     out.append(Step("round", f"Plane the {h.staves}-sided spar to {2 * h.staves} sides, then {4 * h.staves}, then "
                              "round, to the finished diameter at each station (station table)."))
+    return out
+
+
+def box_steps(spar: Spar, plan: StavePlan, m: Machining) -> list[Step]:
+    """The order of operations for a box spar: rip and plane the pieces, a face's rebates on the table saw (the
+    passes read off the blank, :mod:`.machining`), taper, glue, plane the outside, round the corners."""
+    h = spar.hollow
+    rebated = h.corner == "rebated"
+    out = [Step("rip", "Rip each segment from its board where the cutting diagrams put it, at its rough width "
+                       "(cut list)."),
+           Step("thickness", "Plane every segment to {thickness} thick, faces flat and parallel.",
+                (Figure("thickness", max(st.thickness for st in plan.stations), "dress"),)),
+           Step("edge", "Joint edge 1 of each segment straight and square to the faces: the taper comes off edge 2.")]
+    faces = [s for s in m.segments if s.settings.saw]
+    if rebated and faces:
+        out.append(Step("blank", "Rip edge 2 of each face segment (staves 2 and 4) parallel to edge 1, each to its "
+                                 "blank width (cut list; {widest} for the widest), the kerf outside the blank.",
+                        (Figure("widest", max(s.blank.width for s in faces), "dress"),)))
+        saw = faces[0].settings.saw
+        for k, p in enumerate(saw, start=1):
+            rest = ": it frees the waste" if k == len(saw) else ""
+            step = _pass_step(k, p, rest)
+            out.append(Step(step.action, "Faces only, the rebate along edge 1. " + step.text, step.figures))
+    if spar.stock.scarf_ratio and any(len(s) > 1 for s in plan_staves(m)):
+        out.append(Step("scarf", "Cut the scarfs, {ratio}:1, each {length} long, and glue each piece's segments end "
+                                 "to end, the edge 1s on one straight line.",
+                        (Figure("ratio", spar.stock.scarf_ratio, "number"),
+                         Figure("length", spar.stock.scarf_ratio * max(st.thickness for st in plan.stations),
+                                "cut-length"))))
+    out.append(Step("taper", "Taper edge 2 of each piece to its line: mark each station's width (cut list, full-size "
+                             "templates) across the face from edge 1, spring a batten through the marks, and cut "
+                             "square to the line on a taper sled, or saw off the waste and plane to the line."))
+    if rebated and faces:
+        out.append(Step("rebate", "Cut the rebate along each face's tapered edge 2 with the same two set-ups, edge 2 "
+                                  "where edge 1 was (against the fence, then down on the table): the passes are "
+                                  "set from the edge they rebate, so the rebate follows the taper."))
+    out.append(Step("places", "The faces (staves 2 and 4: fore and aft, as wide as the spar athwartships) and the "
+                              "sides (staves 1 and 3: port and starboard) differ: mark every piece with its number "
+                              "and lay it in its place as the report's section drawing shows"
+                              + (", each side's edges in the faces' rebates." if rebated
+                                 else ", the sides' edges between the faces.")))
+    out.append(Step("dry fit", "Dry-fit the four pieces round the plugs (plugs table) with clamps, the box square; "
+                               "mark the stations across them."))
+    out.append(Step("glue", "Glue up, following the glue maker's instructions; check the spar straight and square "
+                            "before the glue sets."))
+    out.append(Step("plane", "Plane the outside flat and the corners square to the finished dimensions at each "
+                             "station (station table): the planing allowance, {allowance} a side, comes off.",
+                    (Figure("allowance", h.planing_allowance, "describe"),)))
+    if h.corner_radius > 0:
+        out.append(Step("round", "Round the four outside corners to a {radius} radius (a round-over bit or a "
+                                 "corner template), the whole length.",
+                        (Figure("radius", h.corner_radius, "describe"),)))
     return out
 
 

@@ -36,6 +36,7 @@ from ..units import (
 from . import schema
 from .spar import (
     AUTO,
+    BOX_PIECES,
     MAX_STAVES,
     MIN_STAVES,
     WALL_SOLVES,
@@ -496,6 +497,14 @@ def _wall(value: Any, units: str, length: float) -> Profile | str:
 
 def _staves(t: _Table) -> int | str:
     staves = t.raw("staves")
+    box = t.raw("joint") == "box"
+    if staves is None:
+        if not box:
+            raise InputError("missing (required)", t.key("staves"))
+        return BOX_PIECES
+    if box and staves != BOX_PIECES:
+        raise t.fail("staves", f"a box spar is built of {BOX_PIECES} pieces (two faces and two sides), not "
+                               f"{shown(staves)}: leave staves out or give {BOX_PIECES}")
     if staves != AUTO:
         if isinstance(staves, bool) or not isinstance(staves, int):
             raise t.fail("staves", f"expected a whole number of staves or \"auto\", got {_kind(staves)}")
@@ -568,7 +577,15 @@ def _hollow(t: _Table, units: str, length: float, plan: Plan) -> Hollow:
         raise t.fail("stations", f"missing: a {shape} hollow spar of a {plan.shape} plan needs its own stations")
     else:
         diameter, athwartships, given = plan.diameter, plan.athwartships, False
-    if shape != "round":
+    if (shape == "rectangle") != joint.is_box:
+        if joint.is_box:
+            raise t.fail("shape", f'joint = "box" builds a rectangle (shape = "rectangle"), not {shape}')
+        raise t.fail("joint", f'a rectangular hollow spar is built as a box (joint = "box"), not {joint.kind}')
+    if not joint.is_box:
+        for name in ("corner", "rebate_depth", "corner_radius"):
+            if t.has(name):
+                raise t.fail(name, 'is for a box spar (shape = "rectangle", joint = "box")')
+    if shape != "round" and not joint.is_box:
         if joint.kind not in ("birdsmouth-flush", "bevel", "birdsmouth-centered", "birdsmouth-custom"):
             raise t.fail("joint", f"an oval hollow spar is built with a birdsmouth or bevel joint, not {joint.kind}")
         if isinstance(staves, int) and staves % 2:
@@ -602,10 +619,40 @@ def _hollow(t: _Table, units: str, length: float, plan: Plan) -> Hollow:
                                  "there is no bore", "hollow.wall", units=units,
                                  figures={"wall": length_figure(thick), "radius": length_figure(radius),
                                           "z": position_figure(z)})
+    if joint.is_box:
+        _box_checks(t, hollow, units)
     if joint.kind == "birdsmouth-custom" and joint.apex_height is not None and isinstance(wall, Profile):
         if joint.apex_height >= wall.smallest:
             raise InputError("apex_height must be less than the wall thickness", "hollow.notch.apex_height")
     return hollow
+
+
+def _box_checks(t: _Table, hollow: Hollow, units: str) -> None:
+    """A box's rebate and corner rounding against its wall (when the wall is given): the rebate shallower than the
+    wall, the rounding no larger than the finished wall (so it stays in the face's corner, clear of the bore and
+    of the side)."""
+    wall = hollow.wall
+    if not isinstance(wall, Profile):
+        if hollow.corner == "rebated" and hollow.rebate_depth is None:
+            return
+        least = None
+    else:
+        least = wall.smallest
+    if hollow.corner != "rebated" and t.has("rebate_depth"):
+        raise t.fail("rebate_depth", 'is for corner = "rebated"')
+    if least is None:
+        return
+    if hollow.corner == "rebated" and hollow.rebate_depth is not None and hollow.rebate_depth >= least:
+        raise InputError("a rebate {depth} deep is not less than the wall ({wall}): the face would be cut through",
+                         t.key("rebate_depth"), units=units,
+                         figures={"depth": length_figure(hollow.rebate_depth), "wall": length_figure(least)})
+    finished = least - hollow.planing_allowance
+    if hollow.corner_radius > finished + 1e-9:
+        raise InputError("corner radius {radius} is more than the finished wall ({finished}: the wall less the "
+                         "planing allowance): the rounding would reach past the face's corner toward the bore",
+                         t.key("corner_radius"), units=units,
+                         figures={"radius": length_figure(hollow.corner_radius),
+                                  "finished": length_figure(max(finished, 0.0))})
 
 
 def _thickness_quarters(value: Any, units: str, key: str) -> float:
@@ -687,8 +734,9 @@ def _output(t: _Table | None, units: str, length: float) -> OutputOptions:
 def _parting(t: _Table, units: str, length: float, hollow: Hollow, hollow_key: str) -> Parting:
     """[parting]: where the spar comes apart and what joins it; what a kind does not use is refused."""
     if hollow.two_axis:
-        raise InputError("a two-piece oval spar is not built yet: its spigot and bore checks are for a round; "
-                         "build the oval in one piece, or the two-piece spar round", t.path)
+        shape = "box" if hollow.is_box else "oval"
+        raise InputError(f"a two-piece {shape} spar is not built yet: its spigot and bore checks are for a round; "
+                         f"build the {shape} in one piece, or the two-piece spar round", t.path)
     at = t.get("at")
     kind = t.get("kind")
     overlap, clearance = t.get("overlap"), t.get("clearance")

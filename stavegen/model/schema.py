@@ -18,7 +18,7 @@ from dataclasses import dataclass
 from dataclasses import field as _field
 from typing import Any
 
-from .spar import (DEFAULT_STRENGTH_TARGET, HOLLOW_SHAPES, JOINTS, MAX_STAVES, MIN_STAVES, NOTCH_CUTS, PAPERS,
+from .spar import (CORNERS, DEFAULT_STRENGTH_TARGET, HOLLOW_SHAPES, JOINTS, MAX_STAVES, MIN_STAVES, NOTCH_CUTS, PAPERS,
                    PARTINGS, SEPARATIONS, SHAPES, STRIP_PLACES, TAPERS)
 from .tubes import tube_table
 
@@ -274,7 +274,7 @@ HOLLOW = Table("hollow", "The stave-built spar you will make.", required=True, s
                keys=(
     Key("wood", "wood", "the staves' wood", example=_u('"douglas-fir-coast"', '"douglas-fir-coast"')),
     Key("staves", "staves", "how many staves; \"auto\" compares every count and keeps the one that buys the "
-        "least wood", example=_u("8", "8"),
+        "least wood", default=Words("required (4 for joint = \"box\", and may be left out)"), example=_u("8", "8"),
         note="A birdsmouth needs at least 5. With `\"auto\"`, each count is sized, checked, laid out and its "
              "boards ordered (it needs a `[stock]` table)."),
     Key("joint", "choice", "how neighbouring staves meet", default="birdsmouth-flush", choices=JOINTS,
@@ -290,6 +290,9 @@ HOLLOW = Table("hollow", "The stave-built spar you will make.", required=True, s
                                    "and warned of)",
             "birdsmouth-custom": "the V your cutter makes, given in `[hollow.notch]`",
             "bevel": "no notch: both edges bevelled 180°/N off square (coopered staves)",
+            "box": "a rectangular spar (shape = \"rectangle\") of four flat pieces of the wall's thickness: two "
+                   "faces (fore and aft, as wide as the spar is athwartships) and two sides (port and starboard) "
+                   "glued at the corners as `corner` says; `staves` is 4 or left out",
         }),
     Key("notch", "table", "your cutter's notch, with joint = \"birdsmouth-custom\" (see [hollow.notch])",
         default=UNSET),
@@ -298,9 +301,30 @@ HOLLOW = Table("hollow", "The stave-built spar you will make.", required=True, s
         choice_notes={"round": "round, of identical staves",
                       "oval": "an ellipse, its stations `[position, fore_aft, athwartships]`: staves of unequal "
                               "widths round the polygon that rounds to the ellipse, each width from its own "
-                              "closure, the same V and bevel at every joint; needs an even number of staves"},
+                              "closure, the same V and bevel at every joint; needs an even number of staves",
+                      "rectangle": "a rectangle, its stations `[position, fore_aft, athwartships]`: a box of two "
+                                   "faces and two sides (joint = \"box\"), corners sharp or rounded "
+                                   "(`corner_radius`)"},
         note="A round plan's hollow spar may be oval and an oval plan's round (give `stations` then). Stiffness "
              "and strength are checked fore-and-aft and athwartships, each against the plan's."),
+    Key("corner", "choice", "how a box spar's pieces meet at its corners (joint = \"box\")",
+        default="sides-between-faces", choices=CORNERS, field="corner",
+        choice_notes={"sides-between-faces": "the sides (port and starboard) are glued between the faces (fore "
+                                             "and aft): a face is as wide as the spar athwartships, a side as "
+                                             "the spar fore-and-aft less two walls; square edges, no machining "
+                                             "but ripping and planing",
+                      "rebated": "a rebate along each edge of a face's inner side takes a side's edge: the "
+                                 "rebate as wide as the wall (the side's thickness) and `rebate_depth` deep into "
+                                 "the face, so a side is the spar fore-and-aft less two walls plus two rebate "
+                                 "depths wide; the rebates are cut on the table saw (two passes each) and "
+                                 "locate the sides in the glue-up"}),
+    Key("rebate_depth", "length", "a rebated box's rebate depth into the face's thickness",
+        default=Words("half the wall"), field="rebate_depth", aside=_u('"3/8"', "9"),
+        note="Less than the wall: the face keeps the rest of its thickness over the side's edge."),
+    Key("corner_radius", "length", "a box spar's finished outside corners rounded to this radius",
+        default=PerUnit(0, 0), field="corner_radius", zero_ok=True, aside=_u('"3/8"', "10"),
+        note="0 leaves them sharp. At most the finished wall (the wall less the planing allowance): the "
+             "rounding then stays in the face's corner and never reaches the bore or crosses into a side."),
     Key("wall", "wall", "stave thickness before rounding", example=_u('"11/16"', "18"),
         note="`\"auto\"`: the least constant thickness that meets the target at every station and midway "
              "between, within `stock.thickness` and without the round breaking into the bore. "

@@ -19,7 +19,11 @@ from .woods import Wood
 AUTO = "auto"
 AUTO_TAPERED = "auto-tapered"
 WALL_SOLVES = (AUTO, AUTO_TAPERED)  # hollow.wall strings the sizing step solves for
-JOINTS = ("birdsmouth-flush", "birdsmouth-centered", "birdsmouth-custom", "bevel")
+JOINTS = ("birdsmouth-flush", "birdsmouth-centered", "birdsmouth-custom", "bevel", "box")
+# How a box spar's four pieces meet at the corners (hollow.corner): the sides (port and starboard) glued between
+# the faces (fore and aft), or set into a rebate along each edge of the faces.
+CORNERS = ("sides-between-faces", "rebated")
+BOX_PIECES = 4  # a box spar: two faces and two sides
 TAPERS = ("square-edge", "symmetric")
 # How the notch is cut when the wall tapers: once, on staves of the thickest wall ("thickest-wall"), or
 # following the wall station by station ("follow-wall": thickness tapered first, a CNC router's job).
@@ -29,7 +33,7 @@ DEFAULT_HEAD_LOAD = 1000.0  # N: the reference sideways head load for comparing 
 STRIP_PLACES = ("inner-face", "groove")  # where reinforcing tape lies in each stave
 PAPERS = ("letter", "a4")
 SHAPES = ("round", "oval", "rectangle")  # plan.shape: a round, an ellipse, a rectangle
-HOLLOW_SHAPES = ("round", "oval")  # hollow.shape
+HOLLOW_SHAPES = ("round", "oval", "rectangle")  # hollow.shape
 SEPARATIONS = ("saw", "router")  # how neighbouring pieces are parted on a board (stock.separate_with)
 MIN_STAVES, MAX_STAVES = 4, 24
 # How a two-piece spar's parts join ([parting] kind): a wooden spigot shaped to the bore, a bought tube spigot
@@ -91,6 +95,11 @@ class Joint:
     @property
     def is_birdsmouth(self) -> bool:
         return self.kind.startswith("birdsmouth")
+
+    @property
+    def is_box(self) -> bool:
+        """Four flat pieces of the wall's thickness, square-edged, glued at the corners (a rectangular spar)."""
+        return self.kind == "box"
 
 
 @dataclass(frozen=True)
@@ -225,6 +234,16 @@ class Hollow:
     shape: str = "round"
     athwartships: Union[Profile, Literal["auto"], None] = None
     """For an oval hollow spar, its athwartships dimension along the spar (``diameter`` is then fore-and-aft)."""
+    corner: str = "sides-between-faces"
+    """A box spar's corner joint (:data:`CORNERS`)."""
+    corner_radius: float = 0.0
+    """A box spar's finished outside corners rounded to this radius (mm); 0: sharp."""
+    rebate_depth: float | None = None
+    """A rebated box's rebate depth into the face's thickness (mm); None: half the wall."""
+
+    @property
+    def is_box(self) -> bool:
+        return self.joint.is_box
 
     @property
     def two_axis(self) -> bool:

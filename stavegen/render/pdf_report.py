@@ -1102,6 +1102,33 @@ def order_of_operations(r: Report) -> list:
     return out + [Spacer(1, 6)]
 
 
+def _box_cutter_settings(r: Report, m) -> list:
+    """A box spar's cutter settings: the rebate passes of a face (the same for every face segment and both of its
+    edges), or a line saying that the pieces are only ripped, planed and tapered."""
+    faces = [s for s in m.segments if s.settings.saw]
+    out = [CondPageBreak(200), r.h2("Cutter settings")]
+    if not faces:
+        return out + [r.p(r.t("The box's pieces have square edges: they are ripped, planed to thickness and tapered "
+                              "to width (cut list, templates); no notch, bevel or rebate is cut."), "small"),
+                      Spacer(1, 6)]
+    widest = max(faces, key=lambda s: s.blank.width)
+    text = ("The rebate along each edge of a face's inner side, cut on the table saw in two passes set from the edge "
+            "it rebates: the same set-ups for every face segment and for both edges (edge 2's once it is tapered). "
+            f"{FENCE_NOTE} {GUARD_NOTE}")
+    rows = [[r.p(r.t("setting"), "head"), r.p(r.t(f"face segment {widest.label} (every face alike)"), "head")]]
+    heading_rows = []
+    for row in cutter_rows(r.fig, widest.settings):
+        style = "head" if row.heading else "cell"
+        if row.heading:
+            heading_rows.append(len(rows))
+        rows.append([r.p(r.t(row.label), style), r.p(r.t(row.value), style)])
+    label_w = 62 * MM
+    table = _table(rows, widths=[label_w, r.width - label_w], stripes=False)
+    table.setStyle(TableStyle([("ALIGN", (1, 0), (-1, -1), "LEFT"), ("VALIGN", (0, 0), (-1, -1), "TOP")] +
+                              [("BACKGROUND", (0, i), (-1, i), colors.Color(0.88, 0.92, 0.97)) for i in heading_rows]))
+    return out + [r.p(r.t(text), "small"), Spacer(1, 4), table, Spacer(1, 6)]
+
+
 def cutter_settings(r: Report) -> list:
     lay = r.layout
     if lay is None or lay.machining is None:
@@ -1114,6 +1141,8 @@ def cutter_settings(r: Report) -> list:
               f"from blank {at.segment}"] for _, at in stations]
     heads = [f"at the widest stave, {r.where(m.widest.z)} from the heel",
              f"at the narrowest stave, {r.where(m.narrowest.z)} from the heel"]
+    if r.spar.hollow.is_box:  # a box: the pieces' edges are square; only a rebated face has passes, set once
+        return _box_cutter_settings(r, m)
     if m.notch_varies:
         varies = ("The notch changes along the stave with the wall: no fixed set-up cuts it (see the order of "
                   "operations and the station table).")

@@ -75,14 +75,18 @@ def cutter_rows(fig: Figures, settings: CutterSettings) -> list[Row]:
     """
     rows: list[Row] = [Row("blank, width x thickness", f"{fig.dress(settings.blank.width)} x "
                                                         f"{fig.dress(settings.blank.thickness)}")]
-    if settings.v_face_angles:
+    if settings.joint == "box":
+        rows.append(Row("edges", "square to the faces"))
+        if not settings.saw:
+            rows.append(Row("table saw", "nothing to cut: rip, plane and taper only", heading=True))
+    elif settings.v_face_angles:
         inner, outer = settings.v_face_angles
         rows.append(Row("V faces to the broad face", f"inner {degrees(inner)}, outer {degrees(outer)}"))
         rows.append(Row("notch depth / apex above the inner face",
                         f"{fig.notch_depth(settings.notch_depth)} / {fig.apex_height(settings.apex_height)}"))
     else:
         rows.append(Row("edge bevel off square", degrees(settings.bevel)))
-    if not settings.saw:
+    if not settings.saw and settings.joint != "box":
         rows.append(Row("table saw", "no fixed set-up: the notch changes along the stave", heading=True))
     for k, p in enumerate(settings.saw, start=1):
         rows.append(Row(f"table saw, pass {k}", f"makes the {p.makes}", heading=True))

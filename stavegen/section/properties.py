@@ -50,6 +50,9 @@ class Section:
     whole: object = field(default=None, compare=False, repr=False)
     """For one stave of an oval (:meth:`~stavegen.section.oval.OvalSection.kind_section`): the whole oval section
     it belongs to (end views draw that); None for a round's section, which is itself whole."""
+    rebate: tuple[float, float] | None = field(default=None, compare=False)
+    """For a box spar's face (:meth:`~stavegen.section.box.BoxSection.kind_section`): the (depth, width) of the
+    rebate along each edge of its inner side, mm; None for every other stave."""
 
     @property
     def assembled(self):

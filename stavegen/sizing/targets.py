@@ -26,7 +26,7 @@ from ..errors import DesignError
 from ..model.spar import Plug, Profile, Spar
 from ..section.integrals import Moments
 from ..section.properties import bore_ring
-from ..stations.evaluate import Station, hollow_section, oval_section, plug_at_station, where, wood_radius
+from ..stations.evaluate import Station, hollow_section, plug_at_station, two_axis_section, where, wood_radius
 from ..units import Way, system
 from ..stations.grid import station_marks
 
@@ -125,7 +125,7 @@ def check_at(spar: Spar, point: Point, radius: float, wall: float) -> StationChe
     """
     thickness = system(spar.units).on_grid(wall, Way.UP)
     if spar.hollow.two_axis:
-        section = oval_section(spar, 2 * radius, 2 * radius * athwartships_share(spar, point.z), wall,
+        section = two_axis_section(spar, 2 * radius, 2 * radius * athwartships_share(spar, point.z), wall,
                                place(spar, point), thickness=thickness)
     else:
         section = hollow_section(spar, wood_radius(spar, radius, point.z), wall, place(spar, point),

@@ -321,6 +321,29 @@ def oval_section(spar: Spar, fore_aft: float, athwartships: float, wall: float, 
                          spar.units)
 
 
+def box_section(spar: Spar, fore_aft: float, athwartships: float, wall: float, at: str = "",
+                thickness: float | None = None):
+    """The box section as the pieces are built (see :func:`hollow_section`): finished outside
+    ``fore_aft`` × ``athwartships``, the file's ``wall`` there (mm); pieces ``thickness`` thick, their inner faces
+    where the wall puts them."""
+    from ..section.box import evaluate_box
+
+    h = spar.hollow
+    t = thickness if thickness is not None else stave_thickness(spar)
+    if t is None:
+        t = system(spar.units).on_grid(wall, Way.UP)
+    return evaluate_box(h.corner, fore_aft, athwartships, t, h.planing_allowance + (t - wall), h.corner_radius,
+                        h.rebate_depth, at, spar.units)
+
+
+def two_axis_section(spar: Spar, fore_aft: float, athwartships: float, wall: float, at: str = "",
+                     thickness: float | None = None):
+    """The oval or box section (by the hollow spar's shape)."""
+    if spar.hollow.is_box:
+        return box_section(spar, fore_aft, athwartships, wall, at, thickness)
+    return oval_section(spar, fore_aft, athwartships, wall, at, thickness)
+
+
 class SectionCache:
     """Sections keyed by (radius, wall): tapers often repeat the same section."""
 
@@ -342,7 +365,7 @@ class SectionCache:
             key = (round(radius, 9), round(wall, 9), round(athwartships, 9))
             section = self._cache.get(key)
             if section is None:
-                section = oval_section(spar, 2 * radius, athwartships, wall, where(spar, z), self._thickness)
+                section = two_axis_section(spar, 2 * radius, athwartships, wall, where(spar, z), self._thickness)
                 self._cache[key] = section
             return section
         key = (round(radius, 9), round(wall, 9))
