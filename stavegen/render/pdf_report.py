@@ -163,8 +163,10 @@ def title_and_verdict(r: Report) -> list:
     wall = h.wall
     fig = r.fig
     wall_text = fig.dress(wall.largest) if wall.is_constant else f"{fig.dress(wall.smallest)} to {fig.dress(wall.largest)}"
+    built = (f"a box of {h.wood.name} (two faces, two sides; {h.corner} corners)" if h.is_box
+             else f"{h.staves} staves of {h.wood.name}, {h.joint.kind} joint")
     sub = (f"{r.where(spar.length)} long, heel to head.  Plan: solid {spar.plan.wood.name}.  "
-           f"Hollow: {h.staves} staves of {h.wood.name}, {h.joint.kind} joint, wall {wall_text}.")
+           f"Hollow: {built}, wall {wall_text}.")
     w, s = a.weakest_stiffness, a.weakest_strength
     least = (f"Least E·I ratio {w.ei_ratio:.3f} at {r.where(w.station.z)} from the heel (target {a.ei_target:.3f}); "
              f"least strength ratio {s.strength_ratio:.3f} at {r.where(s.station.z)} (target "
@@ -218,12 +220,16 @@ def summary(r: Report) -> list:
     spar, a, lay = r.spar, r.design.assessment, r.layout
     h = spar.hollow
     units = spar.units
+    plan_size = "diameter" if spar.plan.shape == "round" else f"{spar.plan.shape}, fore-and-aft"
+    hollow_size = "finished diameter" if not h.two_axis else f"finished {h.shape}, fore-and-aft"
+    built = (f"a box of {h.wood.name}: two faces and two sides, {h.corner} corners" if h.is_box
+             else f"{h.staves} staves of {h.wood.name}, {h.joint.kind} joint")
     rows = [
         ["spar file", source_name(spar)],
         ["length, heel to head", r.where(spar.length)],
-        ["plan (the stiffness target)", f"solid {spar.plan.wood.name}, diameter {r.length(spar.plan.diameter.smallest)}"
-                                        f" to {r.length(spar.plan.diameter.largest)}"],
-        ["hollow spar", f"{h.staves} staves of {h.wood.name}, {h.joint.kind} joint, finished diameter "
+        ["plan (the stiffness target)", f"solid {spar.plan.wood.name}, {plan_size} "
+                                        f"{r.length(spar.plan.diameter.smallest)} to {r.length(spar.plan.diameter.largest)}"],
+        ["hollow spar", f"{built}, {hollow_size} "
                         f"{r.fig.dress(h.diameter.smallest)} to {r.fig.dress(h.diameter.largest)}"],
         ["allowances", f"planing {r.length(h.planing_allowance)} on the radius, {r.length(h.end_allowance)} at "
                        f"each stave end; lamination factor {h.lamination_factor:g}, EI margin {100 * h.margin:g} %"],
@@ -384,10 +390,12 @@ def station_table(r: Report) -> list:
     rough = ("Rough width adds the edge allowance jointed off each edge. " if r.layout is not None else "")
     ff = least_strength.hollow.form_factor
     form = (f"Strength ratio compares the moment each section carries at rupture, MOR x S x F, where F is the "
-            f"bending form factor: {least_strength.plan.form_factor:.2f} for the plan's solid round (Newlin and "
+            f"bending form factor: {least_strength.plan.form_factor:.2f} for the plan's solid "
+            f"{'round' if r.spar.plan.shape == 'round' else r.spar.plan.shape} (Newlin and "
             f"Trayer, NACA Report 181, 1924, from memory - verify) and, for the hollow section, interpolated on "
             f"its plastic shape factor between the rectangle (1.00) and the solid round, {ff:.3f} at the least "
-            f"strength station: a hollow round is credited with less than a solid one.")
+            f"strength station: a hollow section is credited with less than a solid one"
+            + (" (a box below the rectangle's 1.00)." if r.spar.hollow.is_box else "."))
     return [PageBreak(), r.h2("Station by station against the plan"),
             r.p(r.t(f"Positions from the heel of the finished spar. Stave widths are across the broad face before "
                     f"the notch is cut, rounded down (narrower staves close a smaller bore; see the templates for "
@@ -479,6 +487,7 @@ def _oval_section_drawing(r: Report, check: StationCheck) -> list:
     half = reach_mm * k
     kinds = ", ".join(f"{r.fig.mark_width(kind.width)} ({kind.count} staves: "
                       f"{', '.join(str(m + 1) for m in kind.members)})" for kind in sec.kinds)
+    box = sec.joint == "box"
     notes = [
         f"{n} staves, {sec.joint}; finished {r.fig.dress(sec.fore_aft)} fore-and-aft by "
         f"{r.fig.dress(sec.athwartships)} athwartships: the heavy oval (pale: wood taken off in rounding)",
@@ -491,6 +500,25 @@ def _oval_section_drawing(r: Report, check: StationCheck) -> list:
                                                                      else ""),
         f"scale {_scale_words(sa, sb)} when printed at 100 %",
     ]
+    if box:
+        from ..section.box import KIND_NAMES
+
+        rounded = (f", corners rounded to {r.fig.dress(sec.corner_radius)}" if sec.corner_radius > 0
+                   else ", corners sharp")
+        pieces = "; ".join(f"{KIND_NAMES[kind.index]}s (staves {' and '.join(str(m + 1) for m in kind.members)}) "
+                           f"{r.fig.mark_width(kind.width)} wide" for kind in sec.kinds)
+        joined = ("the sides set into a rebate along each edge of the faces, "
+                  f"{r.fig.dress(sec.rebate_depth)} deep" if sec.corner == "rebated"
+                  else "the sides glued between the faces")
+        notes[:5] = [
+            f"a box of 4 pieces, {joined}; finished {r.fig.dress(sec.fore_aft)} fore-and-aft by "
+            f"{r.fig.dress(sec.athwartships)} athwartships{rounded}: the heavy outline (pale: the planing allowance)",
+            f"pieces here: {pieces}; the faces face fore and aft, the sides athwartships",
+            f"piece thickness {r.fig.dress(sec.thickness)}, wall {r.fig.dress(check.station.wall)}",
+            f"wall after planing at least {r.fig.least(sec.least_wall)}",
+            f"bore {r.length(sec.bore_across_flats)} fore-and-aft by {r.length(sec.bore_across_flats_athwartships)} "
+            "athwartships" + ("; plugged here (grey)" if check.station.plug else ""),
+        ]
     height = 2 * half + 30
     d = Drawing(r.width, height)
     cx, cy = r.width / 2, height - half - 8
@@ -519,6 +547,13 @@ def _oval_section_drawing(r: Report, check: StationCheck) -> list:
     _check_bar(d, 0, 4, r, k)
     out = _section_page_head(r, check, d, notes, height)
     for kind in sec.kinds:
+        if box:
+            from ..section.box import KIND_NAMES
+
+            out.append(r.p(r.t(f"A {KIND_NAMES[kind.index]}, stave {kind.members[0] + 1} (and stave "
+                               f"{kind.members[1] + 1}, the same piece):"), "small"))
+            out += _stave_detail(r, sec.kind_section(kind.index))
+            continue
         out.append(r.p(r.t(f"Stave {kind.members[0] + 1} (and {', '.join(str(m + 1) for m in kind.members[1:])}: "
                            f"the same stave):"
                            if kind.count > 1 else f"Stave {kind.members[0] + 1}:"), "small"))
@@ -635,6 +670,13 @@ def _stave_detail(r: Report, sec: Section) -> list:
         phi, other = sec.v_face_angles
         notes.append(f"The V is 90°: its faces lie at {phi:.2f}° and {other:.2f}° to the broad face. "
                      f"Apex height is above the inner face; notch depth along the width from the notched edge.")
+    elif sec.joint == "box":
+        if sec.rebate is not None:
+            depth, across = sec.rebate
+            notes.append(f"A face: square edges, a rebate along each edge of its inner side {r.fig.dress(across)} "
+                         f"wide and {r.fig.dress(depth)} deep, where a side's edge sits.")
+        else:
+            notes.append("Square edges, planed to thickness and ripped to width: no notch, bevel or rebate.")
     else:
         notes.append(f"Plain bevel staves: each edge bevelled {sec.bevel_angle:.2f}° off square; "
                      f"inner face narrower than the outer.")
