@@ -47,6 +47,8 @@ class DiameterSolution:
 def scale_range(spar: Spar, point: Point) -> tuple[float, str, float, str]:
     """Least and greatest scale factor at ``point`` and what sets each (see the module's bounds)."""
     h = spar.hollow
+    if h.is_box:
+        return _box_scale_range(spar, point)
     if h.two_axis:
         return _oval_scale_range(spar, point)
     t = float(h.wall.at(point.z))
@@ -58,6 +60,23 @@ def scale_range(spar: Spar, point: Point) -> tuple[float, str, float, str]:
     low, low_by = (1.0, PLAN) if bore <= 1.0 else (bore, BORE_CLOSES)
     high = ((t - h.planing_allowance - corner * cos - BORE_CLEARANCE) / (1 - cos) + sheath) / plan_radius
     return low, low_by, high, (CORNER_MINIMUM if corner else BORE_CORNERS)
+
+
+BOX_SCALE_CAP = 10.0  # a box's scale is sought up to this many times the least (no bore corner bounds it)
+SCALE_CAP = "ten times the least scale"
+
+
+def _box_scale_range(spar: Spar, point: Point) -> tuple[float, str, float, str]:
+    """:func:`scale_range` for a box: k times the plan's smaller half-dimension over the wall less the planing
+    allowance (the bore closes below); above, no corner of the bore can break out of a growing rectangle, so the
+    search is capped at :data:`BOX_SCALE_CAP` times the least."""
+    h = spar.hollow
+    t = float(h.wall.at(point.z))
+    fore_aft = point.plan_diameter
+    athwartships = fore_aft * athwartships_share(spar, point.z)
+    bore = max(t - h.planing_allowance, 1e-9) / (min(fore_aft, athwartships) / 2) * (1 + 1e-9)
+    low, low_by = (1.0, PLAN) if bore <= 1.0 else (bore, BORE_CLOSES)
+    return low, low_by, BOX_SCALE_CAP * low, SCALE_CAP
 
 
 def _oval_scale_range(spar: Spar, point: Point) -> tuple[float, str, float, str]:

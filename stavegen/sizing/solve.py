@@ -21,7 +21,7 @@ from .diameter import BORE_CLOSES, PLAN, describe_scale, solve_diameter_scale
 from .roots import NOTCH
 from .targets import (EI_RATIO, STRENGTH_RATIO, Point, check_at, closed_form_applies, criteria_of, place, points_of,
                       station_at)
-from .wall import BORE_CORNERS, CORNER_MINIMUM, WallSolution, solve_constant_wall, solve_tapered_wall
+from .wall import BORE_CORNERS, BOX_CORNERS, CORNER_MINIMUM, WallSolution, solve_constant_wall, solve_tapered_wall
 
 if TYPE_CHECKING:
     from .count import Comparison
@@ -78,6 +78,7 @@ def _set_by(spar: Spar, solution: WallSolution) -> str:
     return {
         BORE_CORNERS: f", set by keeping the round out of the bore's corners at {at}",
         CORNER_MINIMUM: f", set by hollow.min_corner_wall at {at}",
+        BOX_CORNERS: f", set by the corner rounding (hollow.corner_radius) and the planing allowance at {at}",
         NOTCH: f", set by the notch geometry at {at}",
         "thickened": f", set between stations near {at}",
     }.get(solution.binding_by, "")

@@ -55,6 +55,25 @@ class WallSolution:
     thickened: int = 0
 
 
+BOX_CORNERS = "box corners"  # a box's wall: at least the corner rounding (or hollow.min_corner_wall) after planing
+
+
+def box_wall_range(spar: Spar, z: float) -> tuple[float, str, float]:
+    """:func:`wall_range` for a box at ``z``: the planed wall must hold the corner rounding and the least corner
+    wall (t − allowance ≥ max(r, c_min)), and a rebate must be shallower than the wall; the thickest just under
+    the smaller half-dimension plus the allowance (the bore closes there)."""
+    h = spar.hollow
+    fore_aft = float(h.diameter.at(z))
+    athwartships = fore_aft * athwartships_share(spar, z)
+    keep = max(h.corner_radius, h.min_corner_wall or 0.0)
+    thinnest = h.planing_allowance + keep + BORE_CLEARANCE
+    if h.corner == "rebated" and h.rebate_depth is not None:
+        thinnest = max(thinnest, h.rebate_depth * (1 + 1e-9))
+    thinnest = max(thinnest, 1e-6)
+    by = CORNER_MINIMUM if h.min_corner_wall and h.min_corner_wall >= h.corner_radius else BOX_CORNERS
+    return thinnest, by, (min(fore_aft, athwartships) / 2 + h.planing_allowance) * (1 - 1e-9)
+
+
 def oval_wall_range(spar: Spar, z: float) -> tuple[float, str, float]:
     """:func:`wall_range` for an oval at ``z``: the thinnest wall whose bore's corners stay inside the finished
     oval (shrunk by hollow.min_corner_wall), found by brentq on the corners' reach, and just under the smaller
@@ -90,6 +109,8 @@ def wall_range(spar: Spar, radius: float, z: float | None = None) -> tuple[float
     given), :func:`oval_wall_range`.
     """
     h = spar.hollow
+    if h.is_box and z is not None:
+        return box_wall_range(spar, z)
     if h.two_axis and z is not None:
         return oval_wall_range(spar, z)
     if z is not None:
