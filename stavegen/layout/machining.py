@@ -441,17 +441,21 @@ class TrappedOffcut(ValueError):
     """A pass would cut a piece free between the blade and the fence."""
 
 
-def replay(passes, blank: Blank) -> Polygon:
-    """The piece the table-saw ``passes`` leave of ``blank``, in the blank's frame.
+def replay(passes, blank: Blank, stock: Polygon | None = None, ride_fence: bool = False) -> Polygon:
+    """The piece the table-saw ``passes`` leave of ``blank`` (or of ``stock``, a piece already cut from it, in the
+    blank's frame), in the blank's frame.
 
     Each pass, set up as it says, removes its blade's slab. When a pass frees a
     piece, the piece on the blade's fence side rides on (it is kept) and the rest
     falls away; a freed piece on the fence side other than the kept one raises
-    TrappedOffcut.
+    TrappedOffcut. ``ride_fence`` (a box face's rebate, whose piece reaches over
+    the blade's top past its plane): when the blade's plane does not part the
+    pieces so, the one piece bearing on the fence is kept, provided every other
+    lies wholly on the blade's far side.
     """
     size = _size(blank)
     eps = LENGTH_TOLERANCE * size
-    stock = box(0.0, 0.0, blank.width, blank.thickness)
+    stock = box(0.0, 0.0, blank.width, blank.thickness) if stock is None else stock
     for p in passes:
         place = placement(p.on_table, p.on_fence, blank)
         slab = place.to_blank(blade_slab(p, size))
@@ -468,11 +472,27 @@ def replay(passes, blank: Blank) -> Polygon:
             q = place.point(g.representative_point().coords[0])
             if (q[0] - p.fence_distance) * n[0] + q[1] * n[1] < 0:
                 fence_side.append(g)
+        if len(fence_side) != 1 and ride_fence:
+            fence_side = _riding(pieces, place, p, n, eps)
         if len(fence_side) != 1:
             raise TrappedOffcut(f"the pass making the {p.makes} frees {len(fence_side)} pieces between the blade "
                                 "and the fence")
         stock = fence_side[0]
     return shapely.normalize(stock)
+
+
+def _riding(pieces: list[Polygon], place: _Placement, p: SawPass, n, eps: float) -> list[Polygon]:
+    """The piece bearing on the fence (X = 0), when it is the only one and every other piece lies wholly on the
+    blade's far side; else none."""
+    touching = [g for g in pieces if abs(min(x for x, _ in place.to_saw(g).exterior.coords)) <= eps]
+    if len(touching) != 1:
+        return []
+    for g in pieces:
+        if g is touching[0]:
+            continue
+        if any((x - p.fence_distance) * n[0] + y * n[1] < -eps for x, y in place.to_saw(g).exterior.coords):
+            return []
+    return touching
 
 
 def _contacts(stock: Polygon, place: _Placement, size: float) -> tuple[float, float]:
@@ -494,14 +514,15 @@ def _sides(cut: Cut) -> tuple[Side, ...]:
     return (Side.OUTER_FACE, Side.INNER_FACE, Side.NOTCHED_EDGE, Side.SQUARE_EDGE)
 
 
-def _with_contacts(passes: tuple[SawPass, ...], blank: Blank, target: Polygon) -> tuple[SawPass, ...] | None:
+def _with_contacts(passes: tuple[SawPass, ...], blank: Blank, target: Polygon,
+                   ride_fence: bool = False) -> tuple[SawPass, ...] | None:
     """The passes with their bearing measured, or None when they do not cut ``target`` safely."""
     size = _size(blank)
     tol = LENGTH_TOLERANCE * size
     done = []
     for k, p in enumerate(passes):
         try:
-            stock = replay(passes[:k + 1], blank)
+            stock = replay(passes[:k + 1], blank, ride_fence=ride_fence)
         except ValueError:  # an offcut trapped against the fence, or nothing left
             return None
         table, fence = _contacts(stock, placement(p.on_table, p.on_fence, blank), size)
@@ -534,7 +555,7 @@ def _search(cut: Cut, blank: Blank, kerf: float) -> tuple[SawPass, ...]:
     best = None
     for order in permutations(range(len(faces))):
         for combo in product(*(options[i] for i in order)):
-            done = _with_contacts(tuple(combo), blank, kept)
+            done = _with_contacts(tuple(combo), blank, kept, cut.box)
             if done is None:
                 continue
             last = done[-1]
@@ -563,7 +584,7 @@ def saw_passes_for(cut: Cut, blank: Blank, kerf: float, plan: tuple[SawPass, ...
         if made is None:
             return _search(cut, blank, kerf)
         passes.append(made)
-    done = _with_contacts(tuple(passes), blank, kept)
+    done = _with_contacts(tuple(passes), blank, kept, cut.box)
     return done if done is not None else _search(cut, blank, kerf)
 
 
