@@ -582,8 +582,9 @@ def _hollow(t: _Table, units: str, length: float, plan: Plan) -> Hollow:
             raise t.fail("shape", f'joint = "box" builds a rectangle (shape = "rectangle"), not {shape}')
         raise t.fail("joint", f'a rectangular hollow spar is built as a box (joint = "box"), not {joint.kind}')
     if not joint.is_box:
-        for name in ("corner", "rebate_depth", "corner_radius"):
-            if t.has(name):
+        for name, unused in (("corner", t.get("corner") == "sides-between-faces"),
+                             ("rebate_depth", not t.has("rebate_depth")), ("corner_radius", t.get("corner_radius") == 0)):
+            if not unused:  # written at its default it changes nothing, as every key's default
                 raise t.fail(name, 'is for a box spar (shape = "rectangle", joint = "box")')
     if shape != "round" and not joint.is_box:
         if joint.kind not in ("birdsmouth-flush", "bevel", "birdsmouth-centered", "birdsmouth-custom"):
