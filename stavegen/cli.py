@@ -147,7 +147,12 @@ def section(
         console.print(Prose(Text("warning: ", style="bold yellow") + Text(line)))
     console.print(fit(section_table(model, check_station(model, station), si=si), keys=0))
     kerf = model.stock.kerf if model.stock is not None else (3.175 if model.units == "in" else 3.0)
-    console.print(fit(machining_table(model, cutter_settings(station.section, kerf)), keys=0))
+    cut = station.section
+    if model.hollow.is_box:  # a box: the face carries the only cuts (its rebates), the sides are ripped square
+        from .section.box import FACE
+
+        cut = cut.kind_section(FACE)
+    console.print(fit(machining_table(model, cutter_settings(cut, kerf)), keys=0))
 
 
 @app.command()

@@ -40,8 +40,10 @@ def _headline(spar: Spar) -> str:
     wall_text = (fig.dress(wall.largest) if wall.is_constant
                  else f"{fig.dress(wall.smallest)} to {fig.dress(wall.largest)}")
     return (f"[bold]{escape(spar.name)}[/]  {fig.position(spar.length)} long\n"
-            f"plan: solid {escape(spar.plan.wood.name)}   hollow: {h.staves} staves of {escape(h.wood.name)}, "
-            f"{h.joint.kind}, wall {wall_text}")
+            f"plan: solid {escape(spar.plan.wood.name)}   hollow: "
+            + (f"a box of {escape(h.wood.name)} (two faces, two sides), {h.corner} corners" if h.is_box
+               else f"{h.staves} staves of {escape(h.wood.name)}, {h.joint.kind}")
+            + f", wall {wall_text}")
 
 
 def station_table(design: Design) -> Table:
@@ -268,13 +270,34 @@ def section_table(spar: Spar, check: StationCheck, si: bool = False) -> Table:
                      f"{fig.mark_width(k.width)} ({k.count})" for k in sec.kinds) + " (how many)")]
     else:
         rows.append(("finished diameter (plan)", f"{fig.dress(s.diameter)} ({fig.describe(s.plan_diameter)})"))
-    rows += [
-        ("across flats before rounding", fig.describe(sec.across_flats)),
-        ("wall (the bore's)", fig.dress(s.wall)),
-        ("stave thickness", fig.dress(sec.thickness)),
-        ("stave width before the notch" + (", widest" if two else ""), fig.mark_width(sec.stave_width)),
-    ]
-    if sec.notch:
+    box = sec.joint == "box"
+    if box:
+        from ..section.box import KIND_NAMES
+
+        rows[0] = ("pieces, corners", f"4 (two faces, two sides), {sec.corner}"
+                   + (f", rebates {fig.dress(sec.rebate_depth)} deep" if sec.rebate else ""))
+        rows[2] = ("piece widths", ", ".join(f"{KIND_NAMES[k.index]}s {fig.mark_width(k.width)}" for k in sec.kinds))
+        rows += [
+            ("faces fore and aft before planing", fig.describe(sec.across_flats)),
+            ("wall (the bore's)", fig.dress(s.wall)),
+            ("piece thickness", fig.dress(sec.thickness)),
+            ("outside corners rounded to", fig.describe(sec.corner_radius) if sec.corner_radius else "sharp"),
+            ("bore fore-and-aft x athwartships", f"{fig.describe(sec.bore_across_flats)} x "
+                                                 f"{fig.describe(sec.bore_across_flats_athwartships)}"),
+            ("least wall after planing", fig.least(sec.least_wall)),
+            ("glue line per joint", fig.describe(sec.glue_line)),
+            ("wood area", fig.units.area(sec.area, si)),
+        ]
+    else:
+        rows += [
+            ("across flats before rounding", fig.describe(sec.across_flats)),
+            ("wall (the bore's)", fig.dress(s.wall)),
+            ("stave thickness", fig.dress(sec.thickness)),
+            ("stave width before the notch" + (", widest" if two else ""), fig.mark_width(sec.stave_width)),
+        ]
+    if box:
+        pass
+    elif sec.notch:
         phi, other = sec.v_face_angles
         rows += [
             ("notch depth (along the width)", fig.notch_depth(sec.notch.depth)),
@@ -283,7 +306,7 @@ def section_table(spar: Spar, check: StationCheck, si: bool = False) -> Table:
         ]
     else:
         rows.append(("edge bevel off square", f"{sec.bevel_angle:.2f}°"))
-    rows += [
+    rows += [] if box else [
         ("bore across flats", fig.describe(2 * sec.inner_apothem)),
         ("wall after rounding, mid-stave", fig.least(sec.flat_wall)),
         ("least wall after rounding, over bore and voids", fig.least(sec.least_wall)),
@@ -324,7 +347,8 @@ def section_table(spar: Spar, check: StationCheck, si: bool = False) -> Table:
 
 def machining_table(spar: Spar, settings: CutterSettings) -> Table:
     """Table-saw passes and the router set-up for one section, lengths in the spar's units."""
-    table = Table(title="Cutter settings", show_header=False, title_justify="left",
+    title = "Cutter settings" + (", a face (its rebates)" if settings.joint == "box" else "")
+    table = Table(title=title, show_header=False, title_justify="left",
                   caption=f"{FENCE_NOTE} {GUARD_NOTE}", caption_justify="left")
     table.add_column("", style="bold")
     table.add_column("", justify="right")

@@ -50,7 +50,8 @@ def _bearing(fig: Figures, mm: float) -> str:
 def saw_rows(fig: Figures, p: SawPass) -> list[Row]:
     """The settings of one table-saw pass (after its heading)."""
     lean = "" if p.lean is Lean.UPRIGHT else f", top leaning {p.lean}"
-    end = "through the stave" if p.through else "to the apex"
+    end = "through the stave" if p.through else ("to the rebate's corner" if p.makes.startswith("rebate")
+                                                 else "to the apex")
     fence = fig.fence(p.fence_distance, nearer=p.leaves_wood_when_fence_is == "nearer")
     if p.follows_blank_width:
         fence += " on this blank (each segment's in the cut list)"
