@@ -124,7 +124,20 @@ def _station(check: StationCheck) -> dict[str, Any]:
         "strength_ok_fore_aft": check.strength_ok_in(FORE_AFT),
         "strength_ok_athwartships": check.strength_ok_in(ATHWARTSHIPS),
         "stave_widths_mm": list(sec.widths),
+        **_box_station(sec),
     }
+
+
+def _box_station(sec) -> dict[str, Any]:
+    """A box's pieces at a station: the faces' and the sides' widths, the rebate, the least wall after planing."""
+    if getattr(sec, "joint", "") != "box":
+        return {}
+    from ..section.box import FACE, SIDE
+
+    return {"face_width_mm": sec.widths[FACE], "side_width_mm": sec.widths[SIDE],
+            "rebate_depth_mm": sec.rebate_depth if sec.rebate else None,
+            "rebate_width_mm": sec.rebate[1] if sec.rebate else None,
+            "corner_radius_mm": sec.corner_radius}
 
 
 def _joint(j: JointCheck) -> dict[str, Any]:
@@ -181,6 +194,8 @@ def document(design: Design) -> dict[str, Any]:
             "shape": hollow.shape,
             "plan_shape": spar.plan.shape,
             "plan_corner_radius_mm": spar.plan.corner_radius,
+            **({"corner": hollow.corner, "corner_radius_mm": hollow.corner_radius,
+                "pieces": {"sides": [1, 3], "faces": [2, 4]}} if hollow.is_box else {}),
             "units": spar.units,
             "source": spar.source,
             "taper": hollow.taper,
