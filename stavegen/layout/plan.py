@@ -40,6 +40,8 @@ class Layout:
     """One plan for each kind of stave (an oval spar's staves differ); empty: ``plan`` serves every stave."""
     kinds: tuple[int, ...] = ()
     """The kind of each stave (index 0 = stave 1), into ``plans``."""
+    box_corner: str | None = None
+    """A box spar's corner joint (hollow.corner): its pieces' edges are square, a rebated face's rebated."""
 
     def plan_for(self, stave: int) -> StavePlan:
         """The plan of stave number ``stave`` (from 1)."""
@@ -73,8 +75,12 @@ class Layout:
     @cached_property
     def templates(self) -> tuple[Template, ...]:
         """Every piece's template (identical pieces share one): what the DXF and the full-size PDF draw."""
+        box = None
+        if self.box_corner is not None:  # kind 1 the faces (rebated or not), kind 0 the sides
+            face = "rebated face" if self.box_corner == "rebated" else "face"
+            box = {k: (face if kind == 1 else "side") for k, kind in enumerate(self.kinds, start=1)}
         return make_templates(self.staves, self.scarfs.centres, self.plan.taper,
-                              notched=self.plan.stations[0].notch_depth is not None)
+                              notched=self.plan.stations[0].notch_depth is not None, box=box)
 
     @cached_property
     def template_of(self) -> dict[str, Template]:
@@ -129,6 +135,7 @@ def lay_out(spar: Spar, cache: SectionCache | None = None, step: Callable[[str],
     return Layout(plan=plan, scarfs=scarfs, staves=staves, plugs=plug_blocks(spar, cache), machining=shop,
                   lumber=lumber, scarf_aim=choice.aim if scarfs is choice.plan else None,
                   plans=plans if len(plans) > 1 else (), kinds=kinds if len(plans) > 1 else (),
+                  box_corner=spar.hollow.corner if spar.hollow.is_box else None,
                   sheathing=cloth_and_resin(spar, cache))
 
 

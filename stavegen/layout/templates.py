@@ -62,6 +62,7 @@ class Template:
     head_end: str
     notched: bool  # the edge along y = 0 takes the birdsmouth's V (else a bevel)
     straight_notch_edge: bool  # False for a symmetric taper (both edges tapered, centre line drawn)
+    box_piece: str | None = None  # a box spar's piece: "side", "face" or "rebated face" (square edges)
 
     @property
     def segment(self) -> Segment:
@@ -140,9 +141,10 @@ def _key(seg: Segment, own_scarfs: tuple[float, ...]) -> tuple:
 
 
 def make_templates(staves: tuple[tuple[Segment, ...], ...], scarf_centres: tuple[tuple[float, ...], ...],
-                   taper: str, notched: bool) -> tuple[Template, ...]:
+                   taper: str, notched: bool, box: dict[int, str] | None = None) -> tuple[Template, ...]:
     """Every segment's template, identical pieces (outline, ends and marks) grouped, in cut-list order of
-    their first member. ``notched``: the staves take a birdsmouth V (else they are bevelled)."""
+    their first member. ``notched``: the staves take a birdsmouth V (else they are bevelled); ``box``: a box
+    spar's piece of each stave (by its number), square-edged."""
     groups: dict[tuple, list[Segment]] = {}
     for stave in staves:
         for seg in stave:
@@ -154,6 +156,7 @@ def make_templates(staves: tuple[tuple[Segment, ...], ...], scarf_centres: tuple
             segments=tuple(segs), marks=_marks(seg, scarf_centres[seg.stave - 1]), feather_lines=_feather_lines(seg),
             heel_end="scarf tip" if seg.scarf_at_start else "square cut",
             head_end="scarf tip" if seg.scarf_at_end else "square cut",
-            notched=notched, straight_notch_edge=taper != "symmetric"))
+            notched=notched, straight_notch_edge=taper != "symmetric",
+            box_piece=box.get(seg.stave) if box else None))
     return tuple(out)
 

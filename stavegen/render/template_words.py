@@ -37,6 +37,11 @@ def template_name(t: Template) -> str:
 def edge_names(t: Template) -> tuple[str, str]:
     """(the edge along y = 0, the other edge)."""
     straight = "(straight)" if t.straight_notch_edge else "(tapered)"
+    if t.box_piece == "rebated face":
+        return (f"EDGE 1 {straight}: square, rebated along the inner side",
+                "EDGE 2 (tapered): square, rebated along the inner side once tapered")
+    if t.box_piece is not None:
+        return f"EDGE 1 {straight}: square", "EDGE 2 (tapered): square"
     if not t.notched:
         return f"BEVEL EDGE {straight}", "BEVEL EDGE (tapered)"
     return f"NOTCH EDGE {straight}: cut the V along this edge", "SQUARE EDGE (tapered)"
