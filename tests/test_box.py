@@ -323,3 +323,23 @@ def test_sample_dxf_outlines_have_the_pieces_widths(tmp_path):
     widest_face = max(st.width for st in d.layout.plan_for(2).stations)
     assert any(abs(s - widest_side) < 0.5 for s in spans)
     assert any(abs(s - widest_face) < 0.5 for s in spans)
+
+
+def test_sides_between_faces_builds_every_output_with_no_saw_pass(tmp_path):
+    """A millimetre box with plain corners: every output written; the order of operations has no table-saw pass
+    (square edges only), the cut list names each row's piece, faces as wide as the spar athwartships."""
+    from stavegen.build import write_outputs
+    from stavegen.render.csv_cutlist import cutlist_rows
+
+    stock = {"thickness": 19, "widths": [90, 140], "lengths": [2400, 3600], "kerf": 3}
+    d = design(box_spar(hollow={"planing_allowance": 1.0}, stock=stock), layout=True)
+    written = write_outputs(d, tmp_path)
+    assert {p.suffix for p in written} >= {".json", ".csv", ".dxf", ".pdf"}
+    assert not any(s.action == "saw pass" for s in d.layout.machining.steps)
+    rows = cutlist_rows(d)
+    header = next(r for r in rows if r and r[0] == "stave")
+    pieces = {r[0]: r[header.index("piece")] for r in rows[rows.index(header) + 1:] if r and r[0].isdigit()
+              and len(r) == len(header)}
+    assert pieces == {"1": "side", "2": "face", "3": "side", "4": "face"}
+    assert d.layout.plan_for(2).width_at(1500) == pytest.approx(80 + 2 * 1.0, rel=1e-9)
+    assert d.layout.plan_for(1).width_at(1500) == pytest.approx(120 + 2 * 1.0 - 2 * 16, rel=1e-9)

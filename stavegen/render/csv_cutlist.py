@@ -70,6 +70,10 @@ def cutlist_rows(design: Design) -> list[list[str]]:
         if imperial:
             header.append(heading.replace(f"({pos_word})", "(decimal in)").replace(f"({len_word})", "(decimal in)"))
     header += ["heel end", "head end", "board", "from_mm", "to_mm", "length_mm", "rip_width_mm", "thickness_mm"]
+    piece_of = ({s.stave: t.box_piece for t in layout.templates for s in t.segments} if layout.box_corner
+                else {})
+    if piece_of:  # a box: which piece each row is (side, face or rebated face)
+        header.append("piece")
     rows = [[fails_line(design)]] if not design.passed else []
     rows.append(header)
     boards = layout.board_of
@@ -83,6 +87,8 @@ def cutlist_rows(design: Design) -> list[list[str]]:
         row += ["scarf" if seg.scarf_at_start else "stave end", "scarf" if seg.scarf_at_end else "stave end",
                 boards.get(seg.label, ""), f"{seg.start:.2f}", f"{seg.end:.2f}", f"{seg.length:.2f}",
                 f"{setups[seg.label].rough_width:.2f}", f"{_thickest(plan, seg):.2f}"]
+        if piece_of:
+            row.append(piece_of.get(seg.stave, ""))
         rows.append(row)
     rows.append([])
     rows.append(["order of operations"])
