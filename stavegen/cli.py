@@ -188,6 +188,8 @@ def size(
                                          "already exists; pass --force to overwrite it")
         if why:
             raise InputError(why, "--write", str(write))
+    if model.hollow.is_box:  # four pieces, no count to compare: solve what the file leaves "auto"
+        return _size_box(spar, model, write, force)
     with counting("sizing and laying out every stave count") as tell:
         comparison = compare_stave_counts(_replace(model, hollow=_replace(model.hollow, staves="auto")), progress=tell)
     console = _console()
@@ -221,6 +223,36 @@ def size(
     write_file(write, text, force=force, key="--write")
     was = {"staves": model.hollow.staves, "wall": model.hollow.wall, "stations": model.hollow.diameter}
     said = "; ".join(f"hollow.{key} = {value} (was {_as_written(was[key])})" for key, value in changes)
+    console.print(Prose(f"wrote {write}: {said}"))
+
+
+def _size_box(path: Path, model, write: Optional[Path], force: bool) -> None:
+    """`stavegen size` on a box spar: no stave count to compare (a box is its four pieces); the wall or stations
+    the file leaves "auto" are solved, shown, and with --write written into a copy of the file."""
+    from .model.loader import read_spar_text
+    from .model.rewrite import solved_values, with_solved_values
+    from .outputs import write_file
+    from .render.fit import Prose
+    from .render.progress import steps
+    from .pipeline import resolve
+
+    with steps("solving what the spar file leaves to stavegen"):
+        filled, lines = resolve(model)
+    console = _console()
+    for line in model.notices:
+        console.print(Prose(Text("warning: ", style="bold yellow") + Text(line)))
+    console.print(Prose("a box spar is built of its 4 pieces (two faces, two sides): no stave count to compare"))
+    for line in lines:
+        console.print(Prose(Text("solved: ", style="cyan") + Text(line)))
+    if write is None:
+        return
+    changes = solved_values(model, filled)
+    if not changes:
+        console.print(Prose(f'nothing written: {path} leaves nothing "auto"'))
+        return
+    write_file(write, with_solved_values(read_spar_text(path), model, filled), force=force, key="--write")
+    was = {"wall": model.hollow.wall, "stations": model.hollow.diameter}
+    said = "; ".join(f"hollow.{key} = {value} (was {_as_written(was.get(key))})" for key, value in changes)
     console.print(Prose(f"wrote {write}: {said}"))
 
 

@@ -343,3 +343,18 @@ def test_sides_between_faces_builds_every_output_with_no_saw_pass(tmp_path):
     assert pieces == {"1": "side", "2": "face", "3": "side", "4": "face"}
     assert d.layout.plan_for(2).width_at(1500) == pytest.approx(80 + 2 * 1.0, rel=1e-9)
     assert d.layout.plan_for(1).width_at(1500) == pytest.approx(120 + 2 * 1.0 - 2 * 16, rel=1e-9)
+
+
+def test_size_writes_the_solved_box_wall_and_it_checks(run, tmp_path):
+    """`stavegen size --write` on a box with wall = "auto": no stave count compared; the printed wall (rounded up
+    onto the 1/32 in grid) goes back into the spar file, and that file passes `stavegen check`."""
+    text = SAMPLE.read_text(encoding="utf-8").replace('wall = "1/2"', 'wall = "auto"')
+    source = tmp_path / "boom.toml"
+    source.write_text(text, encoding="utf-8")
+    written = tmp_path / "solved.toml"
+    result = run(["size", source, "--write", written])
+    assert result.exit_code == 0, result.output
+    assert "no stave count to compare" in result.output
+    solved = load_spar(written)
+    assert solved.hollow.wall.is_constant and solved.hollow.staves == 4
+    assert run(["check", written]).exit_code == 0
