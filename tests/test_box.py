@@ -358,3 +358,60 @@ def test_size_writes_the_solved_box_wall_and_it_checks(run, tmp_path):
     solved = load_spar(written)
     assert solved.hollow.wall.is_constant and solved.hollow.staves == 4
     assert run(["check", written]).exit_code == 0
+
+
+from hypothesis import given, settings, strategies as st  # noqa: E402
+
+
+def second_moments(ring) -> tuple[float, float]:
+    """(∫x² dA, ∫y² dA) of a closed counter-clockwise ring by Green's theorem, the textbook polygon formulas:
+    ∫x² dA = Σ (x_i² + x_i x_j + x_j²) c / 12 with c = x_i y_j − x_j y_i (and the same in y)."""
+    ix = iy = 0.0
+    for (x0, y0), (x1, y1) in zip(ring, ring[1:]):
+        c = x0 * y1 - x1 * y0
+        ix += (x0 * x0 + x0 * x1 + x1 * x1) * c / 12
+        iy += (y0 * y0 + y0 * y1 + y1 * y1) * c / 12
+    return ix, iy
+
+
+@settings(max_examples=25, deadline=None)
+@given(fore_aft=st.floats(30.0, 300.0), share=st.floats(0.3, 3.0), wall_share=st.floats(0.05, 0.45),
+       allowance=st.floats(0.0, 2.0), rebated=st.booleans(), depth_share=st.floats(0.1, 0.9),
+       round_share=st.floats(0.0, 1.0))
+def test_any_box_tiles_and_matches_roark_less_its_corners(fore_aft, share, wall_share, allowance, rebated,
+                                                          depth_share, round_share):
+    """Any box: the pieces tile the outer rectangle less the bore (shapely, no overlap, no gap), and the finished
+    wall's I each way is Roark's hollow rectangle (B D³ − b d³)/12 less exactly what the rounded corners take:
+    four corner squares r × r less four quarter discs, each integrated by shapely on a fine polygon (1e-4)."""
+    athwartships = fore_aft * share
+    t = wall_share * min(fore_aft, athwartships)
+    if t <= allowance + 0.5:
+        return
+    r = round_share * (t - allowance)
+    depth = depth_share * t if rebated else None
+    sec = evaluate_box("rebated" if rebated else "sides-between-faces", fore_aft, athwartships, t, allowance, r,
+                       depth)
+    polys = [Polygon(o) for o in sec.outlines]
+    ox, oy = fore_aft / 2 + allowance, athwartships / 2 + allowance
+    ring = box(-ox, -oy, ox, oy).difference(box(-ox + t, -oy + t, ox - t, oy - t))
+    assert shapely.union_all(polys).symmetric_difference(ring).area <= 1e-9 * ring.area
+    assert sum(p.area for p in polys) == pytest.approx(ring.area, rel=1e-9)
+    B, D = fore_aft, athwartships
+    b, d = 2 * (ox - t), 2 * (oy - t)
+    sharp_fa = (D * B**3 - d * b**3) / 12
+    sharp_at = (B * D**3 - b * d**3) / 12
+    a_, b_ = B / 2, D / 2
+    if r > 0:
+        corner = box(a_ - r, b_ - r, a_, b_).difference(shapely.Point(a_ - r, b_ - r).buffer(r, quad_segs=256))
+        fe = fe_like = 0.0
+        from shapely.geometry.polygon import orient
+
+        for g in getattr(corner, "geoms", [corner]):
+            xy = list(orient(g, 1.0).exterior.coords)  # counter-clockwise: positive integrals
+            fe += second_moments(xy)[0]
+            fe_like += second_moments(xy)[1]
+        assert sec.inertia_fore_aft == pytest.approx(sharp_fa - 4 * fe, rel=1e-4)
+        assert sec.inertia_athwartships == pytest.approx(sharp_at - 4 * fe_like, rel=1e-4)
+    else:
+        assert sec.inertia_fore_aft == pytest.approx(sharp_fa, rel=1e-12)
+        assert sec.inertia_athwartships == pytest.approx(sharp_at, rel=1e-12)
