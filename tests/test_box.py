@@ -44,7 +44,7 @@ def box_spar(plan=None, hollow=None, **tables):
 
 # --- Roark's closed forms ------------------------------------------------------------------------------------
 
-@pytest.mark.parametrize("corner", ["sides-between-faces", "rebated"])
+@pytest.mark.parametrize("corner", ["sides-between-faces", "rebated", "pinwheel"])
 @pytest.mark.parametrize("B, D, t", [(120.0, 80.0, 16.0), (60.0, 110.0, 9.5), (70.0, 70.0, 20.0)])
 def test_hollow_rectangle_against_roark(corner, B, D, t):
     """Sharp corners, no planing allowance: I = (B D³ − b d³) / 12 about each axis, A = B D − b d, plastic modulus
@@ -112,7 +112,7 @@ def test_box_with_allowance_against_sectionproperties_on_its_pieces():
 # --- the pieces ----------------------------------------------------------------------------------------------
 
 @pytest.mark.parametrize("corner, depth", [("sides-between-faces", None), ("rebated", None), ("rebated", 4.0),
-                                           ("rebated", 11.0)])
+                                           ("rebated", 11.0), ("pinwheel", None), ("pinwheel", 3.0)])
 def test_pieces_tile_the_wall(corner, depth):
     """The four pieces overlap nowhere and leave no gap: their union is the outer rectangle (the allowance
     included) less the bore (shapely), each piece one polygon."""
@@ -126,8 +126,12 @@ def test_pieces_tile_the_wall(corner, depth):
     ring = box(-ox, -oy, ox, oy).difference(box(-ox + 12, -oy + 12, ox - 12, oy - 12))
     union = shapely.union_all(polys)
     assert union.symmetric_difference(ring).area == pytest.approx(0.0, abs=1e-6)
+    d = 0.0 if corner == "sides-between-faces" else (depth if depth is not None else 6.0)
+    if corner == "pinwheel":  # each piece covers one corner and runs into the next piece's rebate at the other
+        assert sec.widths[FACE] == pytest.approx(2 * oy - 12 + d, rel=1e-12)
+        assert sec.widths[SIDE] == pytest.approx(2 * ox - 12 + d, rel=1e-12)
+        return
     # faces span athwartships; sides fit between them (into the rebates)
-    d = 0.0 if corner != "rebated" else (depth if depth is not None else 6.0)
     assert sec.widths[FACE] == pytest.approx(2 * oy, rel=1e-12)
     assert sec.widths[SIDE] == pytest.approx(2 * (ox - 12 + d), rel=1e-12)
 
@@ -195,6 +199,22 @@ def test_rebate_passes_replayed_as_blade_slabs_carve_the_face(t, depth, kerf):
     assert cheek.height == pytest.approx(d, rel=1e-12)  # the blade as high as the rebate is deep
     assert floor.height == pytest.approx(t, rel=1e-12)  # as high as the rebate is wide (the side's thickness)
     assert Side.EDGE_2 not in (cheek.on_fence, cheek.on_table, floor.on_fence, floor.on_table)
+
+
+@pytest.mark.parametrize("kind", [SIDE, FACE])
+def test_pinwheel_piece_is_carved_by_one_rebate_on_edge_1(kind):
+    """The square birdsmouth (corner = "pinwheel"): every piece one rebate along edge 1, two passes as blade slabs
+    at the printed settings, then edge 2 ripped square to width: the model's piece; the passes do not follow the
+    blank's width (one setting for every segment)."""
+    sec = evaluate_box("pinwheel", 110.0, 70.0, 14.0, 1.0, 0.0, 5.0)
+    piece = sec.kind_section(kind)
+    blank = Blank(piece.stave_width + 6.0, 14.0)
+    settings = cutter_settings(piece, 3.2, blank)
+    assert len(settings.saw) == 2 and not any(p.follows_blank_width for p in settings.saw)
+    carved = replay(settings.saw, blank, ride_fence=True).intersection(box(-1.0, -1.0, piece.stave_width, 15.0))
+    model = model_stave(piece)
+    assert carved.symmetric_difference(model).area < 1e-9 * model.area
+    assert {p.makes: p.height for p in settings.saw} == pytest.approx({"rebate's cheek": 5.0, "rebate's floor": 14.0})
 
 
 def test_sides_and_unrebated_faces_have_no_passes():
@@ -376,9 +396,10 @@ def second_moments(ring) -> tuple[float, float]:
 
 @settings(max_examples=25, deadline=None)
 @given(fore_aft=st.floats(30.0, 300.0), share=st.floats(0.3, 3.0), wall_share=st.floats(0.05, 0.45),
-       allowance=st.floats(0.0, 2.0), rebated=st.booleans(), depth_share=st.floats(0.1, 0.9),
+       allowance=st.floats(0.0, 2.0), corner=st.sampled_from(["sides-between-faces", "rebated", "pinwheel"]),
+       depth_share=st.floats(0.1, 0.9),
        round_share=st.floats(0.0, 1.0))
-def test_any_box_tiles_and_matches_roark_less_its_corners(fore_aft, share, wall_share, allowance, rebated,
+def test_any_box_tiles_and_matches_roark_less_its_corners(fore_aft, share, wall_share, allowance, corner,
                                                           depth_share, round_share):
     """Any box: the pieces tile the outer rectangle less the bore (shapely, no overlap, no gap), and the finished
     wall's I each way is Roark's hollow rectangle (B D³ − b d³)/12 less exactly what the rounded corners take:
@@ -388,9 +409,8 @@ def test_any_box_tiles_and_matches_roark_less_its_corners(fore_aft, share, wall_
     if t <= allowance + 0.5:
         return
     r = round_share * (t - allowance)
-    depth = depth_share * t if rebated else None
-    sec = evaluate_box("rebated" if rebated else "sides-between-faces", fore_aft, athwartships, t, allowance, r,
-                       depth)
+    depth = depth_share * t if corner != "sides-between-faces" else None
+    sec = evaluate_box(corner, fore_aft, athwartships, t, allowance, r, depth)
     polys = [Polygon(o) for o in sec.outlines]
     ox, oy = fore_aft / 2 + allowance, athwartships / 2 + allowance
     ring = box(-ox, -oy, ox, oy).difference(box(-ox + t, -oy + t, ox - t, oy - t))

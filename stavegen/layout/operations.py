@@ -348,22 +348,25 @@ def box_steps(spar: Spar, plan: StavePlan, m: Machining) -> list[Step]:
     """The order of operations for a box spar: rip and plane the pieces, a face's rebates on the table saw (the
     passes read off the blank, :mod:`.machining`), taper, glue, plane the outside, round the corners."""
     h = spar.hollow
-    rebated = h.corner == "rebated"
+    rebated = h.corner == "rebated"  # both edges of a face
+    pinwheel = h.corner == "pinwheel"  # edge 1 of every piece
     out = [Step("rip", "Rip each segment from its board where the cutting diagrams put it, at its rough width "
                        "(cut list)."),
            Step("thickness", "Plane every segment to {thickness} thick, faces flat and parallel.",
                 (Figure("thickness", max(st.thickness for st in plan.stations), "dress"),)),
            Step("edge", "Joint edge 1 of each segment straight and square to the faces: the taper comes off edge 2.")]
     faces = [s for s in m.segments if s.settings.saw]
-    if rebated and faces:
-        out.append(Step("blank", "Rip edge 2 of each face segment (staves 2 and 4) parallel to edge 1, each to its "
-                                 "blank width (cut list; {widest} for the widest), the kerf outside the blank.",
+    if (rebated or pinwheel) and faces:
+        which = "every segment" if pinwheel else "each face segment (staves 2 and 4)"
+        out.append(Step("blank", f"Rip edge 2 of {which} parallel to edge 1, each to its blank width (cut list; "
+                                 "{widest} for the widest), the kerf outside the blank.",
                         (Figure("widest", max(s.blank.width for s in faces), "dress"),)))
         saw = faces[0].settings.saw
         for k, p in enumerate(saw, start=1):
             rest = ": it frees the waste" if k == len(saw) else ""
             step = _pass_step(k, p, rest)
-            out.append(Step(step.action, "Faces only, the rebate along edge 1. " + step.text, step.figures))
+            lead = "Every piece" if pinwheel else "Faces only"
+            out.append(Step(step.action, f"{lead}, the rebate along edge 1. " + step.text, step.figures))
     if spar.stock.scarf_ratio and any(len(s) > 1 for s in plan_staves(m)):
         out.append(Step("scarf", "Cut the scarfs, {ratio}:1, each {length} long, and glue each piece's segments end "
                                  "to end, the edge 1s on one straight line.",
@@ -377,10 +380,13 @@ def box_steps(spar: Spar, plan: StavePlan, m: Machining) -> list[Step]:
         out.append(Step("rebate", "Cut the rebate along each face's tapered edge 2 with the same two set-ups, edge 2 "
                                   "where edge 1 was (against the fence, then down on the table): the passes are "
                                   "set from the edge they rebate, so the rebate follows the taper."))
-    out.append(Step("places", "The faces (staves 2 and 4: fore and aft, as wide as the spar athwartships) and the "
+    wide = "" if pinwheel else ", as wide as the spar athwartships"
+    out.append(Step("places", f"The faces (staves 2 and 4: fore and aft{wide}) and the "
                               "sides (staves 1 and 3: port and starboard) differ: mark every piece with its number "
                               "and lay it in its place as the report's section drawing shows"
                               + (", each side's edges in the faces' rebates." if rebated
+                                 else ", each piece's edge 2 in the next piece's rebate, round the section "
+                                      "(counter-clockwise looking from the heel)." if pinwheel
                                  else ", the sides' edges between the faces.")))
     out.append(Step("dry fit", "Dry-fit the four pieces round the plugs (plugs table) with clamps, the box square; "
                                "mark the stations across them."))

@@ -78,7 +78,10 @@ class Layout:
         box = None
         if self.box_corner is not None:  # kind 1 the faces (rebated or not), kind 0 the sides
             face = "rebated face" if self.box_corner == "rebated" else "face"
-            box = {k: (face if kind == 1 else "side") for k, kind in enumerate(self.kinds, start=1)}
+            side = "side"
+            if self.box_corner == "pinwheel":  # every piece rebated along edge 1 only
+                face, side = "face rebated on edge 1", "side rebated on edge 1"
+            box = {k: (face if kind == 1 else side) for k, kind in enumerate(self.kinds, start=1)}
         return make_templates(self.staves, self.scarfs.centres, self.plan.taper,
                               notched=self.plan.stations[0].notch_depth is not None, box=box)
 

@@ -37,6 +37,7 @@ from . import schema
 from .spar import (
     AUTO,
     BOX_PIECES,
+    REBATED_CORNERS,
     MAX_STAVES,
     MIN_STAVES,
     WALL_SOLVES,
@@ -634,16 +635,16 @@ def _box_checks(t: _Table, hollow: Hollow, units: str) -> None:
     of the side)."""
     wall = hollow.wall
     if not isinstance(wall, Profile):
-        if hollow.corner == "rebated" and hollow.rebate_depth is None:
+        if hollow.corner in REBATED_CORNERS and hollow.rebate_depth is None:
             return
         least = None
     else:
         least = wall.smallest
-    if hollow.corner != "rebated" and t.has("rebate_depth"):
-        raise t.fail("rebate_depth", 'is for corner = "rebated"')
+    if hollow.corner not in REBATED_CORNERS and t.has("rebate_depth"):
+        raise t.fail("rebate_depth", 'is for corner = "rebated" or "pinwheel"')
     if least is None:
         return
-    if hollow.corner == "rebated" and hollow.rebate_depth is not None and hollow.rebate_depth >= least:
+    if hollow.corner in REBATED_CORNERS and hollow.rebate_depth is not None and hollow.rebate_depth >= least:
         raise InputError("a rebate {depth} deep is not less than the wall ({wall}): the face would be cut through",
                          t.key("rebate_depth"), units=units,
                          figures={"depth": length_figure(hollow.rebate_depth), "wall": length_figure(least)})

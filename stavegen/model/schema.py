@@ -317,8 +317,13 @@ HOLLOW = Table("hollow", "The stave-built spar you will make.", required=True, s
                                  "rebate as wide as the wall (the side's thickness) and `rebate_depth` deep into "
                                  "the face, so a side is the spar fore-and-aft less two walls plus two rebate "
                                  "depths wide; the rebates are cut on the table saw (two passes each) and "
-                                 "locate the sides in the glue-up"}),
-    Key("rebate_depth", "length", "a rebated box's rebate depth into the face's thickness",
+                                 "locate the sides in the glue-up",
+                      "pinwheel": "the square birdsmouth: every piece rebated along one edge (edge 1, the "
+                                  "straight one), `rebate_depth` deep and a wall wide, the next piece's square edge "
+                                  "in it, round the section; a piece covers the corner at its rebated edge, so a "
+                                  "side is the spar fore-and-aft less a wall plus a rebate depth wide and a face the "
+                                  "spar athwartships less the same; one rebate per piece, cut before the taper"}),
+    Key("rebate_depth", "length", "a rebated or pinwheel box's rebate depth into the piece's thickness",
         default=Words("half the wall"), field="rebate_depth", aside=_u('"3/8"', "9"),
         note="Less than the wall: the face keeps the rest of its thickness over the side's edge."),
     Key("corner_radius", "length", "a box spar's finished outside corners rounded to this radius",

@@ -21,8 +21,10 @@ AUTO_TAPERED = "auto-tapered"
 WALL_SOLVES = (AUTO, AUTO_TAPERED)  # hollow.wall strings the sizing step solves for
 JOINTS = ("birdsmouth-flush", "birdsmouth-centered", "birdsmouth-custom", "bevel", "box")
 # How a box spar's four pieces meet at the corners (hollow.corner): the sides (port and starboard) glued between
-# the faces (fore and aft), or set into a rebate along each edge of the faces.
-CORNERS = ("sides-between-faces", "rebated")
+# the faces (fore and aft), set into a rebate along each edge of the faces, or each piece rebated along one edge
+# with the next piece's square edge in it, round the section (the square birdsmouth: a 4-stave V is a rebate).
+CORNERS = ("sides-between-faces", "rebated", "pinwheel")
+REBATED_CORNERS = ("rebated", "pinwheel")  # the corners whose pieces carry rebates (hollow.rebate_depth)
 BOX_PIECES = 4  # a box spar: two faces and two sides
 TAPERS = ("square-edge", "symmetric")
 # How the notch is cut when the wall tapers: once, on staves of the thickest wall ("thickest-wall"), or
@@ -239,7 +241,7 @@ class Hollow:
     corner_radius: float = 0.0
     """A box spar's finished outside corners rounded to this radius (mm); 0: sharp."""
     rebate_depth: float | None = None
-    """A rebated box's rebate depth into the face's thickness (mm); None: half the wall."""
+    """A rebated (or pinwheel) box's rebate depth into the piece's thickness (mm); None: half the wall."""
 
     @property
     def is_box(self) -> bool:

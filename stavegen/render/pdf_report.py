@@ -509,6 +509,8 @@ def _oval_section_drawing(r: Report, check: StationCheck) -> list:
                            f"{r.fig.mark_width(kind.width)} wide" for kind in sec.kinds)
         joined = ("the sides set into a rebate along each edge of the faces, "
                   f"{r.fig.dress(sec.rebate_depth)} deep" if sec.corner == "rebated"
+                  else "each piece rebated along edge 1, "
+                  f"{r.fig.dress(sec.rebate_depth)} deep, the next piece's edge 2 in it" if sec.corner == "pinwheel"
                   else "the sides glued between the faces")
         notes[:5] = [
             f"a box of 4 pieces, {joined}; finished {r.fig.dress(sec.fore_aft)} fore-and-aft by "
@@ -673,8 +675,12 @@ def _stave_detail(r: Report, sec: Section) -> list:
     elif sec.joint == "box":
         if sec.rebate is not None:
             depth, across = sec.rebate
-            notes.append(f"A face: square edges, a rebate along each edge of its inner side {r.fig.dress(across)} "
-                         f"wide and {r.fig.dress(depth)} deep, where a side's edge sits.")
+            if sec.assembled.corner == "pinwheel":
+                notes.append(f"Square edges, a rebate along edge 1 (left) of its inner side {r.fig.dress(across)} "
+                             f"wide and {r.fig.dress(depth)} deep, where the next piece's edge 2 sits.")
+            else:
+                notes.append(f"A face: square edges, a rebate along each edge of its inner side "
+                             f"{r.fig.dress(across)} wide and {r.fig.dress(depth)} deep, where a side's edge sits.")
         else:
             notes.append("Square edges, planed to thickness and ripped to width: no notch, bevel or rebate.")
     else:
@@ -1154,10 +1160,17 @@ def _box_cutter_settings(r: Report, m) -> list:
                               "to width (cut list, templates); no notch, bevel or rebate is cut."), "small"),
                       Spacer(1, 6)]
     widest = max(faces, key=lambda s: s.blank.width)
-    text = ("The rebate along each edge of a face's inner side, cut on the table saw in two passes set from the edge "
-            "it rebates: the same set-ups for every face segment and for both edges (edge 2's once it is tapered). "
-            f"{FENCE_NOTE} {GUARD_NOTE}")
-    rows = [[r.p(r.t("setting"), "head"), r.p(r.t(f"face segment {widest.label} (every face alike)"), "head")]]
+    if r.spar.hollow.corner == "pinwheel":
+        text = ("The rebate along edge 1 of every piece's inner side, cut on the table saw in two passes set from the "
+                f"edge it rebates: the same set-ups for every segment, sides and faces alike. {FENCE_NOTE} "
+                f"{GUARD_NOTE}")
+        head = f"segment {widest.label} (every piece alike)"
+    else:
+        text = ("The rebate along each edge of a face's inner side, cut on the table saw in two passes set from the "
+                "edge it rebates: the same set-ups for every face segment and for both edges (edge 2's once it is "
+                f"tapered). {FENCE_NOTE} {GUARD_NOTE}")
+        head = f"face segment {widest.label} (every face alike)"
+    rows = [[r.p(r.t("setting"), "head"), r.p(r.t(head), "head")]]
     heading_rows = []
     for row in cutter_rows(r.fig, widest.settings):
         style = "head" if row.heading else "cell"

@@ -40,6 +40,9 @@ def edge_names(t: Template) -> tuple[str, str]:
     if t.box_piece == "rebated face":
         return (f"EDGE 1 {straight}: square, rebated along the inner side",
                 "EDGE 2 (tapered): square, rebated along the inner side once tapered")
+    if t.box_piece is not None and t.box_piece.endswith("rebated on edge 1"):
+        return (f"EDGE 1 {straight}: square, rebated along the inner side",
+                "EDGE 2 (tapered): square, into the next piece's rebate")
     if t.box_piece is not None:
         return f"EDGE 1 {straight}: square", "EDGE 2 (tapered): square"
     if not t.notched:

@@ -13,6 +13,10 @@ rectangle (planed off after the glue-up, as a round's staves are rounded); the s
   a side 2·(a + allowance − t);
 - ``rebated``: along each edge of a face's inner side a rebate ``rebate_depth`` (d) deep into the face and
   t wide (the side's thickness) takes the side's edge; a side is 2·(a + allowance − t + d) wide.
+- ``pinwheel`` (the square birdsmouth): every piece covers the corner at its edge 1, rebated there d deep and t
+  wide on its inner side; the next piece round (counter-clockwise looking from the heel) has its square edge 2 in
+  that rebate. A piece whose neighbours' outer faces lie p from the axis is 2p − t + d wide, and the section
+  turns into itself by half a turn (pieces 0 and 2 alike, 1 and 3 alike) though not by a mirror.
 
 The bore is the rectangle 2·(a + allowance − t) × 2·(b + allowance − t). The pieces tile the outer rectangle
 less the bore exactly, so the finished wall is the rounded rectangle less the bore, in closed form (Roark,
@@ -40,7 +44,8 @@ from .staves import INTERFERENCE_TOLERANCE, StaveFrame
 PIECES = 4
 SIDE, FACE = 0, 1  # the kinds: sides (port and starboard), faces (fore and aft)
 KIND_NAMES = ("side", "face")
-SIDES_BETWEEN_FACES, REBATED = "sides-between-faces", "rebated"
+SIDES_BETWEEN_FACES, REBATED, PINWHEEL = "sides-between-faces", "rebated", "pinwheel"
+WITH_REBATES = (REBATED, PINWHEEL)
 
 
 def rounded_rectangle_points(half_x: float, half_y: float, corner: float, per_quarter: int = 24
@@ -228,7 +233,7 @@ class BoxSection:
     @property
     def rebate(self) -> tuple[float, float] | None:
         """(depth into the face, width across it) of the faces' rebates, mm; None with sides between faces."""
-        return (self.rebate_depth, self.thickness) if self.corner == REBATED else None
+        return (self.rebate_depth, self.thickness) if self.corner in WITH_REBATES else None
 
     @cached_property
     def kinds(self) -> tuple[StaveKind, ...]:
@@ -245,7 +250,7 @@ class BoxSection:
                        outer_apothem=self.outer_apothems[j], stave_width=self.widths[j], notch=None,
                        frame=self.frames[j], stave_outline=self.local_outlines[j], wall=Moments(), bore=Moments(),
                        voids=Moments(), overlap=self.overlap, glue_line=self.glue_line, whole=self,
-                       rebate=self.rebate if j == FACE else None)
+                       rebate=self.rebate if (j == FACE or self.corner == PINWHEEL) else None)
 
     def placed_rings(self) -> list[list[tuple[float, float]]]:
         return [list(o) for o in self.outlines]
@@ -285,7 +290,15 @@ def piece_outlines(corner: str, outer_x: float, outer_y: float, thickness: float
     """Each piece in its own frame (x along its face, y outward from the axis), counter-clockwise, and its width.
 
     Pieces 0 and 2 are sides (outer face at ``outer_y``), 1 and 3 faces (outer face at ``outer_x``)."""
-    t, d = thickness, rebate_depth if corner == REBATED else 0.0
+    t, d = thickness, rebate_depth if corner in WITH_REBATES else 0.0
+    if corner == PINWHEEL:  # x from edge 1 (the corner covered, rebated) to edge 2 (in the next piece's rebate)
+        def piece(own: float, across: float) -> list[tuple[float, float]]:
+            inner, left, right = own - t, -across, across - t + d
+            return [(left + t, inner), (right, inner), (right, own), (left, own), (left, inner + d),
+                    (left + t, inner + d)]
+        side, face = piece(outer_y, outer_x), piece(outer_x, outer_y)
+        ws, wf = 2 * outer_x - t + d, 2 * outer_y - t + d
+        return [side, face, side, face], [ws, wf, ws, wf]
     side_half = outer_x - t + d
     side = [(-side_half, outer_y - t), (side_half, outer_y - t), (side_half, outer_y), (-side_half, outer_y)]
     inner = outer_x - t
@@ -310,11 +323,11 @@ def evaluate_box(corner: str, fore_aft: float, athwartships: float, thickness: f
     a, b = fore_aft / 2, athwartships / 2
     t = thickness
     ox, oy = a + planing_allowance, b + planing_allowance
-    d = (t / 2 if rebate_depth is None else rebate_depth) if corner == REBATED else 0.0
+    d = (t / 2 if rebate_depth is None else rebate_depth) if corner in WITH_REBATES else 0.0
     if min(ox, oy) - t <= 0:
         raise DesignError(f"wall {show(t)} is too thick for the bore{at}: the faces or the sides would meet",
                           "hollow.wall")
-    if corner == REBATED and not 0 < d < t:
+    if corner in WITH_REBATES and not 0 < d < t:
         raise DesignError(f"a rebate {show(d)} deep does not fit a face {show(t)} thick{at}", "hollow.rebate_depth")
     finished = t - planing_allowance
     if finished <= 0:
@@ -326,7 +339,8 @@ def evaluate_box(corner: str, fore_aft: float, athwartships: float, thickness: f
     thetas = [normal_angle(PIECES, k) for k in range(PIECES)]
     outlines = [tuple(_to_axis(ring, th)) for ring, th in zip(local, thetas)]
     outer = [oy, ox, oy, ox]
-    frames = [StaveFrame(-w / 2, w / 2, o - t, o, None) for w, o in zip(widths, outer)]
+    frames = [StaveFrame(min(x for x, _ in ring), max(x for x, _ in ring), o - t, o, None)
+              for ring, o in zip(local, outer)]
     polys = [orient(Polygon(o), 1.0) for o in outlines]
     overlap = max(polys[i].intersection(polys[j]).area for i in range(PIECES) for j in range(i + 1, PIECES))
     if overlap > INTERFERENCE_TOLERANCE * min(p.area for p in polys):
@@ -348,5 +362,5 @@ def union_area(section: BoxSection) -> float:
     return float(shapely.union_all([Polygon(o) for o in section.outlines]).area)
 
 
-__all__ = ["BoxSection", "FACE", "KIND_NAMES", "PIECES", "REBATED", "SIDE", "SIDES_BETWEEN_FACES", "evaluate_box",
+__all__ = ["BoxSection", "FACE", "KIND_NAMES", "PIECES", "PINWHEEL", "REBATED", "SIDE", "SIDES_BETWEEN_FACES", "evaluate_box",
            "piece_outlines", "rounded_rectangle_points", "union_area"]

@@ -67,7 +67,7 @@ def box_wall_range(spar: Spar, z: float) -> tuple[float, str, float]:
     athwartships = fore_aft * athwartships_share(spar, z)
     keep = max(h.corner_radius, h.min_corner_wall or 0.0)
     thinnest = h.planing_allowance + keep + BORE_CLEARANCE
-    if h.corner == "rebated" and h.rebate_depth is not None:
+    if h.corner in ("rebated", "pinwheel") and h.rebate_depth is not None:
         thinnest = max(thinnest, h.rebate_depth * (1 + 1e-9))
     thinnest = max(thinnest, 1e-6)
     by = CORNER_MINIMUM if h.min_corner_wall and h.min_corner_wall >= h.corner_radius else BOX_CORNERS
