@@ -34,7 +34,7 @@ import math
 import pytest
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
-from shapely.affinity import translate
+from shapely.affinity import scale, translate
 from shapely.geometry import Polygon, box
 
 from stavegen.pipeline import design
@@ -84,9 +84,10 @@ def blade_in_saw_frame(p: dict, below: float) -> tuple[Polygon, tuple[float, flo
     return slab, away
 
 
-def saw(blank: tuple[float, float], passes: list[dict]) -> Polygon:
-    """Run the passes, in order, on the blank; the piece the builder keeps."""
-    stock = box(0.0, 0.0, *blank)
+def saw(blank: tuple[float, float], passes: list[dict], stock: Polygon | None = None) -> Polygon:
+    """Run the passes, in order, on the blank (or on ``stock``, a piece already cut from it); the piece the builder
+    keeps."""
+    stock = box(0.0, 0.0, *blank) if stock is None else stock
     big = 10 * sum(blank)
     for p in passes:
         slab, away = blade_in_saw_frame(p, big)
@@ -165,8 +166,15 @@ def replay_matches(d, doc) -> list[str]:
         assert at["thickness_mm"] == pytest.approx(section.thickness, abs=1e-9)
         model = model_stave(section)
         if at["table_saw"]:
-            got = taper(saw(blank, at["table_saw"]), section.stave_width, blank[1], section.staves,
-                        section.notch is not None)
+            if section.joint == "box":  # a box's piece: edge 2 ripped square to its width
+                got = saw(blank, at["table_saw"]).intersection(box(-1.0, -1.0, section.stave_width, blank[1] + 1.0))
+                if section.assembled.corner == "rebated":  # a face: edge 2 rebated the same way once tapered
+                    w = section.stave_width
+                    turned = scale(got, xfact=-1.0, origin=(w / 2, 0.0))  # end for end: edge 2 where edge 1 was
+                    got = scale(saw((w, blank[1]), at["table_saw"], turned), xfact=-1.0, origin=(w / 2, 0.0))
+            else:
+                got = taper(saw(blank, at["table_saw"]), section.stave_width, blank[1], section.staves,
+                            section.notch is not None)
             off = got.symmetric_difference(model).area / model.area
             if off > TOLERANCE:
                 problems.append(f"{name}: table saw off by {off:.3g} of the stave")
