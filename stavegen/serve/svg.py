@@ -135,7 +135,8 @@ def section_svg(spar: Spar, station: Station) -> str:
         body.append(f'<circle class="sheathing" cx="0" cy="0" r="{_num(station.diameter / 2)}" fill="none" '
                     f'stroke="#4a8a4a" stroke-width="{_num(line * 1.6)}"/>')
     if oval:
-        words = (f"{n} staves, {fig.dress(sec.fore_aft)} fore-and-aft (across) by {fig.dress(sec.athwartships)} "
+        pieces = "a box of 4 pieces" if sec.joint == "box" else f"{n} staves"
+        words = (f"{pieces}, {fig.dress(sec.fore_aft)} fore-and-aft (across) by {fig.dress(sec.athwartships)} "
                  f"athwartships, wall {fig.dress(station.wall)}" + (", plugged" if plug else ""))
         plan_words = (f"plan (dashed, {spar.plan.shape}): {format_length(station.plan_diameter, units)} by "
                       f"{format_length(station.plan_athwart, units)}")
@@ -209,6 +210,9 @@ def stave_svg(spar: Spar, sec: Section) -> str:
                           f"notch {fig.notch_depth(sec.notch.depth)} deep, apex "
                           f"{fig.apex_height(sec.notch.apex_height)} up", size * 0.9, anchor="start",
                           fill="#c2410c"))
+    elif sec.joint == "box":  # a box's piece: square edges, a rebate where the corner joint has one
+        said = "square edges" + (f", rebated {fig.dress(sec.rebate[0])} deep" if sec.rebate else "")
+        body.append(_text((minx + maxx) / 2, -frame.outer - size * 0.6, said, size * 0.9, fill="#c2410c"))
     else:
         body.append(_text((minx + maxx) / 2, -frame.outer - size * 0.6,
                           f"edges bevelled {sec.bevel_angle:.2f}° off square", size * 0.9, fill="#c2410c"))
