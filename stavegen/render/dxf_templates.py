@@ -427,6 +427,10 @@ class TemplateSheet:
             caption += [f"notch edge at left: V {self.fig.notch_depth(section.notch.depth)} deep, "
                         f"apex {self.fig.apex_height(section.notch.apex_height)} up",
                         f"V faces {a:.2f} and {b:.2f} deg to the broad face"]
+        elif section.joint == "box":
+            caption += ["edges square" + (f", rebated {self.fig.dress(section.rebate[0])} deep and "
+                                          f"{self.fig.dress(section.rebate[1])} wide on the inner side"
+                                          if section.rebate else "")]
         else:
             caption += [f"edges bevelled {section.bevel_angle:.2f} deg off square"]
         return draw, (min(xs), min(ys), max(xs), max(ys)), caption
@@ -448,6 +452,16 @@ class TemplateSheet:
             else:
                 self.pen.circle(offset, section.radius, "END-ROUND")
 
+        if oval and section.joint == "box":
+            caption = [f"ASSEMBLED at the {what}, {self.pos(z)} from the heel",
+                       f"a box of 4 pieces ({section.corner}), {self.size(section.across_flats)} by "
+                       f"{self.size(section.across_flats_athwartships)} before planing",
+                       f"finished {self.fig.dress(section.fore_aft)} fore-and-aft (across the sheet) by "
+                       f"{self.fig.dress(section.athwartships)} athwartships"
+                       + (f", corners rounded {self.fig.dress(section.corner_radius)}" if section.corner_radius
+                          else ""),
+                       "pieces 1 and 3 the sides, 2 and 4 the faces (piece 1 at the top)"]
+            return draw, (-reach, -reach, reach, reach), caption
         if oval:
             caption = [f"ASSEMBLED at the {what}, {self.pos(z)} from the heel",
                        f"{n} staves, {self.size(section.across_flats)} by "
