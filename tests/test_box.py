@@ -250,6 +250,8 @@ def test_box_file_reads():
     ({"hollow": {"corner": "rebated", "rebate_depth": 16}}, "hollow.rebate_depth", "not less than the wall"),
     ({"hollow": {"rebate_depth": 6}}, "hollow.rebate_depth", 'corner = "rebated"'),
     ({"hollow": {"corner": "mitred"}}, "hollow.corner", "sides-between-faces"),
+    ({"hollow": {"notch_cut": "follow-wall"}}, "hollow.notch_cut", "thickest wall"),
+    ({"hollow": {"staves": "auto"}}, "hollow.staves", "4 pieces"),
 ])
 def test_bad_box_input_names_the_key(change, key, words):
     with pytest.raises(InputError) as caught:

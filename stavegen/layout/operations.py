@@ -392,8 +392,11 @@ def box_steps(spar: Spar, plan: StavePlan, m: Machining) -> list[Step]:
                                "mark the stations across them."))
     out.append(Step("glue", "Glue up, following the glue maker's instructions; check the spar straight and square "
                             "before the glue sets."))
+    tapered = "" if h.wall.is_constant else (
+        ", and where the wall is thinner than the pieces (a tapered wall is the bore's) what stands over it")
     out.append(Step("plane", "Plane the outside flat and the corners square to the finished dimensions at each "
-                             "station (station table): the planing allowance, {allowance} a side, comes off.",
+                             "station (station table): the planing allowance, {allowance} a side, comes off"
+                             + tapered + ".",
                     (Figure("allowance", h.planing_allowance, "describe"),)))
     if h.corner_radius > 0:
         out.append(Step("round", "Round the four outside corners to a {radius} radius (a round-over bit or a "

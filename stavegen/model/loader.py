@@ -633,6 +633,9 @@ def _box_checks(t: _Table, hollow: Hollow, units: str) -> None:
     """A box's rebate and corner rounding against its wall (when the wall is given): the rebate shallower than the
     wall, the rounding no larger than the finished wall (so it stays in the face's corner, clear of the bore and
     of the side)."""
+    if hollow.notch_cut == "follow-wall":
+        raise t.fail("notch_cut", 'is for a notch; a box\'s pieces are dressed to the thickest wall, its taper the '
+                                  'bore\'s (leave notch_cut out)')
     wall = hollow.wall
     if not isinstance(wall, Profile):
         if hollow.corner in REBATED_CORNERS and hollow.rebate_depth is None:
