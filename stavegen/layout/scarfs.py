@@ -40,6 +40,7 @@ machine.
 
 from __future__ import annotations
 
+import bisect
 import itertools
 import math
 from dataclasses import dataclass
@@ -298,26 +299,43 @@ class ScarfChoice:
     aim: ScarfAim | None
 
 
+def _interp(x: float, xp: list[float], fp: list[float]) -> float:
+    """``numpy.interp`` for one value, in plain Python (the same formula, so the same figure to the last bit):
+    a scalar lookup without numpy's per-call cost, which aiming pays tens of thousands of times."""
+    if x <= xp[0]:
+        return fp[0]
+    if x >= xp[-1]:
+        return fp[-1]
+    j = bisect.bisect_right(xp, x) - 1
+    slope = (fp[j + 1] - fp[j]) / (xp[j + 1] - xp[j])
+    value = slope * (x - xp[j]) + fp[j]
+    return value if value == value else slope * (x - xp[j + 1]) + fp[j + 1]  # numpy's fallback for a NaN
+
+
 class _Geometry:
     """Face lengths and rip widths of stave pieces, read off the stave plan (straight between stations)."""
 
     def __init__(self, plan: StavePlan, rough: Callable[[float], float] | None = None) -> None:
-        self.z = np.array([st.z for st in plan.stations])
-        self.s = np.array([st.s for st in plan.stations])
-        self.width = np.array([st.width for st in plan.stations])
+        self.z = [float(st.z) for st in plan.stations]
+        self.s = [float(st.s) for st in plan.stations]
+        self.width = [float(st.width) for st in plan.stations]
         self.rough = rough or (lambda widest: widest + 2 * plan.edge_allowance)
+        self._pieces: dict[tuple[float, float], tuple[float, float]] = {}
 
     def s_at(self, z: float) -> float:
-        return float(np.interp(z, self.z, self.s))
+        return _interp(z, self.z, self.s)
 
     def z_at(self, s: float) -> float:
-        return float(np.interp(s, self.s, self.z))
+        return _interp(s, self.s, self.z)
 
     def piece(self, a: float, b: float) -> tuple[float, float]:
-        """(face length, rip width) of the stave from z = a to b."""
-        inside = self.width[(self.z > a) & (self.z < b)]
-        ends = np.interp([a, b], self.z, self.width)
-        return self.s_at(b) - self.s_at(a), self.rough(float(max(ends.max(), inside.max(initial=0.0))))
+        """(face length, rip width) of the stave from z = a to b (remembered: placements share pieces)."""
+        found = self._pieces.get((a, b))
+        if found is None:
+            inside = self.width[bisect.bisect_right(self.z, a):bisect.bisect_left(self.z, b)]
+            widest = max(_interp(a, self.z, self.width), _interp(b, self.z, self.width), *inside, 0.0)
+            found = self._pieces[(a, b)] = (self.s_at(b) - self.s_at(a), self.rough(widest))
+        return found
 
 
 def _adjacent(phases: int) -> list[tuple[int, int]]:
@@ -335,6 +353,7 @@ class _Aim:
         self.half = rules.length / 2
         self.gap = rules.length + rules.stagger
         self._orders: dict[tuple, LumberOrder] = {}
+        self.solved: dict | None = None  # the layout's cutting problems solved so far (lumber.order_lumber)
 
     # -- rules --
 
@@ -405,22 +424,27 @@ class _Aim:
         pieces = self.pieces(centres, phases)
         key = (work, tuple(sorted((p.width, p.length) for p in pieces)))
         if key not in self._orders:
-            self._orders[key] = order_lumber(pieces, self.stock, units=self.rules.units, work=work)
+            self._orders[key] = order_lumber(pieces, self.stock, units=self.rules.units, work=work,
+                                             solved=self.solved)
         return self._orders[key]
 
 
 def aim_scarfs(plan: StavePlan, spar_length: float, staves: int, rules: ScarfRules, stock: Stock,
-               work: AimWork = AIM, rough: Callable[[float], float] | None = None) -> ScarfChoice:
+               work: AimWork = AIM, rough: Callable[[float], float] | None = None,
+               solved: dict | None = None) -> ScarfChoice:
     """Scarfs that keep every rule and need the fewest board feet of the placements tried (see the module).
 
     ``plan`` is the stave before its segments are cut (its stations give face lengths and widths);
     ``rough(widest)`` is a segment's rip width from its widest finished width (default: an edge allowance on
-    each edge). Raises DesignError as :func:`place_scarfs` does when no placement keeps the rules.
+    each edge). ``solved``: the layout's cutting problems solved so far, shared with its other lumber orders
+    (:func:`~stavegen.layout.lumber.order_lumber`). Raises DesignError as :func:`place_scarfs` does when no
+    placement keeps the rules.
     """
     base = place_scarfs(plan.start, plan.end, plan.cut_length, spar_length, staves, rules)
     if base.count == 0:
         return ScarfChoice(base, base, None)
     aim = _Aim(_Geometry(plan, rough), plan.start, plan.end, spar_length, rules, stock)
+    aim.solved = solved
     phases = base.phases
     n_phases = max(phases) + 1
     first = {p: phases.index(p) for p in range(n_phases)}
