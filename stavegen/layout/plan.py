@@ -74,7 +74,7 @@ class Layout:
     def templates(self) -> tuple[Template, ...]:
         """Every piece's template (identical pieces share one): what the DXF and the full-size PDF draw."""
         return make_templates(self.staves, self.scarfs.centres, self.plan.taper,
-                              notched=self.plan.stations[0].notch_depth is not None)
+                              notched=self.plan.stations[0].notch_depth is not None, plan_for=self.plan_for)
 
     @cached_property
     def template_of(self) -> dict[str, Template]:

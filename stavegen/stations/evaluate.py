@@ -154,6 +154,24 @@ def _rectangle_ring(staves: int, width: float, bottom: float, top: float) -> Mom
     return Moments(staves * width * h, 0.0, 0.0, half, half, 0.0)
 
 
+def _groove_cover(staves: int, radius: float, width: float, top: float) -> Moments:
+    """What a groove takes out over its strip, in every stave: [−w/2, w/2] × [top, ∞) inside the round of
+    ``radius`` (the sliver between the strip's top and the round, cut away with the groove), exact for the
+    polygon clipped by the disc, turned by 2π/N (isotropic, as :func:`_rectangle_ring`)."""
+    from ..section.integrals import polygon_in_disc_moments
+
+    w = width / 2
+    one = polygon_in_disc_moments([[(-w, top), (w, top), (w, radius + 1.0), (-w, radius + 1.0)]], radius)
+    half = staves * one.polar / 2
+    return Moments(staves * one.area, 0.0, 0.0, half, half, 0.0)
+
+
+def cover_centre(radius: float, width: float, top: float) -> float:
+    """Roughly where the sliver over a grooved strip lies from the axis (mm): between the strip's top and the
+    round, for the plastic modulus (a point at its centroid, as the strips are taken)."""
+    return (top + radius) / 2
+
+
 def _ring_abs_y(staves: int, area: float, centre: float) -> float:
     """∫|y| dA of N small pieces of ``area`` at ``centre`` mm from the axis on each stave's axis (the diameter
     through stave 0's middle, as the wall's plastic modulus is taken): the pieces as points at their centroids."""
@@ -212,9 +230,11 @@ def regions_at(spar: Spar, section: Section, plug: Plug | None, z: float | None 
         bottom, top = strip_span(strip, n, section.radius, section.inner_apothem, where(spar, z), spar.units)
         ring = _rectangle_ring(n, strip.width, bottom, top)
         cut = _ring_abs_y(n, strip.width * (top - bottom), (top + bottom) / 2)
-        if strip.place == "groove":
-            wall, z_wall = wall - ring, z_wall - cut
-            grooved.append((strip.width, bottom, top))
+        if strip.place == "groove":  # the groove is cut from the outer face: no wood over the strip either
+            cover = _groove_cover(n, section.radius, strip.width, top)
+            wall = wall - ring - cover
+            z_wall = z_wall - cut - _ring_abs_y(n, cover.area / n, cover_centre(section.radius, strip.width, top))
+            grooved.append((strip.width, bottom, section.radius + 1.0))
         else:
             bore, z_bore = bore - ring, z_bore - cut
             in_bore.append((strip.width, bottom, top))
