@@ -3,8 +3,8 @@
 It edits the wall and the stave count and sees the verdict and the section drawing follow, enters a
 bad value and sees the command line's message beside the field (and nothing else change), downloads
 the spar file and the zip, and compares the zip with a command-line build of the downloaded file.
-It also measures how long the page takes to update after a keystroke on each sample (printed, never
-asserted: speed targets live in benchmarks/).
+It also loads every sample and types into two of them; how long an update takes is measured by
+benchmarks/bench_page.py (speed targets live in benchmarks/, never in tests).
 
 Skipped only where Chromium is missing and CI is unset; .ci/run installs Chromium and sets CI.
 """
@@ -13,7 +13,6 @@ from __future__ import annotations
 
 import json
 import os
-import statistics
 import time
 import tomllib
 import zipfile
@@ -211,34 +210,29 @@ def test_page_follows_the_edits_and_builds_what_the_cli_builds(page, run, tmp_pa
     compare_counts_as_the_cli(page, run)
 
 
-def test_keystroke_to_update_on_each_sample(page, record_property, capsys):
-    """Type into the margin field of each bundled sample, one key at a time, and time the page's update
-    (the page measures from the keystroke, its 250 ms pause for more typing included, to the last drawing)."""
+def test_every_sample_loads_and_follows_typing(page):
+    """Each bundled sample chosen on the page gives its verdict and section; on a round and an oval sample
+    the margin field is typed into one key at a time and the page takes every value. (How long each update
+    takes is measured by benchmarks/bench_page.py, never asserted here.)"""
     from selenium.webdriver.support.ui import Select
 
-    found = {}
+    typed = {"daysailer-mast.toml", "sharpie-oval-mast.toml"}
+    assert typed <= {s.name for s in SPAR_SAMPLES}
     for sample in SPAR_SAMPLES:
         before = page.updates()
         Select(page.find("#samples")).select_by_value(sample.name)
         page.settle(before)
         assert page.find("#file-name").text == sample.name
+        assert page.find("#verdict").get_attribute("data-passed") in ("true", "false")
+        assert page.finds("#section-svg path.stave")
+        if sample.name not in typed:
+            continue
         page.type_into('input[data-key="hollow.margin"]', "0.0")
         field = page.find('input[data-key="hollow.margin"]')
-        timings = []
-        for key in "1234":
+        for key in "12":
             before = page.updates()
             field.send_keys(key)
             page.settle(before)
             last = page.driver.execute_script("return window.stavegenTimings[window.stavegenTimings.length - 1]")
             assert last["ok"] is True
-            timings.append((last["afterKeystrokeMs"], last["afterRequestMs"]))
-        assert page.find('input[data-key="hollow.margin"]').get_attribute("value") == "0.01234"
-        found[sample.name] = timings
-    with capsys.disabled():
-        print("\nkeystroke to updated page (ms; median, max; 250 ms of it is the pause for more typing):")
-        for name, timings in found.items():
-            key = [t[0] for t in timings]
-            req = [t[1] for t in timings]
-            print(f"  {name}: after the keystroke {statistics.median(key):.0f}, {max(key):.0f}; "
-                  f"server and drawing {statistics.median(req):.0f}, {max(req):.0f}")
-            record_property(f"keystroke_ms_{name}", [round(k) for k in key])
+        assert page.find('input[data-key="hollow.margin"]').get_attribute("value") == "0.012"

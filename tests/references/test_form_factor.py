@@ -61,7 +61,7 @@ def test_plastic_modulus_against_sectionproperties(kind, n):
     """Z of the finished wall (the smaller of the two diameters stavegen tries) against sectionproperties."""
     sec = evaluate_section(n, Joint(kind), 50.0, 12.0, 1.5)
     staves = shapely.union_all([placed(sec.stave_polygon(), n, k) for k in range(n)], grid_size=1e-6)
-    finished = Point(0, 0).buffer(sec.radius, quad_segs=720).intersection(staves)
+    finished = Point(0, 0).buffer(sec.radius, quad_segs=180).intersection(staves)
     fe = min(_plastic_sp(finished), _plastic_sp(rotate(finished, 180.0 / n, origin=(0, 0))))
     assert sec.plastic_moduli[0] == pytest.approx(fe, rel=2e-4)
 
