@@ -155,3 +155,12 @@ def oval_strip(section, width: float, thickness: float, place: str, at: str = ""
 def groove_cover_moments(strip: OvalStrip, a: float, b: float) -> Moments:
     """What the grooves take out of the wood over the strips (inside the ellipse)."""
     return sum((ring_in_ellipse_moments(r, a, b) for r in strip.covers), Moments())
+
+
+def groove_cover_abs_moment(strip: OvalStrip, a: float, b: float, across: bool) -> float:
+    """∫|x| dA (``across``) or ∫|y| dA of the wood the grooves take over the strips, each piece at its centroid."""
+    total = 0.0
+    for ring in strip.covers:
+        m = ring_in_ellipse_moments(ring, a, b)
+        total += abs(m.qx if across else m.qy)
+    return total

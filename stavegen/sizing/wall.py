@@ -64,8 +64,10 @@ def oval_wall_range(spar: Spar, z: float) -> tuple[float, str, float]:
     from ..section.oval import corner_reach
 
     h = spar.hollow
+    sheath = 2 * h.sheath(z, spar.length) if h.layers else 0.0  # the wood is rounded inside the layers
     fore_aft = float(h.diameter.at(z))
-    athwartships = fore_aft * athwartships_share(spar, z)
+    athwartships = fore_aft * athwartships_share(spar, z) - sheath
+    fore_aft -= sheath
     corner = h.min_corner_wall or 0.0
     thickest = min(fore_aft, athwartships) / 2 * (1 - 1e-9)
 
