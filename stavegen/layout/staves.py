@@ -128,7 +128,7 @@ class StavePlan:
         return 0.0, w
 
 
-def grooves_at(spar: Spar, section, z: float) -> tuple[GrooveAt, ...]:
+def grooves_at(spar: Spar, section, z: float, kind: int = 0) -> tuple[GrooveAt, ...]:
     """The grooves at ``z`` (mm from the heel) in the stave of ``section`` (the wood's, as the regions take it):
     each where :func:`~stavegen.stations.evaluate.strip_span` lays its strip, read in the stave's own frame.
 
@@ -136,7 +136,8 @@ def grooves_at(spar: Spar, section, z: float) -> tuple[GrooveAt, ...]:
     from the axis; the stave's outer face lies at the outer apothem and its notch edge at
     ``frame.x_notch_edge``. So the groove's centre is −x_notch_edge across the face from the notch edge and
     its depth below the outer face a_o − bottom. A groove runs over its strip's range, ends included; none
-    in the end allowances.
+    in the end allowances. On an oval (``section`` one kind's stave of it, ``kind`` its index) the strip lies on
+    the stave's middle in its own frame (:func:`stavegen.section.oval_sheath.oval_strip`).
     """
     from ..stations.evaluate import strip_span, where
 
@@ -150,6 +151,14 @@ def grooves_at(spar: Spar, section, z: float) -> tuple[GrooveAt, ...]:
         lo = 0.0 if strip.start is None else strip.start
         hi = spar.length if strip.end is None else strip.end
         if not lo - 1e-6 <= z <= hi + 1e-6:
+            continue
+        if section.whole is not None:  # one stave of an oval
+            from ..section.oval_sheath import oval_strip
+
+            middle, bottom, _ = oval_strip(section.whole, strip.width, strip.thickness, strip.place, where(spar, z),
+                                           spar.units).spans[kind]
+            out.append(GrooveAt(strip=k, width=strip.width, centre=middle - section.frame.x_notch_edge,
+                                depth=section.outer_apothem - bottom))
             continue
         bottom, _ = strip_span(strip, section.staves, section.radius, section.inner_apothem, where(spar, z),
                                spar.units)
@@ -209,7 +218,7 @@ def stave_plan(spar: Spar, marks: tuple[StationMark, ...], cache: SectionCache, 
             notch_depth=section.notch.depth if section.notch else None,
             apex_height=section.notch.apex_height if section.notch else None,
             reasons=reasons,
-            grooves=grooves_at(spar, section, z),
+            grooves=grooves_at(spar, section, z, kind),
         ))
         previous = (z, section)
     return StavePlan(stations=tuple(stations), taper=hollow.taper, edge_allowance=allowance,

@@ -93,7 +93,8 @@ def oval_regions_at(spar: Spar, section, plug: Plug | None, direction: str = "at
     A RegionSection bends about its horizontal axis (∫y² dA): as drawn, that is bending athwartships; for
     fore-and-aft bending the integrals are turned a quarter (x and y exchanged). Each region's ``reach`` is its
     farthest fibre across that axis (the oval's half-dimension for the staves, the bore's for a plug) and its
-    ``plastic`` the plastic modulus that way; the geometry is the oval's as drawn. ``section`` is the wood's
+    ``plastic`` the plastic modulus that way; the geometry is the oval's as drawn (the staves' and the plug's only
+    for bending athwartships, the layers' and strips' both ways, for drawing). ``section`` is the wood's
     (rounded to the finished oval less the layers at ``z``); the strips in every stave and the layers over the
     wood that cover ``z`` are counted (:mod:`stavegen.section.oval_sheath`); ``z`` None: none.
     """
@@ -120,7 +121,7 @@ def oval_regions_at(spar: Spar, section, plug: Plug | None, direction: str = "at
             z_bore -= made.abs_moment(across)
             in_bore.append(made)
         strip_regions.append(Region(STRIP, strip.material, _turned(ring, across), made.reach(across),
-                                    strip.material.moe, shape=None if across else made.shape, pieces=section.staves,
+                                    strip.material.moe, shape=made.shape, pieces=section.staves,
                                     label=f"strip {h.strips.index(strip) + 1}"))
     regions = [Region(STAVE, wood, _turned(wall, across), a if across else b,
                       h.lamination_factor * wood.moe, plastic=z_wall,
@@ -138,7 +139,7 @@ def oval_regions_at(spar: Spar, section, plug: Plug | None, direction: str = "at
             continue
         made = OvalLayer(a, b, inner, inner + layer.thickness)
         regions.append(Region(LAYER, layer.material, _turned(made.moments, across), made.reach(across),
-                              layer.material.moe, shape=None if across else made.shape, label=f"layer {k + 1}"))
+                              layer.material.moe, shape=made.shape, label=f"layer {k + 1}"))
         inner += layer.thickness
     return section_of(regions, wood.moe)
 
