@@ -11,6 +11,7 @@ from __future__ import annotations
 from dataclasses import dataclass, replace
 from typing import Callable
 
+from .errors import InputError
 from .model.spar import AUTO, WALL_SOLVES, Spar
 from .pipeline import Design, design
 
@@ -22,16 +23,18 @@ class SheathingOption:
     """One option: its name, and the design of the file's spar with only that sheathing."""
 
     name: str
-    design: Design
+    design: Design | None
+    refused: str = ""
+    """Why this option cannot be built (the one line its design raised), when ``design`` is None."""
 
     @property
-    def spar(self) -> Spar:
-        return self.design.spar
+    def spar(self) -> Spar | None:
+        return self.design.spar if self.design is not None else None
 
     @property
-    def mass(self) -> float:
-        """kg, the hollow spar with this option's sheathing."""
-        return self.design.assessment.hollow.mass.mass
+    def mass(self) -> float | None:
+        """kg, the hollow spar with this option's sheathing (None when it cannot be built)."""
+        return self.design.assessment.hollow.mass.mass if self.design is not None else None
 
 
 @dataclass(frozen=True)
@@ -46,8 +49,10 @@ class SheathingComparison:
     def bare(self) -> SheathingOption:
         return self.options[0]
 
-    def saved(self, option: SheathingOption) -> float:
-        """kg ``option`` weighs less than the bare spar (negative when heavier)."""
+    def saved(self, option: SheathingOption) -> float | None:
+        """kg ``option`` weighs less than the bare spar (negative when heavier); None if either cannot be built."""
+        if self.bare.mass is None or option.mass is None:
+            return None
         return self.bare.mass - option.mass
 
 
@@ -75,5 +80,11 @@ def compare_sheathing(spar: Spar, tell: Callable[[str], None] | None = None) -> 
     for name, variant in variants(spar):
         if tell is not None:
             tell(f"sizing the spar {name}" if name != BARE else "sizing the spar bare")
-        options.append(SheathingOption(name, design(variant)))
+        try:
+            options.append(SheathingOption(name, design(variant)))
+        except InputError as exc:  # this option cannot be sized or built: say why in its row
+            exc.in_units(spar.units)
+            options.append(SheathingOption(name, None, f"{exc.key}: {exc.problem}" if exc.key else exc.problem))
+    if all(o.design is None for o in options):  # nothing can be built: the file's own option says why, as check would
+        raise InputError(options[-1].refused).located(spar.source, spar.units)
     return SheathingComparison(tuple(options), leaves_size_auto(spar))

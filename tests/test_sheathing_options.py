@@ -109,3 +109,23 @@ def test_check_lists_the_layers_and_strips_with_what_they_add(run):
     assert f"{rho * volume * 1e-9:.1f} kg" in row
     # What it adds to E·I, least to most over the stations, from the check's own figures.
     assert "+" in row and "%" in row
+
+
+def test_an_option_that_cannot_be_built_says_why_in_its_row(run, tmp_path):
+    """Boards 19 mm thick: the bare spar needs a 19.337 mm wall (measured above), more than the boards give, so
+    its row says why (as `check` on the bare file does); with the cloth (18.255 mm) it can be built."""
+    doc = tomlkit.parse(SAMPLE.read_text(encoding="utf-8"))
+    doc["stock"]["thickness"] = 19
+    thin = tmp_path / "thin.toml"
+    thin.write_text(tomlkit.dumps(doc), encoding="utf-8")
+    result = run(["size", thin, "--sheathing"])
+    assert result.exit_code == 0, result.stdout
+    bare = next(line for line in result.stdout.splitlines() if line.strip().startswith(BARE + " "))
+    assert "cannot be built" in bare and "stock" in " ".join(result.stdout.split())
+    comparison = compare_sheathing(load_spar(thin))
+    assert comparison.bare.design is None and comparison.saved(comparison.options[1]) is None
+    assert comparison.options[1].spar.hollow.wall.largest == pytest.approx(18.255, abs=5e-4)
+    del doc["hollow"]["layer"], doc["hollow"]["strip"]
+    thin.write_text(tomlkit.dumps(doc), encoding="utf-8")
+    checked = run(["check", thin])
+    assert checked.exit_code == 2 and "stock" in checked.stdout + (checked.stderr if checked.stderr_bytes else "")

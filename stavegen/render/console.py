@@ -436,6 +436,9 @@ def sheathing_options_table(comparison) -> Table:
     for k, head in enumerate(heads):
         table.add_column(head, justify="left" if k == 0 else "right", no_wrap=k != len(heads) - 1)
     for option in comparison.options:
+        if option.design is None:
+            table.add_row(option.name, *["—"] * 7, f"cannot be built: {option.refused}", style="dim")
+            continue
         spar, r = option.spar, option.design.assessment
         fig = Figures(spar)
         wall = spar.hollow.wall
@@ -444,8 +447,8 @@ def sheathing_options_table(comparison) -> Table:
         od = spar.hollow.diameter
         od_text = f"{fig.dress(float(od.at(0.0)))}–{fig.dress(float(od.at(spar.length)))}"
         saved = comparison.saved(option)
-        share = saved / comparison.bare.mass if comparison.bare.mass > 0 else 0.0
-        saved_text = ("—" if option is comparison.bare else
+        share = saved / comparison.bare.mass if saved is not None and comparison.bare.mass > 0 else 0.0
+        saved_text = ("—" if option is comparison.bare or saved is None else
                       f"{format_small_mass(saved, spar.units)} ({100 * share:.1f} %)" if saved >= 0 else
                       f"{format_small_mass(-saved, spar.units)} heavier ({-100 * share:.1f} %)")
         table.add_row(option.name, str(spar.hollow.staves), wall_text, od_text,

@@ -185,7 +185,11 @@ def _cap(spar: Spar, point: Point, by: str, limit: float, criteria: tuple[Criter
     if by == NO_BORE:
         return (f"at {place(spar, point)} a wall that thick leaves no bore: the staves would meet at the axis "
                 f"(finished radius {format_length(_radius(spar, point.z), spar.units)})")
-    name = next(c for c in criteria if c.name == by)
+    name = next((c for c in criteria if c.name == by), None)
+    if name is None:  # a bound of the geometry, not of a criterion (the notch, the oval's thickest wall)
+        what = ("the notch closes no thicker stave at the seams" if by in (NOTCH, NOTCH_UPPER)
+                else "the staves' inner faces would cross over" if by == BORE_CORNERS else by)
+        return f"at {place(spar, point)} no wall over {format_exact(limit, spar.units)} can be built ({what})"
     why = ("the plug there is stiffer than the staves" if point.plug is not None
            else "thicker walls open larger voids in the notches")
     return (f"at {place(spar, point)} the {name.name} falls below {name.target:.3f} with any wall over "
