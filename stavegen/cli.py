@@ -233,7 +233,7 @@ def size(
 def _size_sheathing(path: Path) -> None:
     """``size --sheathing``: the spar bare, with its layers, with its layers and strips, side by side."""
     from .model.loader import load_spar
-    from .render.console import sheathing_options_table
+    from .render.console import sheathing_option_notes, sheathing_options_table
     from .render.fit import Prose, fit
     from .render.progress import steps
     from .sheathing_options import compare_sheathing
@@ -251,6 +251,8 @@ def _size_sheathing(path: Path) -> None:
     if not comparison.solves:
         console.print(Prose('The file leaves nothing "auto": the options are compared as drawn.'))
     console.print(fit(sheathing_options_table(comparison)))
+    for line in sheathing_option_notes(comparison):
+        console.print(Prose(line, style="dim"))
 
 
 def _as_written(value: object) -> str:

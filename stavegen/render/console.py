@@ -437,7 +437,7 @@ def sheathing_options_table(comparison) -> Table:
         table.add_column(head, justify="left" if k == 0 else "right", no_wrap=k != len(heads) - 1)
     for option in comparison.options:
         if option.design is None:
-            table.add_row(option.name, *["—"] * 7, f"cannot be built: {option.refused}", style="dim")
+            table.add_row(option.name, *["—"] * 7, "cannot be built (below)", style="dim")
             continue
         spar, r = option.spar, option.design.assessment
         fig = Figures(spar)
@@ -455,6 +455,11 @@ def sheathing_options_table(comparison) -> Table:
                       format_small_mass(r.hollow.mass.mass, spar.units), f"{r.weakest_stiffness.ei_ratio:.3f}", f"{r.weakest_strength.strength_ratio:.3f}", saved_text,
                       "passes" if r.passed else "FAILS", style=None if r.passed else "red")
     return table
+
+
+def sheathing_option_notes(comparison) -> list[str]:
+    """One line for each option that cannot be built: why (the line its check would end with)."""
+    return [f"{o.name}: cannot be built: {o.refused}" for o in comparison.options if o.design is None]
 
 
 def candidate_notes(comparison) -> list[str]:
