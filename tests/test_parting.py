@@ -339,3 +339,43 @@ def test_bad_partings_are_refused_naming_the_key(change, key):
     with pytest.raises(InputError) as err:
         parse_spar(data, "t.toml")
     assert err.value.key == key, err.value.one_line()
+
+
+def test_a_sleeve_over_the_butt_by_hand_and_built_end_to_end(run, tmp_path):
+    """An outside sleeve of 6061-T6 over the butt: its bore is the hollow spar's diameter at the parting plus
+    the clearance all round, its E·I π(D⁴ − d⁴)/64 (Roark, hollow round) times the alloy's E, its capacity the
+    yield stress times I/(D/2), and it bears across the spar's outside. The spar file builds every output."""
+    data = _sample_data()
+    wall, clearance = 0.125, 1 / 64
+    data["parting"] = {"at": "15 ft", "kind": "sleeve", "material": "aluminium-6061-t6", "wall": "1/8",
+                       "clearance": "1/64"}
+    spar, j = _joint(data)
+    d = float(spar.hollow.diameter.at(15 * 12 * IN))
+    assert d == pytest.approx(4.75 * IN, rel=1e-12)  # the sample's hollow spar is 4 3/4 in at the parting
+    inside = d + 2 * clearance * IN
+    outside = inside + 2 * wall * IN
+    inertia = math.pi * (outside**4 - inside**4) / 64
+    aluminium_e, yield_t6 = 68900.0, 241.0  # MPa: E and 6061-T6 yield (35 ksi), Aluminum Association (from memory — verify)
+    assert j.spigot.kind == "sleeve"
+    assert j.spigot.inside == pytest.approx(inside) and j.spigot.outside == pytest.approx(outside)
+    assert j.spigot.ei == pytest.approx(aluminium_e * inertia, rel=1e-9)
+    assert j.spigot.moment_capacity == pytest.approx(yield_t6 * inertia / (outside / 2), rel=1e-9)
+    assert j.spigot.bearing_width == pytest.approx(d)
+    assert j.bearing == pytest.approx(6 * j.moment / (d * j.overlap**2), rel=1e-9)  # Winkler: M = p·d·L²/6
+    assert j.kink_deg == pytest.approx(math.degrees(2 * clearance * IN / j.overlap), rel=1e-9)
+    # a thin sleeve of a stiff alloy this size is far stiffer than the solid plan's 3 5/8 in of spruce there
+    assert j.ei_ok and j.strength_ok
+
+    path = tmp_path / "sleeve.toml"
+    text = SAMPLE.read_text(encoding="utf-8").split("[parting]")[0]
+    text += ('[parting]\nat = "15 ft"\nkind = "sleeve"\nmaterial = "aluminium-6061-t6"\nwall = "1/8"\n'
+             'clearance = "1/64"\n\n[output]\npaper = "letter"\n')
+    path.write_text(text, encoding="utf-8")
+    out = tmp_path / "out"
+    result = run(["build", path, "-o", out])
+    assert result.exit_code in (0, 1), result.output
+    doc = json.loads(next(out.glob("*.json")).read_text(encoding="utf-8"))
+    joint = doc["joints"][0]
+    assert joint["spigot_EI_Nmm2"] == pytest.approx(j.spigot.ei, rel=1e-9)
+    assert joint["passed"] == j.passed
+    assert sorted(p.suffix for p in out.iterdir()) == [".csv", ".dxf", ".dxf", ".json", ".pdf", ".pdf"]

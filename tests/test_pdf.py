@@ -29,7 +29,7 @@ from stavegen.model.loader import load_spar
 from stavegen.pipeline import design
 from stavegen.render.csv_cutlist import to_csv
 from stavegen.render.json_doc import to_json
-from stavegen.render.pdf_fullsize import crosses, pages_of, sheet, write_fullsize
+from stavegen.render.pdf_fullsize import end_pages, crosses, pages_of, sheet, write_fullsize
 from stavegen.render.pdf_report import write_report
 from stavegen.units import format_length, format_mass
 
@@ -303,7 +303,8 @@ def test_every_fullsize_page_is_the_paper_asked_with_a_true_scale_bar(built):
     bar = SCALE_BAR_PT[built["units"]]
     words = "4 in" if built["units"] == "in" else "100 mm"
     pages = built["full_pages"]
-    assert len(pages) == 1 + len(sheet(built["design"]).tiles)
+    placed, too_big = end_pages(built["design"], sheet(built["design"]))
+    assert len(pages) == 1 + len(sheet(built["design"]).tiles) + max((p.page for p in placed), default=0)
     for page in pages:
         assert sorted(page["size"]) == pytest.approx(sorted((w, h)), abs=0.01)
         bars = [r for r in page["rects"] if abs(r["width"] - bar) <= 0.1 and r["height"] < 20]
@@ -355,6 +356,32 @@ def test_fullsize_outlines_are_drawn_at_one_to_one(built):
         page = pages[pages_of(s, place)[0].page - 1]
         assert any(abs((c["x1"] - c["x0"]) - want_w) < 0.05 and abs((c["bottom"] - c["top"]) - want_h) < 0.05
                    for c in page["curves"]), seg.label
+
+
+def test_fullsize_end_views_are_drawn_at_one_to_one_inside_the_window(built):
+    """The layout's end views (stave ends, assembled sections, plug ends) on their own pages after the
+    templates: every outline drawn at 1:1 (its width and height in points, read back by pdfplumber) wholly inside
+    the page's window, with its caption; every view the layout holds is placed, or named as too large."""
+    d = built["design"]
+    s = sheet(d)
+    placed, too_big = end_pages(d, s)
+    assert len(placed) + len(too_big) == len(d.layout.end_views) and placed
+    assert {v.kind for v in d.layout.end_views} >= {"stave end", "assembled"}
+    first = 1 + len(s.tiles)  # index of the first end-view page
+    wx, wy, ww, wh = s.window
+    for place in placed:
+        page = built["full_pages"][first + place.page - 1]
+        assert "end views at 1:1" in page["text"]
+        assert _flat(place.caption[0]) in _flat(page["text"])
+        for outline in place.view.outlines:
+            xs, ys = [x for x, _ in outline.points], [y for _, y in outline.points]
+            want_w, want_h = (max(xs) - min(xs)) * PT_PER_MM, (max(ys) - min(ys)) * PT_PER_MM
+            found = [c for c in page["curves"] + page["lines"]
+                     if abs((c["x1"] - c["x0"]) - want_w) < 0.05 and abs((c["bottom"] - c["top"]) - want_h) < 0.05]
+            assert found, (place.view.kind, outline.role)
+            height = page["size"][1]
+            assert any(wx - 0.01 <= c["x0"] and c["x1"] <= wx + ww + 0.01
+                       and wy - 0.01 <= height - c["bottom"] and height - c["top"] <= wy + wh + 0.01 for c in found)
 
 
 def test_fullsize_pages_are_labelled_and_joined_by_crosses(built):

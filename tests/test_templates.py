@@ -90,3 +90,35 @@ def test_dxf_and_fullsize_pdf_draw_the_same_marks(laid_out, tmp_path):
     for line in figures:
         for part in line.split("  "):
             assert part in text, part
+
+
+def test_dxf_and_fullsize_pdf_draw_the_same_end_views(laid_out, tmp_path):
+    """The end views are one model (``Layout.end_views``): the DXF's end-view outlines (read back with the
+    independent group-code reader) are the model's, shape for shape, and every caption the DXF prints under an
+    end view is printed on the full-size PDF's end-view pages too (pdfplumber), unless the view is too large
+    for a page and the PDF says so."""
+    from stavegen.layout.end_views import ROLES
+    from stavegen.render.dxf_templates import END_LAYERS
+    from stavegen.render.figures import Figures
+    from stavegen.render.template_words import end_view_caption
+
+    spar, layout = laid_out.spar, laid_out.layout
+    unit = MM_PER[spar.units]
+    dxf_path, pdf_path = tmp_path / "t.dxf", tmp_path / "t.pdf"
+    write_templates(laid_out, dxf_path)
+    write_fullsize(laid_out, pdf_path)
+    dxf = read_dxf(dxf_path)
+    for role in ROLES:
+        drawn = sorted(round(Polygon([(x * unit, y * unit) for x, y in e.points]).area, 1)
+                       for e in dxf.on(END_LAYERS[role], "LWPOLYLINE"))
+        model = sorted(round(Polygon(o.points).area, 1) for v in layout.end_views for o in v.outlines
+                       if o.role == role)
+        assert drawn == pytest.approx(model, abs=0.2), role
+    with pdfplumber.open(pdf_path) as pdf:
+        text = " ".join(" ".join((page.extract_text() or "").split()) for page in pdf.pages
+                        if "end views at 1:1" in (page.extract_text() or ""))
+    fig = Figures(spar)
+    for view in layout.end_views:
+        first = end_view_caption(fig, view)[0]
+        assert first in " ".join(t.first(1) for t in dxf.on("SHEET-NOTES", "TEXT"))
+        assert first in text

@@ -39,7 +39,7 @@ from ..section.integrals import ring_moments
 from ..section.properties import bore_ring
 from ..stations.evaluate import SectionCache
 from ..units import Way, format_length, system
-from .ratios import ROUND_FORM_FACTOR, TOLERANCE, Stiffness, form_factor, solid_round, targets
+from .ratios import ROUND_FORM_FACTOR, Stiffness, form_factor, meets, solid_round, targets, within
 
 KINK_WARNED_DEG = 1.0  # a head part that can lean a degree at the joint is visibly crooked (common practice)
 
@@ -182,15 +182,15 @@ class JointCheck:
 
     @property
     def ei_ok(self) -> bool:
-        return self.ei_ratio >= self.ei_target * (1 - TOLERANCE)
+        return meets(self.ei_ratio, self.ei_target)
 
     @property
     def strength_ok(self) -> bool:
-        return self.strength_ratio >= self.strength_target * (1 - TOLERANCE)
+        return meets(self.strength_ratio, self.strength_target)
 
     @property
     def bearing_ok(self) -> bool:
-        return self.bearing <= self.bearing_allowable * (1 + TOLERANCE)
+        return within(self.bearing, self.bearing_allowable)
 
     @property
     def passed(self) -> bool:

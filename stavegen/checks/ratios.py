@@ -43,6 +43,16 @@ FORE_AFT, ATHWARTSHIPS = "fore_aft", "athwartships"
 DIRECTIONS = (FORE_AFT, ATHWARTSHIPS)
 
 
+def meets(ratio: float, target: float) -> bool:
+    """The one rule of every verdict: a ratio meets its target unless it falls below it by more than roundoff."""
+    return ratio >= target * (1 - TOLERANCE)
+
+
+def within(value: float, allowable: float) -> bool:
+    """A load or pressure within what is allowed, roundoff above it forgiven (the rule of :func:`meets`, turned)."""
+    return value <= allowable * (1 + TOLERANCE)
+
+
 def form_factor(shape_factor: float) -> float:
     """The bending form factor credited to a section of plastic shape factor Z/S (see the module's note)."""
     slope = (ROUND_FORM_FACTOR - RECTANGLE_FORM_FACTOR) / (ROUND_SHAPE_FACTOR - RECTANGLE_SHAPE_FACTOR)
@@ -243,18 +253,18 @@ class StationCheck:
         return min(self.strength_ratio_in(d) for d in DIRECTIONS)
 
     def ei_ok_in(self, direction: str) -> bool:
-        return self.ei_ratio_in(direction) >= self.ei_target * (1 - TOLERANCE)
+        return meets(self.ei_ratio_in(direction), self.ei_target)
 
     def strength_ok_in(self, direction: str) -> bool:
-        return self.strength_ratio_in(direction) >= self.strength_target * (1 - TOLERANCE)
+        return meets(self.strength_ratio_in(direction), self.strength_target)
 
     @property
     def ei_ok(self) -> bool:
-        return self.ei_ratio >= self.ei_target * (1 - TOLERANCE)
+        return meets(self.ei_ratio, self.ei_target)
 
     @property
     def strength_ok(self) -> bool:
-        return self.strength_ratio >= self.strength_target * (1 - TOLERANCE)
+        return meets(self.strength_ratio, self.strength_target)
 
     @property
     def ok(self) -> bool:

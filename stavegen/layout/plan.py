@@ -20,6 +20,7 @@ from .scarfs import ScarfAim, ScarfPlan, ScarfRules, aim_scarfs, segment_bounds
 from .sheathing import ClothItem, cloth_and_resin
 from .segments import Segment, make_segment
 from .staves import StavePlan, StaveStation, kind_count, kind_of_stave, stave_plan
+from .end_views import EndView, end_views
 from .templates import Template, make_templates
 
 
@@ -75,6 +76,12 @@ class Layout:
         """Every piece's template (identical pieces share one): what the DXF and the full-size PDF draw."""
         return make_templates(self.staves, self.scarfs.centres, self.plan.taper,
                               notched=self.plan.stations[0].notch_depth is not None, plan_for=self.plan_for)
+
+    @cached_property
+    def end_views(self) -> tuple[EndView, ...]:
+        """The end views at 1:1 (stave ends, assembled sections, plug ends, a joint's): the DXF and the full-size
+        PDF draw these (:mod:`stavegen.layout.end_views`)."""
+        return end_views(self)
 
     @cached_property
     def template_of(self) -> dict[str, Template]:

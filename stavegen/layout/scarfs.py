@@ -40,6 +40,7 @@ machine.
 
 from __future__ import annotations
 
+import bisect
 import itertools
 import math
 from dataclasses import dataclass
@@ -298,26 +299,43 @@ class ScarfChoice:
     aim: ScarfAim | None
 
 
+def _interp(x: float, xp: list[float], fp: list[float]) -> float:
+    """``numpy.interp`` for one value, in plain Python (the same formula, so the same figure to the last bit):
+    a scalar lookup without numpy's per-call cost, which aiming pays tens of thousands of times."""
+    if x <= xp[0]:
+        return fp[0]
+    if x >= xp[-1]:
+        return fp[-1]
+    j = bisect.bisect_right(xp, x) - 1
+    slope = (fp[j + 1] - fp[j]) / (xp[j + 1] - xp[j])
+    value = slope * (x - xp[j]) + fp[j]
+    return value if value == value else slope * (x - xp[j + 1]) + fp[j + 1]  # numpy's fallback for a NaN
+
+
 class _Geometry:
     """Face lengths and rip widths of stave pieces, read off the stave plan (straight between stations)."""
 
     def __init__(self, plan: StavePlan, rough: Callable[[float], float] | None = None) -> None:
-        self.z = np.array([st.z for st in plan.stations])
-        self.s = np.array([st.s for st in plan.stations])
-        self.width = np.array([st.width for st in plan.stations])
+        self.z = [float(st.z) for st in plan.stations]
+        self.s = [float(st.s) for st in plan.stations]
+        self.width = [float(st.width) for st in plan.stations]
         self.rough = rough or (lambda widest: widest + 2 * plan.edge_allowance)
+        self._pieces: dict[tuple[float, float], tuple[float, float]] = {}
 
     def s_at(self, z: float) -> float:
-        return float(np.interp(z, self.z, self.s))
+        return _interp(z, self.z, self.s)
 
     def z_at(self, s: float) -> float:
-        return float(np.interp(s, self.s, self.z))
+        return _interp(s, self.s, self.z)
 
     def piece(self, a: float, b: float) -> tuple[float, float]:
-        """(face length, rip width) of the stave from z = a to b."""
-        inside = self.width[(self.z > a) & (self.z < b)]
-        ends = np.interp([a, b], self.z, self.width)
-        return self.s_at(b) - self.s_at(a), self.rough(float(max(ends.max(), inside.max(initial=0.0))))
+        """(face length, rip width) of the stave from z = a to b (remembered: placements share pieces)."""
+        found = self._pieces.get((a, b))
+        if found is None:
+            inside = self.width[bisect.bisect_right(self.z, a):bisect.bisect_left(self.z, b)]
+            widest = max(_interp(a, self.z, self.width), _interp(b, self.z, self.width), *inside, 0.0)
+            found = self._pieces[(a, b)] = (self.s_at(b) - self.s_at(a), self.rough(widest))
+        return found
 
 
 def _adjacent(phases: int) -> list[tuple[int, int]]:

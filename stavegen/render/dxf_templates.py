@@ -41,7 +41,7 @@ from ..section.properties import Section
 from ..units import to_unit
 from .csv_cutlist import fails_line
 from .figures import Figures
-from .template_words import edge_names, feather_note, groove_words, mark_line
+from .template_words import edge_names, end_view_caption, feather_note, groove_words, mark_line
 from .wording import board_words, dressed_size
 
 Point = tuple[float, float]
@@ -76,6 +76,9 @@ LAYERS: dict[str, tuple[int, int, str]] = {
     "BOARD-RIPS": (8, 18, "the rip lines along each board (templates on boards): not to cut"),
     "TEXT-BOARDS": (8, 18, "board captions: id, size, the segments on it (templates on boards)"),
 }
+# The layer of each kind of outline in an end view (:data:`stavegen.layout.end_views.ROLES`).
+END_LAYERS = {"stave": "END-STAVE", "bore": "END-BORE", "finished": "END-ROUND", "plug": "END-PLUG",
+              "spigot": "END-SPIGOT", "fit": "END-FIT"}
 
 CHAR_WIDTH = 0.9  # a generous estimate of a character's advance, in text heights (standard style, txt font)
 
@@ -414,145 +417,29 @@ class TemplateSheet:
 
     # End views -------------------------------------------------------------
     def end_views(self, left: float, bottom: float) -> float:
-        """End views in a row whose lowest caption line sits at ``bottom``; returns the row's top (mm)."""
-        lay, s = self.layout, self.style
-        items: list[tuple[Callable[[Point], None], tuple[float, float, float, float], list[str]]] = []
-        extremes = (("widest", lay.machining.widest), ("narrowest", lay.machining.narrowest))
-        for what, at in extremes:
-            items.append(self.stave_view(what, at.z, at.section))
-        for what, at in extremes:
-            items.append(self.assembled_view(what, at.z, at.section))
-        for block in lay.plugs:
-            for end_name, end in (("heel", block.heel), ("head", block.head)):
-                items.append(self.plug_view(block.index, end_name, end))
-        for joint in lay.joints:
-            items += self.joint_views(joint)
+        """The layout's end views (:attr:`Layout.end_views`) in a row whose lowest caption line sits at ``bottom``;
+        returns the row's top (mm)."""
+        s = self.style
         x = left
         tallest = 0.0
         caption_room = 5 * 1.6 * s.text
-        for draw, (x0, y0, x1, y1), caption in items:
+        for view in self.layout.end_views:
+            x0, y0, x1, y1 = view.bounds
+            caption = end_view_caption(self.fig, view)
             width = max(x1 - x0, max(s.width_of(line) for line in caption))
             cx = x + width / 2
             base = bottom + caption_room
-            draw((cx - (x0 + x1) / 2, base - y0))
+            offset = (cx - (x0 + x1) / 2, base - y0)
+            for outline in view.outlines:
+                self.pen.poly(_shift(list(outline.points), *offset), END_LAYERS[outline.role], closed=True)
+            for circle in view.circles:
+                self.pen.circle(offset, circle.radius, END_LAYERS[circle.role])
             for i, line in enumerate(caption):
                 self.pen.text(line, (cx, bottom + caption_room - (i + 1) * 1.6 * s.text), s.text, "SHEET-NOTES",
                               align=TextEntityAlignment.TOP_CENTER)
             tallest = max(tallest, y1 - y0)
             x += width + s.gap
         return bottom + caption_room + tallest
-
-    def stave_view(self, what: str, z: float, section: Section):
-        outline = list(section.stave_outline)
-        xs, ys = [p[0] for p in outline], [p[1] for p in outline]
-
-        def draw(offset: Point) -> None:
-            self.pen.poly(_shift(outline, *offset), "END-STAVE", closed=True)
-
-        caption = [f"STAVE END at the {what}, {self.pos(z)} from the heel",
-                   f"{self.fig.mark_width(section.stave_width)} wide x {self.fig.dress(section.thickness)} thick, "
-                   "outer face up"]
-        if section.notch is not None:
-            a, b = section.v_face_angles
-            caption += [f"notch edge at left: V {self.fig.notch_depth(section.notch.depth)} deep, "
-                        f"apex {self.fig.apex_height(section.notch.apex_height)} up",
-                        f"V faces {a:.2f} and {b:.2f} deg to the broad face"]
-        else:
-            caption += [f"edges bevelled {section.bevel_angle:.2f} deg off square"]
-        return draw, (min(xs), min(ys), max(xs), max(ys)), caption
-
-    def assembled_view(self, what: str, z: float, section: Section):
-        section = section.assembled  # an oval's whole section, not the one stave the settings are for
-        n = section.staves
-        staves = section.placed_rings()
-        bore = section.bore_points()
-        reach = max(math.hypot(x, y) for ring in staves for x, y in ring)
-        oval = section.shape != "round"
-
-        def draw(offset: Point) -> None:
-            for ring in staves:
-                self.pen.poly(_shift(ring, *offset), "END-STAVE", closed=True)
-            self.pen.poly(_shift(bore, *offset), "END-BORE", closed=True)
-            if oval:
-                self.pen.poly(_shift(section.finished_points(360), *offset), "END-ROUND", closed=True)
-            else:
-                self.pen.circle(offset, section.radius, "END-ROUND")
-
-        if oval:
-            caption = [f"ASSEMBLED at the {what}, {self.pos(z)} from the heel",
-                       f"{n} staves, {self.size(section.across_flats)} by "
-                       f"{self.size(section.across_flats_athwartships)} across the flats",
-                       f"finished oval {self.fig.dress(section.fore_aft)} fore-and-aft (across the sheet) by "
-                       f"{self.fig.dress(section.athwartships)} athwartships",
-                       "stave 1 at the top, numbered counter-clockwise looking from the heel"]
-            return draw, (-reach, -reach, reach, reach), caption
-        caption = [f"ASSEMBLED at the {what}, {self.pos(z)} from the heel",
-                   f"{n} staves, {self.size(section.across_flats)} across the flats",
-                   f"finished round {self.fig.dress(2 * section.radius)} diameter",
-                   f"bore {self.size(2 * section.inner_apothem)} across the flats"]
-        return draw, (-reach, -reach, reach, reach), caption
-
-    def plug_view(self, index: int, end_name: str, end):
-        n = end.section.staves
-        ring = end.section.bore_points()
-        reach = max(math.hypot(x, y) for x, y in ring)
-
-        def draw(offset: Point) -> None:
-            self.pen.poly(_shift(ring, *offset), "END-PLUG", closed=True)
-
-        if end.section.shape != "round":
-            caption = [f"PLUG {index}, {end_name} end, {self.pos(end.z)} from the heel",
-                       f"{n} sides, {self.fig.dress(end.across_flats)} across the flats fore-and-aft",
-                       f"{self.fig.dress(end.section.bore_across_flats_athwartships)} athwartships"]
-            return draw, (-reach, -reach, reach, reach), caption
-        caption = [f"PLUG {index}, {end_name} end, {self.pos(end.z)} from the heel",
-                   f"{n} sides, {self.fig.dress(end.across_flats)} across the flats",
-                   f"{self.fig.dress(end.across_corners)} across the corners"]
-        return draw, (-reach, -reach, reach, reach), caption
-
-    def joint_views(self, joint) -> list:
-        """A two-piece spar's joint at 1:1: the wooden spigot at its glued end, butt and tip (lower part), and
-        gauges of the upper part's bore at its mouth and at the spigot's tip; or a tube's hole in its plugs."""
-        j = joint.check
-        out = []
-
-        def ring_view(ring, layer: str, caption: list[str]):
-            ring = list(ring)
-            reach = max(math.hypot(x, y) for x, y in ring)
-
-            def draw(offset: Point) -> None:
-                self.pen.poly(_shift(ring, *offset), layer, closed=True)
-            return draw, (-reach, -reach, reach, reach), caption
-
-        def circle_view(radius: float, caption: list[str]):
-            def draw(offset: Point) -> None:
-                self.pen.circle(offset, radius, "END-SPIGOT")
-            return draw, (-radius, -radius, radius, radius), caption
-
-        blank = joint.spigot
-        if blank is not None:
-            lo, hi = j.at - j.overlap, j.at + j.overlap
-            for ring, flats, where, z in ((blank.glued_end, blank.across_flats[0], "glued end", lo),
-                                          (blank.butt, blank.across_flats[1], "butt (the parting)", j.at),
-                                          (blank.tip, blank.across_flats[2], "tip", hi)):
-                out.append(ring_view(ring, "END-SPIGOT", [
-                    f"SPIGOT, LOWER PART: {where}, {self.pos(z)} from the heel",
-                    f"{j.staves} sides, {self.fig.dress(flats)} across the flats"]))
-            for ring, where, z in ((blank.bore_at_butt, "mouth", j.at), (blank.bore_at_tip, "spigot's tip", hi)):
-                flats = 2 * max(math.hypot(x, y) for x, y in ring) * math.cos(math.pi / j.staves)
-                out.append(ring_view(ring, "END-FIT", [
-                    f"BORE FIT, UPPER PART: {where}, {self.pos(z)} from the heel",
-                    f"the bore, {self.size(flats)} across the flats: the spigot goes in",
-                    f"with {self.fig.units.length(j.clearance, step=self.fig.units.fine_step(j.clearance))} "
-                    "all round"]))
-        elif j.kind == "tube-spigot":
-            od = j.spigot.outside
-            out.append(circle_view(od / 2, [f"TUBE HOLE, LOWER PART: in plug {joint.plugs[0].index}" if joint.plugs
-                                            else "TUBE HOLE, LOWER PART", f"{self.size(od)} across: a glue fit"]))
-            out.append(circle_view(od / 2 + j.clearance, [
-                f"TUBE HOLE, UPPER PART: in plug {joint.plugs[-1].index}" if joint.plugs else "TUBE HOLE, UPPER PART",
-                f"{self.size(od + 2 * j.clearance)} across: the tube slides in"]))
-        return out
 
     # Notes -----------------------------------------------------------------
     def notes(self, left: float, bottom: float, on_boards: bool = False) -> None:

@@ -18,6 +18,10 @@ How the sheet is made (all model figures in mm, turned into points by
 - Page 1 is the page map. Every page carries a header with its row and
   column, the spar, file, build date and a scale check bar exactly 4 in or
   100 mm long.
+- After the templates, the end views (:attr:`stavegen.layout.plan.Layout.end_views`: stave ends, assembled
+  sections, plug ends, a joint's spigot and gauges) at 1:1, packed on pages of
+  their own, each whole on one page with its caption; a view larger than a
+  page is listed there and left to the DXF.
 """
 
 from __future__ import annotations
@@ -26,14 +30,17 @@ import math
 from dataclasses import dataclass
 from pathlib import Path
 
+from reportlab.pdfbase.pdfmetrics import stringWidth
 from reportlab.pdfgen import canvas as pdfcanvas
 
+from ..layout.end_views import EndView
 from ..layout.templates import Template
 from ..pipeline import Design
 from ..units import MM_PER_INCH, format_length
 from .csv_cutlist import fails_line
 from .figures import Figures
-from .template_words import edge_names, end_words, feather_note, groove_words, mark_lines, template_name
+from .template_words import (edge_names, end_view_caption, end_words, feather_note, groove_words, mark_lines,
+                             template_name)
 from .pdf_common import BOLD, FONT, MM, ask_actual_size, build_date, draw_scale_bar, paper_size, source_name, \
     scale_bar_length
 
@@ -181,6 +188,95 @@ def sheet(design: Design) -> Sheet:
                 page += 1
     return Sheet(page_size=(page_w, page_h), margin=margin, window=window, overlap=overlap,
                  row_overlap=row_overlap, placements=tuple(placements), tiles=tuple(tiles))
+
+
+# End views ------------------------------------------------------------------------------------------
+
+CAPTION_LINE = 3.2  # mm between caption lines under an end view
+END_GAP = 8.0  # mm between end views
+
+
+@dataclass(frozen=True)
+class EndPlacement:
+    """An end view on an end-view page: its origin at (cx, cy) in the page's window (mm from the window's top
+    left, y downward), its caption lines below it."""
+
+    view: EndView
+    page: int  # from 1 among the end-view pages
+    cx: float
+    cy: float
+    caption: tuple[str, ...]
+    caption_top: float
+
+
+def end_pages(design: Design, sheet_: Sheet) -> tuple[list[EndPlacement], list[EndView]]:
+    """The end views packed in rows on pages of the sheet's window (each whole on one page at 1:1), and those
+    too large for any page."""
+    fig = Figures(design.spar)
+    _, _, width, height = (v / MM for v in sheet_.window)
+    placed: list[EndPlacement] = []
+    too_big: list[EndView] = []
+    page, x, y, row = 1, END_GAP, LANE, 0.0
+    for view in design.layout.end_views:
+        x0, y0, x1, y1 = view.bounds
+        caption = tuple(end_view_caption(fig, view))
+        text_w = max(stringWidth(line, BOLD if i == 0 else FONT, 6.5) for i, line in enumerate(caption)) / MM
+        w = max(x1 - x0, text_w)
+        h = (y1 - y0) + 2 + CAPTION_LINE * len(caption)
+        if w > width - 2 * END_GAP or h > height - 2 * LANE:
+            too_big.append(view)
+            continue
+        if x + w > width - END_GAP:
+            x, y, row = END_GAP, y + row + END_GAP, 0.0
+        if y + h > height - LANE:
+            page, x, y, row = page + 1, END_GAP, LANE, 0.0
+        cx = x + w / 2 - (x0 + x1) / 2
+        cy = y + y1  # the view's top edge at y (model y up, window y down)
+        placed.append(EndPlacement(view, page, cx, cy, caption, y + (y1 - y0) + 2))
+        x += w + END_GAP
+        row = max(row, h)
+    return placed, too_big
+
+
+def _end_page(c, design: Design, sheet_: Sheet, placed: list[EndPlacement], too_big: list[EndView],
+              number: int, first_page: int, total: int) -> None:
+    pages = max(p.page for p in placed) if placed else 1
+    _header(c, design, sheet_, f"{design.spar.name}: end views at 1:1", f"E{number}",
+            f"end views, page {number} of {pages}  |  page {first_page + number - 1} of {total}  |  "
+            "each whole on its page, at actual size")
+    wx, wy, ww, wh = sheet_.window
+
+    def pt(x: float, y: float) -> tuple[float, float]:
+        return wx + x * MM, wy + wh - y * MM
+
+    c.saveState()
+    for place in (p for p in placed if p.page == number):
+        for outline in place.view.outlines:
+            path = c.beginPath()
+            for i, (x, y) in enumerate(outline.points):
+                px, py = pt(place.cx + x, place.cy - y)
+                path.moveTo(px, py) if i == 0 else path.lineTo(px, py)
+            path.close()
+            c.setLineWidth(0.3 if outline.role in ("bore", "fit") else 0.5)
+            c.setStrokeGray(0.45 if outline.role == "bore" else 0.0)
+            c.drawPath(path, stroke=1, fill=0)
+        for circle in place.view.circles:
+            px, py = pt(place.cx, place.cy)
+            c.setLineWidth(0.5)
+            c.setStrokeGray(0.0)
+            c.circle(px, py, circle.radius * MM, stroke=1, fill=0)
+        x0, _, x1, _ = place.view.bounds
+        mid = place.cx + (x0 + x1) / 2
+        for i, line in enumerate(place.caption):
+            c.setFont(BOLD if i == 0 else FONT, 6.5)
+            c.drawCentredString(*pt(mid, place.caption_top + (i + 1) * CAPTION_LINE), line)
+    if number == 1 and too_big:
+        c.setFont(BOLD, 7)
+        names = "; ".join(end_view_caption(Figures(design.spar), v)[0] for v in too_big)
+        for j, line in enumerate(_wrap(c, f"Larger than a page, drawn at 1:1 in the DXF templates only: {names}.",
+                                       ww, BOLD, 7)):
+            c.drawString(wx, wy + 4 + 9 * j, line)
+    c.restoreState()
 
 
 # Drawing ---------------------------------------------------------------------------------------------
@@ -534,7 +630,9 @@ def write_fullsize(design: Design, path: str | Path) -> None:
     if design.layout is None:
         raise ValueError("the full-size templates need the layout: design(spar, layout=True)")
     sheet_ = sheet(design)
-    total = 1 + len(sheet_.tiles)
+    placed, too_big = end_pages(design, sheet_)
+    end_count = max((p.page for p in placed), default=1 if too_big else 0)
+    total = 1 + len(sheet_.tiles) + end_count
     c = pdfcanvas.Canvas(str(path), pagesize=sheet_.page_size, initialFontName=FONT)
     c.setTitle(f"{design.spar.name} - full-size stave templates")
     c.setAuthor("stavegen")
@@ -544,5 +642,8 @@ def write_fullsize(design: Design, path: str | Path) -> None:
     c.showPage()
     for tile in sheet_.tiles:
         _tile_page(c, design, sheet_, tile, total)
+        c.showPage()
+    for number in range(1, end_count + 1):
+        _end_page(c, design, sheet_, placed, too_big, number, 2 + len(sheet_.tiles), total)
         c.showPage()
     c.save()

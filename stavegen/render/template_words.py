@@ -7,6 +7,7 @@ place these words, neither makes up its own.
 
 from __future__ import annotations
 
+from ..layout.end_views import EndView
 from ..layout.templates import FeatherLine, Groove, Mark, Template
 from .figures import Figures
 
@@ -67,3 +68,53 @@ def feather_note(fig: Figures, t: Template, line: FeatherLine) -> str:
     """The note beside a feather line, pointing to the end the scarf slopes to."""
     note = f"scarf {fig.cut_length(t.segment.scarf_length)}: slope from this line to a feather edge at the tip"
     return f"<-- {note}" if line.tip < line.x else f"{note} -->"
+
+
+def end_view_caption(fig: Figures, view: EndView) -> list[str]:
+    """The lines under an end view (:mod:`stavegen.layout.end_views`), worded in the spar's units."""
+    where = f"{fig.position(view.z)} from the heel"
+    s = view.section
+    if view.kind == "stave end":
+        lines = [f"STAVE END at the {view.which}, {where}",
+                 f"{fig.mark_width(s.stave_width)} wide x {fig.dress(s.thickness)} thick, outer face up"]
+        if s.notch is not None:
+            a, b = s.v_face_angles
+            lines += [f"notch edge at left: V {fig.notch_depth(s.notch.depth)} deep, "
+                      f"apex {fig.apex_height(s.notch.apex_height)} up",
+                      f"V faces {a:.2f} and {b:.2f} deg to the broad face"]
+        else:
+            lines += [f"edges bevelled {s.bevel_angle:.2f} deg off square"]
+        return lines
+    if view.kind == "assembled":
+        if s.shape != "round":
+            return [f"ASSEMBLED at the {view.which}, {where}",
+                    f"{s.staves} staves, {fig.describe(s.across_flats)} by "
+                    f"{fig.describe(s.across_flats_athwartships)} across the flats",
+                    f"finished oval {fig.dress(s.fore_aft)} fore-and-aft (across the sheet) by "
+                    f"{fig.dress(s.athwartships)} athwartships",
+                    "stave 1 at the top, numbered counter-clockwise looking from the heel"]
+        return [f"ASSEMBLED at the {view.which}, {where}",
+                f"{s.staves} staves, {fig.describe(s.across_flats)} across the flats",
+                f"finished round {fig.dress(2 * s.radius)} diameter",
+                f"bore {fig.describe(2 * s.inner_apothem)} across the flats"]
+    if view.kind == "plug":
+        end = view.plug
+        first = f"PLUG {view.index}, {view.which} end, {fig.position(end.z)} from the heel"
+        if s.shape != "round":
+            return [first, f"{s.staves} sides, {fig.dress(end.across_flats)} across the flats fore-and-aft",
+                    f"{fig.dress(s.bore_across_flats_athwartships)} athwartships"]
+        return [first, f"{s.staves} sides, {fig.dress(end.across_flats)} across the flats",
+                f"{fig.dress(end.across_corners)} across the corners"]
+    j = view.joint.check
+    if view.kind == "spigot":
+        which = "butt (the parting)" if view.which == "butt" else view.which
+        return [f"SPIGOT, LOWER PART: {which}, {where}",
+                f"{j.staves} sides, {fig.dress(view.across)} across the flats"]
+    if view.kind == "bore fit":
+        return [f"BORE FIT, UPPER PART: {view.which}, {where}",
+                f"the bore, {fig.describe(view.across)} across the flats: the spigot goes in",
+                f"with {fig.units.length(j.clearance, step=fig.units.fine_step(j.clearance))} all round"]
+    part = "LOWER" if view.which == "lower" else "UPPER"
+    first = f"TUBE HOLE, {part} PART" + (f": in plug {view.index}" if view.index is not None else "")
+    fit = "a glue fit" if view.which == "lower" else "the tube slides in"
+    return [first, f"{fig.describe(view.across)} across: {fit}"]

@@ -15,7 +15,7 @@ from dataclasses import dataclass, field
 from functools import cached_property
 
 import shapely
-from shapely.geometry import Polygon, box
+from shapely.geometry import Polygon
 
 from ..errors import DesignError
 from ..model.spar import Joint
@@ -177,38 +177,49 @@ class Section:
         """
         best = None
         for turn in (0.0, math.pi / self.staves):
-            wall = _half_first_moment_wall(self, turn)
             bore = _half_first_moment(Polygon(bore_ring(self.staves, self.inner_apothem)), turn, None)
+            wall = _half_first_moment_wall(self, turn, bore)
             if best is None or wall < best[0]:
                 best = (wall, bore)
         return best
 
 
+def _above_axis(ring: list[tuple[float, float]]) -> list[tuple[float, float]]:
+    """The part of a closed ring with y ≥ 0 (Sutherland–Hodgman against one half-plane). For a ring that is
+    not convex the result may run along y = 0 there and back; such edges add nothing to an integral taken
+    round the boundary (Green's theorem), which is all it is used for."""
+    out: list[tuple[float, float]] = []
+    n = len(ring)
+    for i in range(n):
+        p, q = ring[i], ring[(i + 1) % n]
+        if p[1] >= 0:
+            out.append(p)
+        if (p[1] >= 0) != (q[1] >= 0):
+            s = p[1] / (p[1] - q[1])
+            out.append((p[0] + s * (q[0] - p[0]), 0.0))
+    return out
+
+
 def _half_first_moment(poly: Polygon, turn: float, radius: float | None) -> float:
-    """∫|y| dA over ``poly`` (clipped by the disc of ``radius`` when given), y across the diameter at ``turn``."""
+    """∫|y| dA over ``poly`` (clipped by the disc of ``radius`` when given), y across the diameter at ``turn``:
+    twice the first moment of the part above the diameter less the whole's (∫|y| = 2∫_{y>0} y − ∫y)."""
     c, s = math.cos(-turn), math.sin(-turn)
-    ring = [(c * x - s * y, s * x + c * y) for x, y in poly.exterior.coords]
-    turned = Polygon(ring)
-    reach = 4 * max(math.hypot(x, y) for x, y in ring) + 1.0
-    total = 0.0
-    for half, sign in ((box(-reach, 0.0, reach, reach), 1.0), (box(-reach, -reach, reach, 0.0), -1.0)):
-        part = turned.intersection(half)
-        for g in getattr(part, "geoms", [part]):
-            if g.is_empty or g.geom_type != "Polygon":
-                continue
-            g = shapely.geometry.polygon.orient(g, 1.0)
-            rings = [list(g.exterior.coords)[:-1]] + [list(r.coords)[:-1] for r in g.interiors]
-            m = Moments()
-            for r in rings:
-                m = m + (ring_moments(r) if radius is None else ring_in_disc_moments(r, radius))
-            total += sign * m.qy
-    return total
+    ring = [(c * x - s * y, s * x + c * y) for x, y in list(poly.exterior.coords)[:-1]]
+    if sum(p[0] * q[1] - q[0] * p[1] for p, q in zip(ring, ring[1:] + ring[:1])) < 0:
+        ring.reverse()  # counter-clockwise, so the integrals are positive
+
+    def first_moment(r: list[tuple[float, float]]) -> float:
+        if len(r) < 3:
+            return 0.0
+        return (ring_moments(r) if radius is None else ring_in_disc_moments(r, radius)).qy
+
+    return 2 * first_moment(_above_axis(ring)) - first_moment(ring)
 
 
-def _half_first_moment_wall(section: "Section", turn: float) -> float:
-    """∫|y| dA over the finished wall: the disc's 4R³/3 less the bore's, less the voids' when there are any."""
+def _half_first_moment_wall(section: "Section", turn: float, bore: float) -> float:
+    """∫|y| dA over the finished wall: the disc's 4R³/3 less the bore's (``bore``), or with voids the staves'
+    own, each clipped by the round."""
     disc = 4 * section.radius**3 / 3
-    bore = _half_first_moment(Polygon(bore_ring(section.staves, section.inner_apothem)), turn, None)
     if section.void_area <= 0:
         return disc - bore
     staves = placed_ring(Polygon(section.stave_outline), section.staves, range(section.staves))

@@ -12,7 +12,7 @@ from __future__ import annotations
 from dataclasses import dataclass, replace
 from typing import TYPE_CHECKING
 
-from ..checks.ratios import StationCheck, check_station
+from ..checks.ratios import StationCheck, check_station, meets
 from ..errors import DesignError, InputError
 from ..model.spar import AUTO, AUTO_TAPERED, Profile, Spar
 from ..stations.evaluate import SectionCache, Station
@@ -25,9 +25,6 @@ from .wall import BORE_CORNERS, CORNER_MINIMUM, WallSolution, solve_constant_wal
 
 if TYPE_CHECKING:
     from .count import Comparison
-
-VERIFY_TOLERANCE = 1e-12  # relative: roundoff allowed below a target when checking again
-
 
 class Shortfall(RuntimeError):
     """A solved size falls short at a point when checked again on the exact section (a bug, not bad input)."""
@@ -61,7 +58,7 @@ def _least(spar: Spar, sections: SectionCache | None = None) -> str:
         check = _exact_check(spar, point, sections)
         for c in criteria:
             ratio = c.ratio(check)
-            if ratio < c.target * (1 - VERIFY_TOLERANCE):
+            if not meets(ratio, c.target):  # the checks' own rule, roundoff forgiven
                 raise Shortfall(f"sizing left {c.name} {ratio!r} below {c.target!r} at {place(spar, point)}")
         if point.at_station:
             for name, ratio in ((EI_RATIO, check.ei_ratio), (STRENGTH_RATIO, check.strength_ratio)):
