@@ -30,12 +30,13 @@ from test_dxf import MM_PER, read_dxf
 from stavegen.model.loader import parse_spar
 from stavegen.pipeline import design
 from stavegen.render.dxf_templates import CUT, write_templates
-from stavegen.render.pdf_fullsize import write_fullsize
+from stavegen.render.pdf_fullsize import pages_of, sheet, write_fullsize
 from stavegen.section.oval import normal_angle
 from stavegen.section.regions import STAVE, STRIP
 from stavegen.stations.evaluate import SectionCache, plug_at_station, regions_at
 
 GRID = 0.1  # mm: the metric builder's grid (docs/conventions.md)
+PT_PER_MM = 72 / 25.4  # 1 in = 72 pt = 25.4 mm, exactly
 
 
 def grooved_spar(joint: str, taper: str, oval: bool = False):
@@ -72,7 +73,8 @@ def built(request, tmp_path_factory):
     write_fullsize(d, folder / "t.pdf")
     with pdfplumber.open(folder / "t.pdf") as pdf:
         text = "\n".join(page.extract_text() or "" for page in pdf.pages)
-    return d, read_dxf(folder / "t.dxf"), text
+        curves = [[(c["x0"], c["x1"], c["top"], c["bottom"]) for c in page.curves + page.lines] for page in pdf.pages]
+    return d, read_dxf(folder / "t.dxf"), text, curves
 
 
 def _to_stave(geometry, turn: float):
@@ -81,7 +83,7 @@ def _to_stave(geometry, turn: float):
 
 
 def test_the_cut_groove_is_the_strip_the_checks_count(built):
-    d, dxf, _ = built
+    d, dxf, _, _ = built
     spar, layout = d.spar, d.layout
     unit = MM_PER[spar.units]
     strip = spar.hollow.strips[0]
@@ -164,7 +166,7 @@ def test_the_cut_groove_is_the_strip_the_checks_count(built):
 
 
 def test_the_groove_on_every_piece_and_in_both_renderers(built):
-    d, dxf, text = built
+    d, dxf, text, _ = built
     layout = d.layout
     strip = d.spar.hollow.strips[0]
     notes = {t.first(1) for t in dxf.on("TEXT-LABELS", "TEXT") if t.first(1).startswith("GROOVE")}
@@ -186,3 +188,25 @@ def test_the_groove_on_every_piece_and_in_both_renderers(built):
     assert names["width"].value == strip.width and names["width"].kind == "at-least"
     assert names["deep"].kind == "groove-depth"
     assert "middle" in step.text and "batten" in step.text
+
+
+def test_the_fullsize_pdf_draws_both_edges_at_one_to_one(built):
+    """On the first page showing a piece, pdfplumber finds the groove's two edge lines: each as long as the groove
+    on the piece and lying the groove's width apart, in points (1 mm = 72/25.4 pt)."""
+    d, _, _, curves = built
+    s = sheet(d)
+    checked = 0
+    for place in s.placements:
+        for groove in place.template.grooves:
+            page = curves[pages_of(s, place)[0].page - 1]
+            long = (groove.end - groove.start) * PT_PER_MM
+            (lower, upper) = groove.edges
+            rise = [(max(y for _, y in e) - min(y for _, y in e)) * PT_PER_MM for e in (lower, upper)]
+            found = [c for c in page if abs((c[1] - c[0]) - long) < 0.05 and
+                     any(abs((c[3] - c[2]) - r) < 0.05 for r in rise)]
+            assert len(found) >= 2, place.template.labels
+            tops = sorted(c[2] for c in found)
+            width = groove.width * PT_PER_MM
+            assert any(abs((b - a) - width) < 0.05 for a in tops for b in tops), place.template.labels
+            checked += 1
+    assert checked
