@@ -298,3 +298,28 @@ def test_piece_wider_than_every_board():
 def test_no_pieces_no_boards():
     order = order_lumber([], stock([140.0], [3000.0]))
     assert order.boards == () and order.board_feet == 0 and order.yield_ratio == 0
+
+
+def test_a_layout_solves_the_same_cutting_problem_once(monkeypatch):
+    """Pieces measured twice (on the stave plan, then as cut) that differ by roundoff pose one problem: with a
+    shared ``solved`` record the second order reuses the first solve, and its boards still pass every rule of
+    ``check_order`` (fit, kerf, each piece once) for the second pieces with the same board feet; pieces that
+    differ by half a millimetre are a new problem."""
+    import stavegen.layout.lumber as lumber
+
+    calls = []
+    real = lumber._solve
+    monkeypatch.setattr(lumber, "_solve", lambda *a, **k: calls.append(1) or real(*a, **k))
+    s = stock([5.5 * IN, 7.25 * IN], [8 * FT, 12 * FT])
+    first = [piece(i, (5 + i % 3) * FT, (1.25 + 0.125 * (i % 2)) * IN) for i in range(1, 9)]
+    again = [Piece(p.label, p.stave, p.segment, p.length + 1e-12, p.width * (1 + 1e-13), p.volume) for p in first]
+    apart = [Piece(p.label, p.stave, p.segment, p.length, p.width + 0.5, p.volume) for p in first]
+    solved: dict = {}
+    one = order_lumber(first, s, solved=solved)
+    two = order_lumber(again, s, solved=solved)
+    assert len(calls) == 1
+    check_order(two, again, s)
+    assert two.board_feet == pytest.approx(one.board_feet, abs=1e-9)
+    assert two.board_feet == pytest.approx(order_lumber(again, s).board_feet, abs=1e-9)  # a fresh solve agrees
+    order_lumber(apart, s, solved=solved)
+    assert len(calls) == 3

@@ -207,3 +207,25 @@ def test_head_load_is_named_and_stiffness_per_unit_load_is_given():
     named = json.loads(to_json(design(parse_spar(spar_dict(spar={"head_load": "225 lbf"}), "x.toml"))))
     assert named["beam"]["head_load_N"] == pytest.approx(225 * 4.4482216152605)
     assert named["beam"]["head_load_given"] is True
+
+
+def test_a_head_load_that_bends_the_plan_past_a_tenth_of_its_length_is_warned():
+    """Beam theory (small deflections, PL³/3EI for a cantilever of constant section, Roark Table 8.1 case 1a):
+    the linear head deflection means little past about a tenth of the length. A slender test spar under the
+    1 kN default bends further than that: the check says so in one sentence, with a load that would bend it
+    2 % (linear, so load × 0.02 / bent), and none is said under that load."""
+    from stavegen.checks.advice import warnings_for
+    from stavegen.checks.assess import assess
+
+    shape = {"plan": {"stations": [[0, 40], [3000, 40]]}, "hollow": {"wall": 8, "staves": 6}}
+    result = assess(parse_spar(spar_dict(**shape), "x.toml"))
+    bent = result.plan.tip_deflection / result.spar.length
+    e = result.spar.plan.wood.moe
+    assert result.plan.tip_deflection == pytest.approx(1000.0 * 3000.0**3 / (3 * e * math.pi * 40.0**4 / 64), rel=1e-6)
+    assert bent > 0.1
+    said = [w for w in warnings_for(result) if w.startswith("The head load")]
+    assert len(said) == 1 and "\n" not in said[0] and "spar.head_load" in said[0]
+    gentle = 1000.0 * 0.02 / bent  # N
+    quiet = assess(parse_spar(spar_dict(**shape, spar={"head_load": f"{gentle:.6f} N"}), "x.toml"))
+    assert quiet.plan.tip_deflection / quiet.spar.length == pytest.approx(0.02, rel=1e-3)
+    assert not [w for w in warnings_for(quiet) if w.startswith("The head load")]

@@ -9,6 +9,8 @@ from .assess import Assessment
 # Common practice (no source): scarf slope at least 8:1; end allowance 2 to 4 in per stave end.
 MIN_SCARF_RATIO = 8.0
 END_ALLOWANCE_RANGE_MM = (50.8, 101.6)
+# Beam theory (small deflections): the linear head deflection means little past about a tenth of the length.
+LINEAR_DEFLECTION_LIMIT = 0.1
 
 
 def warnings_for(result: Assessment) -> list[str]:
@@ -43,6 +45,15 @@ def warnings_for(result: Assessment) -> list[str]:
     if hollow.lamination_factor > 1.0:
         out.append(f"A lamination factor of {hollow.lamination_factor:g} credits the staves with more stiffness "
                    "than their wood has; 1.0 takes no credit.")
+    bent = result.plan.tip_deflection / spar.length
+    if bent > LINEAR_DEFLECTION_LIMIT:
+        unit = system(spar.units)
+        out.append(f"The head load ({unit.force(result.head_load)}"
+                   f"{'' if spar.head_load_given else ', the reference load'}) bends the plan's spar "
+                   f"{unit.length(result.plan.tip_deflection)} at the head, {100 * bent:.0f} % of its length: far "
+                   "outside the small deflections the figure is worked for. The hollow / plan ratios and the head "
+                   f"stiffness still hold; for readable deflections name a smaller spar.head_load (about "
+                   f"{unit.force(result.head_load * 0.02 / bent)} bends the plan's head 2 % of its length).")
     for joint in result.joints:
         out += joint.warnings()
     return out

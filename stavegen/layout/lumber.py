@@ -64,6 +64,7 @@ from ..units import format_length
 MM_PER_INCH = 25.4
 BOARD_FOOT_MM3 = 144.0 * MM_PER_INCH**3  # one board foot, mm³
 SAME = 0.01  # mm: pieces this close in length and in width are cut as one type
+SAME_PROBLEM = 1e-9  # mm: cutting problems whose types agree to this are one problem (far inside EPS)
 EPS = 1e-6  # mm: slack on every fit test, against rounding in sums
 
 PATTERN_CAP = 4000  # most rip patterns per board length, and slot patterns per board width, enumerated
@@ -964,8 +965,16 @@ def _draw(sizes: list[BoardSize], boards: list[tuple[int, list[list[Piece]]]], k
 # ---------------------------------------------------------------------------- the entry
 
 
+def _problem_key(prob: _Problem, work: Work, pattern_limit: int) -> tuple:
+    """What a solve depends on: the types (sizes on a grid of :data:`SAME_PROBLEM` mm, and how many of each),
+    the board sizes, the gap between pieces and the work limits."""
+    grid = lambda mm: round(mm / SAME_PROBLEM)  # noqa: E731
+    return (tuple((grid(t.length), grid(t.width), t.demand) for t in prob.types),
+            tuple((s.width, s.length, s.board_feet) for s in prob.sizes), prob.kerf, work, pattern_limit)
+
+
 def order_lumber(pieces: list[Piece] | tuple[Piece, ...], stock: Stock, *, units: str = "mm",
-                 work: Work = WORK, pattern_limit: int = PATTERN_CAP) -> LumberOrder:
+                 work: Work = WORK, pattern_limit: int = PATTERN_CAP, solved: dict | None = None) -> LumberOrder:
     """The boards to cut ``pieces`` from, least board feet first, and the order to place.
 
     ``units`` ("mm" or "in") is for error messages only. ``work`` bounds the solve by
@@ -974,6 +983,10 @@ def order_lumber(pieces: list[Piece] | tuple[Piece, ...], stock: Stock, *, units
     per board length or width (0: generate them all). Pieces are ``stock.gap`` apart (the
     kerf, or the router bit). Raises :class:`InputError` for a piece longer (key
     ``stock.lengths``) or wider (``stock.widths``) than every board.
+
+    ``solved``, if given, remembers each cutting problem's solution for one caller's calls (one layout):
+    pieces that are the same to :data:`SAME_PROBLEM` mm (a segment measured on the stave plan and again when
+    cut, the two differing by roundoff) are solved once. The answer depends on the caller's input alone.
     """
     pieces = list(pieces)
     _check(pieces, stock, units)
@@ -982,7 +995,12 @@ def order_lumber(pieces: list[Piece] | tuple[Piece, ...], stock: Stock, *, units
     if not pieces:
         return LumberOrder((), (), (), stock.waste, 0.0, 0.0, "none", True, True, gap=stock.gap)
     prob = _Problem(_group(pieces), sizes, stock.gap)
-    out = _solve(prob, work, pattern_limit)
+    key = _problem_key(prob, work, pattern_limit)
+    out = solved.get(key) if solved is not None else None
+    if out is None:
+        out = _solve(prob, work, pattern_limit)
+        if solved is not None:
+            solved[key] = out
     notes = [] if out.optimal else [
         "the solve stopped at its work limit before the plan was proven least; compare its board feet with the "
         "lower bound"

@@ -124,9 +124,11 @@ def lay_out(spar: Spar, cache: SectionCache | None = None, step: Callable[[str],
         rules = replace(rules, slope_factor=max(p.max_slope_factor() for p in bases))
     if step is not None:
         step("placing the scarfs for the boards")
-    choice = aim_scarfs(base, spar.length, spar.hollow.staves, rules, spar.stock, rough=_rough_width(spar))
+    solved: dict = {}  # cutting problems solved while aiming, reused when the cut segments pose the same one
+    choice = aim_scarfs(base, spar.length, spar.hollow.staves, rules, spar.stock, rough=_rough_width(spar),
+                        solved=solved)
     for scarfs in dict.fromkeys((choice.plan, choice.slack_first)):
-        plans, staves, shop, lumber = cut_and_order(spar, cache, base, scarfs, rules, step)
+        plans, staves, shop, lumber = cut_and_order(spar, cache, base, scarfs, rules, step, solved=solved)
         plan = plans[0]
         # the aimed scarfs were measured on the plan before its segments were cut: should the cut segments need
         # more than measured, the slack-first scarfs are laid out instead
@@ -141,10 +143,11 @@ def lay_out(spar: Spar, cache: SectionCache | None = None, step: Callable[[str],
 
 def cut_and_order(spar: Spar, cache: SectionCache, base: StavePlan, scarfs: ScarfPlan, rules: ScarfRules,
                   step: Callable[[str], None] | None = None, parts: tuple[PartSpan, ...] = (),
-                  extra: tuple[Piece, ...] = ()):
+                  extra: tuple[Piece, ...] = (), solved: dict | None = None):
     """The segments of ``scarfs``, their cutter settings and the boards they are cut from:
     (stave plans, one for each kind of stave, staves, machining, lumber order). ``parts``: a two-piece spar's
-    parts, each cut on its own; ``extra``: further pieces from the same boards (a wooden spigot's layers)."""
+    parts, each cut on its own; ``extra``: further pieces from the same boards (a wooden spigot's layers);
+    ``solved``: cutting problems the layout has solved already (lumber.order_lumber)."""
     plans, staves = _segments(spar, cache, base, scarfs, rules, parts)
     if step is not None:
         step("working out the cutter settings")
@@ -154,7 +157,7 @@ def cut_and_order(spar: Spar, cache: SectionCache, base: StavePlan, scarfs: Scar
     rough = {s.label: s.rough_width for s in shop.segments}
     pieces = [Piece(label=seg.label, stave=seg.stave, segment=seg.index, length=seg.length,
                     width=rough[seg.label], volume=seg.volume) for stave in staves for seg in stave]
-    return plans, staves, shop, order_lumber(pieces + list(extra), spar.stock, units=spar.units)
+    return plans, staves, shop, order_lumber(pieces + list(extra), spar.stock, units=spar.units, solved=solved)
 
 
 def part_plan(base: StavePlan, start: float, end: float) -> StavePlan:

@@ -353,6 +353,7 @@ class _Aim:
         self.half = rules.length / 2
         self.gap = rules.length + rules.stagger
         self._orders: dict[tuple, LumberOrder] = {}
+        self.solved: dict | None = None  # the layout's cutting problems solved so far (lumber.order_lumber)
 
     # -- rules --
 
@@ -423,22 +424,27 @@ class _Aim:
         pieces = self.pieces(centres, phases)
         key = (work, tuple(sorted((p.width, p.length) for p in pieces)))
         if key not in self._orders:
-            self._orders[key] = order_lumber(pieces, self.stock, units=self.rules.units, work=work)
+            self._orders[key] = order_lumber(pieces, self.stock, units=self.rules.units, work=work,
+                                             solved=self.solved)
         return self._orders[key]
 
 
 def aim_scarfs(plan: StavePlan, spar_length: float, staves: int, rules: ScarfRules, stock: Stock,
-               work: AimWork = AIM, rough: Callable[[float], float] | None = None) -> ScarfChoice:
+               work: AimWork = AIM, rough: Callable[[float], float] | None = None,
+               solved: dict | None = None) -> ScarfChoice:
     """Scarfs that keep every rule and need the fewest board feet of the placements tried (see the module).
 
     ``plan`` is the stave before its segments are cut (its stations give face lengths and widths);
     ``rough(widest)`` is a segment's rip width from its widest finished width (default: an edge allowance on
-    each edge). Raises DesignError as :func:`place_scarfs` does when no placement keeps the rules.
+    each edge). ``solved``: the layout's cutting problems solved so far, shared with its other lumber orders
+    (:func:`~stavegen.layout.lumber.order_lumber`). Raises DesignError as :func:`place_scarfs` does when no
+    placement keeps the rules.
     """
     base = place_scarfs(plan.start, plan.end, plan.cut_length, spar_length, staves, rules)
     if base.count == 0:
         return ScarfChoice(base, base, None)
     aim = _Aim(_Geometry(plan, rough), plan.start, plan.end, spar_length, rules, stock)
+    aim.solved = solved
     phases = base.phases
     n_phases = max(phases) + 1
     first = {p: phases.index(p) for p in range(n_phases)}
