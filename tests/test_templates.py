@@ -60,13 +60,20 @@ def test_a_template_marks_its_own_scarfs_and_not_the_other_staves(laid_out):
         assert checked_other > 0
 
 
-def test_dxf_and_fullsize_pdf_draw_the_same_marks(laid_out, tmp_path):
-    spar, layout = laid_out.spar, laid_out.layout
-    unit = MM_PER[spar.units]
-    dxf_path, pdf_path = tmp_path / "t.dxf", tmp_path / "t.pdf"
+@pytest.fixture(scope="module")
+def drawn(laid_out, tmp_path_factory):
+    """The sample's templates DXF and full-size PDF, written once: (the DXF read back, the PDF's path)."""
+    folder = tmp_path_factory.mktemp("drawn")
+    dxf_path, pdf_path = folder / "t.dxf", folder / "t.pdf"
     write_templates(laid_out, dxf_path)
     write_fullsize(laid_out, pdf_path)
-    dxf = read_dxf(dxf_path)
+    return read_dxf(dxf_path), pdf_path
+
+
+def test_dxf_and_fullsize_pdf_draw_the_same_marks(laid_out, drawn):
+    spar, layout = laid_out.spar, laid_out.layout
+    unit = MM_PER[spar.units]
+    dxf, pdf_path = drawn
 
     # The DXF: each outline's mark lines sit at its template's marks, square across the piece.
     outlines = [Polygon([(x * unit, y * unit) for x, y in e.points]) for e in dxf.on(CUT, "LWPOLYLINE")]
@@ -92,7 +99,7 @@ def test_dxf_and_fullsize_pdf_draw_the_same_marks(laid_out, tmp_path):
             assert part in text, part
 
 
-def test_dxf_and_fullsize_pdf_draw_the_same_end_views(laid_out, tmp_path):
+def test_dxf_and_fullsize_pdf_draw_the_same_end_views(laid_out, drawn):
     """The end views are one model (``Layout.end_views``): the DXF's end-view outlines (read back with the
     independent group-code reader) are the model's, shape for shape, and every caption the DXF prints under an
     end view is printed on the full-size PDF's end-view pages too (pdfplumber), unless the view is too large
@@ -104,10 +111,7 @@ def test_dxf_and_fullsize_pdf_draw_the_same_end_views(laid_out, tmp_path):
 
     spar, layout = laid_out.spar, laid_out.layout
     unit = MM_PER[spar.units]
-    dxf_path, pdf_path = tmp_path / "t.dxf", tmp_path / "t.pdf"
-    write_templates(laid_out, dxf_path)
-    write_fullsize(laid_out, pdf_path)
-    dxf = read_dxf(dxf_path)
+    dxf, pdf_path = drawn
     for role in ROLES:
         drawn = sorted(round(Polygon([(x * unit, y * unit) for x, y in e.points]).area, 1)
                        for e in dxf.on(END_LAYERS[role], "LWPOLYLINE"))

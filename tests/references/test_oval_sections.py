@@ -27,7 +27,9 @@ sp_geometry = pytest.importorskip("sectionproperties.pre.geometry")
 sp_section = pytest.importorskip("sectionproperties.analysis.section")
 
 
-def faceted_ellipse(a, b, sides=2880):
+def faceted_ellipse(a, b, sides=960):
+    """The ellipse as a polygon of ``sides`` corners on it: its area short by about (2π/sides)²/6 of the
+    whole (7e-6 at 960), far inside the tolerances below."""
     return Polygon([(a * math.cos(2 * math.pi * i / sides), b * math.sin(2 * math.pi * i / sides))
                     for i in range(sides)])
 
