@@ -165,15 +165,26 @@ def size(
     set_staves: bool = typer.Option(False, "--set-staves", help="With --write, also replace the file's stave count "
                                                                 "with the chosen one."),
     force: bool = typer.Option(False, "--force", help="Let --write overwrite an existing file."),
+    sheathing: bool = typer.Option(False, "--sheathing", help="Instead of the stave counts, compare the spar bare "
+                                   "(no layers, no strips), with its layers only, and with its layers and strips: "
+                                   'what the file leaves "auto" solved for each, side by side.'),
 ) -> None:
     """Compare every stave count (4 to 24) and show why one is chosen; solve the wall where it is "auto"
-    (every spar of a boat)."""
+    (every spar of a boat). With --sheathing, compare the spar with and without its sheathing instead."""
     from dataclasses import replace as _replace
 
     from .boat_commands import is_boat_file, size_boat
 
     if is_boat_file(spar):
+        if sheathing:
+            raise InputError("--sheathing compares one spar; give one of the spar files the boat file lists",
+                             "--sheathing", str(spar))
         return size_boat(spar, write, _console())
+    if sheathing:
+        if write is not None or set_staves:
+            raise InputError("--sheathing writes nothing; leave out --write and --set-staves", "--sheathing",
+                             str(spar))
+        return _size_sheathing(spar)
     from .model.loader import load_spar, read_spar_text
     from .model.rewrite import solved_values, with_solved_values
     from .outputs import not_replaceable, write_file
@@ -254,6 +265,31 @@ def _size_box(path: Path, model, write: Optional[Path], force: bool) -> None:
     was = {"wall": model.hollow.wall, "stations": model.hollow.diameter}
     said = "; ".join(f"hollow.{key} = {value} (was {_as_written(was.get(key))})" for key, value in changes)
     console.print(Prose(f"wrote {write}: {said}"))
+
+
+def _size_sheathing(path: Path) -> None:
+    """``size --sheathing``: the spar bare, with its layers, with its layers and strips, side by side."""
+    from .model.loader import load_spar
+    from .render.console import sheathing_option_notes, sheathing_options_table
+    from .render.fit import Prose, fit
+    from .render.progress import steps
+    from .sheathing_options import compare_sheathing
+
+    model = load_spar(path)
+    console = _console()
+    if not model.hollow.layers and not model.hollow.strips:
+        console.print(Prose(f"{path} has no sheathing layers or strips to compare ([[hollow.layer]], "
+                            "[[hollow.strip]])."))
+        return
+    with steps("sizing the spar bare") as tell:
+        comparison = compare_sheathing(model, tell)
+    for line in model.notices:
+        console.print(Prose(Text("warning: ", style="bold yellow") + Text(line)))
+    if not comparison.solves:
+        console.print(Prose('The file leaves nothing "auto": the options are compared as drawn.'))
+    console.print(fit(sheathing_options_table(comparison)))
+    for line in sheathing_option_notes(comparison):
+        console.print(Prose(line, style="dim"))
 
 
 def _as_written(value: object) -> str:

@@ -178,19 +178,19 @@ def plan_stiffness(spar: Spar, z: float) -> Stiffness:
     return solid_rectangle(spar, fore_aft, athwartships, plan.corner_radius)
 
 
-def hollow_oval(spar: Spar, section, plug: Plug | None) -> Stiffness:
+def hollow_oval(spar: Spar, section, plug: Plug | None, z: float | None = None) -> Stiffness:
     """The oval hollow section in both directions, each read off the section's material regions for bending that
     way (:func:`stavegen.stations.evaluate.oval_regions_at`), as :func:`hollow_round` reads a round's."""
     from ..stations.evaluate import oval_regions_at
 
-    parts = [hollow_round(spar, oval_regions_at(spar, section, plug, way)) for way in DIRECTIONS]
+    parts = [hollow_round(spar, oval_regions_at(spar, section, plug, way, z)) for way in DIRECTIONS]
     return _two_way(parts[0], parts[1], parts[0].mass_per_length)
 
 
 def hollow_stiffness(spar: Spar, section, plug: Plug | None, z: float | None = None) -> Stiffness:
     """The hollow section, round or oval, read off its material regions."""
     if spar.hollow.two_axis:
-        return hollow_oval(spar, section, plug)
+        return hollow_oval(spar, section, plug, z)
     return hollow_round(spar, regions_at(spar, section, plug, z))
 
 
@@ -282,7 +282,7 @@ def check_station(spar: Spar, station: Station) -> StationCheck:
         station=station,
         plan=(solid_round(spar, station.plan_diameter) if spar.plan.shape == "round"
               else plan_stiffness(spar, station.z)),
-        hollow=(hollow_oval(spar, station.section, station.plug) if spar.hollow.two_axis
+        hollow=(hollow_oval(spar, station.section, station.plug, station.z) if spar.hollow.two_axis
                 else hollow_round(spar, regions_of(spar, station))),
         ei_target=ei_target,
         strength_target=strength_target,

@@ -327,9 +327,7 @@ def steps(spar: Spar, plan: StavePlan, m: Machining) -> list[Step]:
     if h.strips and any(strip.place == "inner-face" for strip in h.strips):
         out.append(Step("strips", "Lay the reinforcing tape along the middle of each stave's inner face and let it "
                                   "cure before the glue-up (sheathing and reinforcement table)."))
-    if h.strips and any(strip.place == "groove" for strip in h.strips):
-        out.append(Step("grooves", "Rout the groove along the middle of each stave's outer face and lay the tape "
-                                   "in it before the glue-up (sheathing and reinforcement table)."))
+    out += groove_steps(spar, plan)
     out.append(Step("glue", "Glue up, following the glue maker's instructions; check the spar straight before the "
                             "glue sets."))
     if h.layers:
@@ -402,6 +400,37 @@ def box_steps(spar: Spar, plan: StavePlan, m: Machining) -> list[Step]:
         out.append(Step("round", "Round the four outside corners to a {radius} radius (a round-over bit or a "
                                  "corner template), the whole length.",
                         (Figure("radius", h.corner_radius, "describe"),)))
+    return out
+
+
+def groove_steps(spar: Spar, plan: StavePlan) -> list[Step]:
+    """One step for each strip let into a groove: the bit's width and depth as figures, and how it is centred.
+
+    The groove lies on the stave's middle (half the face's width from the notched edge for a flush birdsmouth
+    or a bevel), whose distance from either edge changes along the taper: no fence set once follows it. Its
+    depth below the outer face is the model's at each station (:func:`stavegen.layout.staves.grooves_at`).
+    """
+    out = []
+    for k, strip in enumerate(spar.hollow.strips, start=1):
+        if strip.place != "groove":
+            continue
+        depths = [g.depth for st in plan.stations for g in st.grooves if g.strip == k]
+        if not depths:
+            continue
+        shallow, deep = min(depths), max(depths)
+        ranged = system(spar.units).on_grid(deep, Way.UP) != system(spar.units).on_grid(shallow, Way.UP)
+        depth_words = "{shallow} to {deep} deep (the depth at each mark on the templates)" if ranged else "{deep} deep"
+        figures = (Figure("width", strip.width, "at-least"),) + (
+            (Figure("shallow", shallow, "groove-depth"),) if ranged else ()) + (Figure("deep", deep, "groove-depth"),)
+        out.append(Step("grooves", f"Rout the groove for strip {k} along each stave's outer face after the taper is "
+                                   "cut and before the glue-up: a straight bit (or a dado set) {width} wide, "
+                                   f"{depth_words} below the outer face as dressed, over the range drawn on the "
+                                   "templates. Centre it on the stave's middle at every station, half the face's width "
+                                   "from the notched edge on a flush birdsmouth or a bevel: the face narrows along the "
+                                   "taper, so no fence set once follows it; guide the router off a batten sprung "
+                                   "through the groove's edge line on the templates (or, where it is centred on the "
+                                   "face, a base with two pins riding both edges). Lay the tape in it and let it cure "
+                                   "(sheathing and reinforcement table).", figures))
     return out
 
 

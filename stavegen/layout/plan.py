@@ -84,7 +84,8 @@ class Layout:
                 face, side = "face rebated on edge 1", "side rebated on edge 1"
             box = {k: (face if kind == 1 else side) for k, kind in enumerate(self.kinds, start=1)}
         return make_templates(self.staves, self.scarfs.centres, self.plan.taper,
-                              notched=self.plan.stations[0].notch_depth is not None, box=box)
+                              notched=self.plan.stations[0].notch_depth is not None, plan_for=self.plan_for,
+                              box=box)
 
     @cached_property
     def end_views(self) -> tuple[EndView, ...]:

@@ -1,7 +1,7 @@
 """Cloth, tape and resin for the sheathing layers and reinforcing strips (the board order is not changed by them).
 
 Cloth: each ply of a layer wraps the spar at the radius it is laid on (the wood's rounded radius plus the
-plies under it), girth 2πr; its net area is ∫ 2πr dz over the layer's stretch, by Simpson's rule between
+plies under it), girth 2πr (on an oval, the wood's ellipse's perimeter plus 2π times the plies under it); its net area is ∫ 2πr dz over the layer's stretch, by Simpson's rule between
 the stations (exact where the diameter tapers linearly: the girth is linear in z). Plies are cut from the
 roll as lengthwise pieces the outermost ply's widest girth plus an overlap wide, as many side by side as the roll's width
 takes. Tape: one strip per stave per ply, the strip's width, its length, slit from tape the data's width. Resin: the laminate's coverage,
@@ -64,9 +64,9 @@ def cloth_and_resin(spar: Spar, cache: SectionCache) -> tuple[ClothItem, ...]:
         for z0, zm, z1 in intervals(zs):
             girths = []
             for z in (z0, zm, z1):
-                base = cache.at(z, cover=zm).radius + under
-                girths.append(sum(2 * math.pi * (base + (i + 0.5) * ply) for i in range(plies)))
-                widest = max(widest, 2 * math.pi * (base + (plies - 0.5) * ply))  # the outermost ply's girth
+                wood = _wood_girth(cache.at(z, cover=zm))
+                girths.append(sum(wood + 2 * math.pi * (under + (i + 0.5) * ply) for i in range(plies)))
+                widest = max(widest, wood + 2 * math.pi * (under + (plies - 0.5) * ply))  # the outermost ply's girth
             area += (z1 - z0) / 6 * (girths[0] + 4 * girths[1] + girths[2])
         net = area / 1e6
         piece = widest + CLOTH_OVERLAP
@@ -89,6 +89,18 @@ def cloth_and_resin(spar: Spar, cache: SectionCache) -> tuple[ClothItem, ...]:
                              pieces, roll, math.ceil(pieces / across) * (end - start) / 1000,
                              None if resin is None else resin * net))
     return tuple(out)
+
+
+def _wood_girth(section) -> float:
+    """The girth of the rounded wood (mm): 2πR for a round; for an oval the ellipse's perimeter, 4a·E(1 − b²/a²)
+    (the complete elliptic integral of the second kind, scipy.special.ellipe). A ply ``d`` outside either lies
+    on the parallel curve, whose girth is 2πd more (a convex curve's parallel)."""
+    if getattr(section, "shape", "round") == "round":
+        return 2 * math.pi * section.radius
+    from scipy.special import ellipe
+
+    a, b = sorted(section.semi_axes, reverse=True)
+    return 4 * a * float(ellipe(1 - (b / a) ** 2))
 
 
 def _overlaps(layer, start: float, end: float, length: float) -> bool:

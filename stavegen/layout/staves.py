@@ -23,6 +23,19 @@ from ..stations.grid import StationMark
 
 
 @dataclass(frozen=True)
+class GrooveAt:
+    """A groove for a strip let into the stave's outer face, at one station (mm): the strip (numbered from 1
+    as the file lists them), its width, where the groove's centre line lies across the face (from the notch
+    edge, or from the bevel edge of a plain stave: the stave's middle in the glued-up section, half the width
+    for a flush birdsmouth or a bevel) and how deep its bottom lies below the stave's outer face as dressed."""
+
+    strip: int
+    width: float
+    centre: float
+    depth: float
+
+
+@dataclass(frozen=True)
 class StaveStation:
     """The stave at one position: widths, thickness and notch (mm)."""
 
@@ -34,6 +47,8 @@ class StaveStation:
     notch_depth: float | None
     apex_height: float | None
     reasons: tuple[str, ...]
+    grooves: tuple[GrooveAt, ...] = ()
+    """The grooves cut at this station (strips with ``place = "groove"`` whose range holds it, ends included)."""
 
 
 @dataclass(frozen=True)
@@ -113,6 +128,45 @@ class StavePlan:
         return 0.0, w
 
 
+def grooves_at(spar: Spar, section, z: float, kind: int = 0) -> tuple[GrooveAt, ...]:
+    """The grooves at ``z`` (mm from the heel) in the stave of ``section`` (the wood's, as the regions take it):
+    each where :func:`~stavegen.stations.evaluate.strip_span` lays its strip, read in the stave's own frame.
+
+    The strip lies on the stave's middle (x = 0 in the section's frame of stave 0), its bottom ``bottom`` mm
+    from the axis; the stave's outer face lies at the outer apothem and its notch edge at
+    ``frame.x_notch_edge``. So the groove's centre is −x_notch_edge across the face from the notch edge and
+    its depth below the outer face a_o − bottom. A groove runs over its strip's range, ends included; none
+    in the end allowances. On an oval (``section`` one kind's stave of it, ``kind`` its index) the strip lies on
+    the stave's middle in its own frame (:func:`stavegen.section.oval_sheath.oval_strip`).
+    """
+    from ..stations.evaluate import strip_span, where
+
+    h = spar.hollow
+    out = []
+    if not 0.0 <= z <= spar.length:
+        return ()
+    for k, strip in enumerate(h.strips, start=1):
+        if strip.place != "groove":
+            continue
+        lo = 0.0 if strip.start is None else strip.start
+        hi = spar.length if strip.end is None else strip.end
+        if not lo - 1e-6 <= z <= hi + 1e-6:
+            continue
+        if section.whole is not None:  # one stave of an oval
+            from ..section.oval_sheath import oval_strip
+
+            middle, bottom, _ = oval_strip(section.whole, strip.width, strip.thickness, strip.place, where(spar, z),
+                                           spar.units).spans[kind]
+            out.append(GrooveAt(strip=k, width=strip.width, centre=middle - section.frame.x_notch_edge,
+                                depth=section.outer_apothem - bottom))
+            continue
+        bottom, _ = strip_span(strip, section.staves, section.radius, section.inner_apothem, where(spar, z),
+                               spar.units)
+        out.append(GrooveAt(strip=k, width=strip.width, centre=-section.frame.x_notch_edge,
+                            depth=section.outer_apothem - bottom))
+    return tuple(out)
+
+
 def kind_of_stave(spar: Spar, stave: int) -> int:
     """The kind (0-based) of stave number ``stave`` (from 1): 0 for every stave of a round; for an oval the
     symmetry class of its place round the section (:func:`stavegen.section.oval.kind_of`)."""
@@ -164,6 +218,7 @@ def stave_plan(spar: Spar, marks: tuple[StationMark, ...], cache: SectionCache, 
             notch_depth=section.notch.depth if section.notch else None,
             apex_height=section.notch.apex_height if section.notch else None,
             reasons=reasons,
+            grooves=grooves_at(spar, section, z, kind),
         ))
         previous = (z, section)
     return StavePlan(stations=tuple(stations), taper=hollow.taper, edge_allowance=allowance,

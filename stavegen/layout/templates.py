@@ -21,8 +21,12 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
+from typing import Callable
+
+import numpy as np
 
 from .segments import Point, Segment
+from .staves import StavePlan
 
 LABEL_GAP = 24.0  # mm along the piece between two marks that both carry figures
 
@@ -52,6 +56,71 @@ class FeatherLine:
 
 
 @dataclass(frozen=True)
+class GroovePoint:
+    """The groove at one place along the piece: ``x`` mm from the template's heel end, ``z`` on the spar, its
+    centre line ``centre`` across the face (the template's y) and its ``depth`` below the outer face (mm)."""
+
+    x: float
+    z: float
+    centre: float
+    depth: float
+
+
+@dataclass(frozen=True)
+class Groove:
+    """A groove along the outer face for a strip let into it (strip numbered from 1 as the file lists them):
+    ``width`` mm wide, centred on the stave's middle at every station, its depth below the outer face at each
+    of ``points`` (the groove's ends on this piece and every station between; straight between them, as the
+    edges are). ``stops_at_start``/``stops_at_end``: the groove ends inside the piece there (its end is drawn
+    across), rather than running out of the piece's end."""
+
+    strip: int
+    width: float
+    points: tuple[GroovePoint, ...]
+    stops_at_start: bool
+    stops_at_end: bool
+
+    @property
+    def edges(self) -> tuple[tuple[Point, ...], tuple[Point, ...]]:
+        """The groove's two edge lines (template coordinates): the one nearer y = 0 first."""
+        half = self.width / 2
+        return (tuple((p.x, p.centre - half) for p in self.points),
+                tuple((p.x, p.centre + half) for p in self.points))
+
+    @property
+    def ends(self) -> tuple[tuple[Point, Point], ...]:
+        """The lines across the groove where it stops inside the piece."""
+        half = self.width / 2
+        out = []
+        for stops, p in ((self.stops_at_start, self.points[0]), (self.stops_at_end, self.points[-1])):
+            if stops:
+                out.append(((p.x, p.centre - half), (p.x, p.centre + half)))
+        return tuple(out)
+
+    @property
+    def start(self) -> float:
+        return self.points[0].x
+
+    @property
+    def end(self) -> float:
+        return self.points[-1].x
+
+    @property
+    def deepest(self) -> float:
+        return max(p.depth for p in self.points)
+
+    @property
+    def shallowest(self) -> float:
+        return min(p.depth for p in self.points)
+
+    def at(self, x: float) -> tuple[float, float]:
+        """(centre, depth) at ``x`` mm along the piece, straight between the points."""
+        xs = [p.x for p in self.points]
+        return (float(np.interp(x, xs, [p.centre for p in self.points])),
+                float(np.interp(x, xs, [p.depth for p in self.points])))
+
+
+@dataclass(frozen=True)
 class Template:
     """One outline to cut out, the segments (identical in shape and ends) it serves, and its marks."""
 
@@ -63,6 +132,7 @@ class Template:
     notched: bool  # the edge along y = 0 takes the birdsmouth's V (else a bevel)
     straight_notch_edge: bool  # False for a symmetric taper (both edges tapered, centre line drawn)
     box_piece: str | None = None  # a box spar's piece: "side", "face" or "rebated face" (square edges)
+    grooves: tuple[Groove, ...] = ()  # grooves for strips let into the outer face
 
     @property
     def segment(self) -> Segment:
@@ -134,29 +204,68 @@ def _feather_lines(seg: Segment) -> tuple[FeatherLine, ...]:
     return tuple(lines)
 
 
-def _key(seg: Segment, own_scarfs: tuple[float, ...]) -> tuple:
+def grooves_on(seg: Segment, plan: StavePlan) -> tuple[Groove, ...]:
+    """The grooves on a piece of a stave of ``plan``: each strip's groove where its stations meet the piece,
+    from its first to its last station on it (or the piece's ends, interpolated: the groove is straight between
+    stations), its centre line measured across the face from the piece's notch edge."""
+    s0 = plan.s_at(seg.start)
+    by_strip: dict[int, list] = {}
+    for st in plan.stations:
+        for g in st.grooves:
+            by_strip.setdefault(g.strip, []).append((st.z, g))
+    out = []
+    for strip, rows in by_strip.items():
+        zs = [z for z, _ in rows]
+        lo, hi = max(zs[0], seg.start), min(zs[-1], seg.end)
+        if hi - lo <= 1e-6:
+            continue
+        inside = [z for z in zs if lo + 1e-9 < z < hi - 1e-9]
+        centres, depths = [g.centre for _, g in rows], [g.depth for _, g in rows]
+        points = []
+        for z in [lo, *inside, hi]:
+            x = plan.s_at(z) - s0
+            notch_y = plan.edges_at(z)[0]
+            points.append(GroovePoint(x=x, z=z, centre=notch_y + _interp(z, zs, centres),
+                                      depth=_interp(z, zs, depths)))
+        out.append(Groove(strip=strip, width=rows[0][1].width, points=tuple(points),
+                          stops_at_start=lo > seg.start + 1e-6, stops_at_end=hi < seg.end - 1e-6))
+    return tuple(out)
+
+
+def _interp(z: float, zs: list[float], values: list[float]) -> float:
+    return float(np.interp(z, zs, values))
+
+
+def _key(seg: Segment, own_scarfs: tuple[float, ...], grooves: tuple[Groove, ...] = ()) -> tuple:
     return (round(seg.start, 6), round(seg.end, 6), seg.scarf_at_start, seg.scarf_at_end,
             tuple((round(x, 6), round(y, 6)) for x, y in seg.outline),
-            tuple((m.kind, round(m.x, 6)) for m in _marks(seg, own_scarfs)))
+            tuple((m.kind, round(m.x, 6)) for m in _marks(seg, own_scarfs)),
+            tuple((g.strip, tuple((round(p.x, 6), round(p.centre, 6), round(p.depth, 6)) for p in g.points))
+                  for g in grooves))
 
 
 def make_templates(staves: tuple[tuple[Segment, ...], ...], scarf_centres: tuple[tuple[float, ...], ...],
-                   taper: str, notched: bool, box: dict[int, str] | None = None) -> tuple[Template, ...]:
-    """Every segment's template, identical pieces (outline, ends and marks) grouped, in cut-list order of
-    their first member. ``notched``: the staves take a birdsmouth V (else they are bevelled); ``box``: a box
-    spar's piece of each stave (by its number), square-edged."""
-    groups: dict[tuple, list[Segment]] = {}
+                   taper: str, notched: bool,
+                   plan_for: Callable[[int], StavePlan] | None = None,
+                   box: dict[int, str] | None = None) -> tuple[Template, ...]:
+    """Every segment's template, identical pieces (outline, ends, marks and grooves) grouped, in cut-list order
+    of their first member. ``notched``: the staves take a birdsmouth V (else they are bevelled); ``plan_for``:
+    the plan of a stave by its number (from 1), for the grooves (none without it); ``box``: a box spar's piece
+    of each stave (by its number), square-edged (pieces of different kinds never share a template)."""
+    groups: dict[tuple, tuple[list[Segment], tuple[Groove, ...]]] = {}
     for stave in staves:
         for seg in stave:
-            groups.setdefault(_key(seg, scarf_centres[seg.stave - 1]), []).append(seg)
+            grooves = grooves_on(seg, plan_for(seg.stave)) if plan_for is not None else ()
+            key = (_key(seg, scarf_centres[seg.stave - 1], grooves), box.get(seg.stave) if box else None)
+            groups.setdefault(key, ([], grooves))[0].append(seg)
     out = []
-    for segs in groups.values():
+    for segs, grooves in groups.values():
         seg = segs[0]
         out.append(Template(
             segments=tuple(segs), marks=_marks(seg, scarf_centres[seg.stave - 1]), feather_lines=_feather_lines(seg),
             heel_end="scarf tip" if seg.scarf_at_start else "square cut",
             head_end="scarf tip" if seg.scarf_at_end else "square cut",
-            notched=notched, straight_notch_edge=taper != "symmetric",
+            notched=notched, straight_notch_edge=taper != "symmetric", grooves=grooves,
             box_piece=box.get(seg.stave) if box else None))
     return tuple(out)
 

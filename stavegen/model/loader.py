@@ -600,12 +600,14 @@ def _hollow(t: _Table, units: str, length: float, plan: Plan) -> Hollow:
     hollow = Hollow(wood=wood, staves=staves, joint=joint, wall=wall, diameter=diameter, diameter_given=given,
                     plugs=plugs, strength_target_given=t.has("min_strength_ratio"), shape=shape,
                     athwartships=athwartships, layers=layers, strips=strips, **t.fields())
-    if (layers or strips) and hollow.two_axis:
-        raise InputError("sheathing layers and reinforcing strips are counted on round spars only (for now)",
-                         "hollow.layer" if layers else "hollow.strip")
+    if (layers or strips) and hollow.is_box:
+        raise InputError("sheathing layers and reinforcing strips are counted on round and oval spars only (a box "
+                         "not yet)", "hollow.layer" if layers else "hollow.strip")
     if layers and isinstance(diameter, Profile):
         for z, d in zip(diameter.z, diameter.value):
             sheath = hollow.sheath(z, length)
+            if isinstance(athwartships, Profile):  # an oval: its smaller dimension
+                d = min(d, float(athwartships.at(z)))
             if 2 * sheath >= d / 2:
                 raise InputError("the layers, {sheath} thick, leave too little wood inside a {d} diameter at {z} "
                                  "from the heel", "hollow.layer", units=units,
@@ -615,7 +617,7 @@ def _hollow(t: _Table, units: str, length: float, plan: Plan) -> Hollow:
         for z, thick in zip(wall.z, wall.value):
             radius = float(diameter.at(z)) / 2 - hollow.sheath(z, length)
             if isinstance(athwartships, Profile):
-                radius = min(radius, float(athwartships.at(z)) / 2)
+                radius = min(radius, float(athwartships.at(z)) / 2 - hollow.sheath(z, length))
             if thick >= radius:
                 raise InputError("wall {wall} is as thick as the spar's radius ({radius}) at {z} from the heel: "
                                  "there is no bore", "hollow.wall", units=units,

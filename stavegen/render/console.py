@@ -16,10 +16,11 @@ from ..model.spar import Spar
 from ..model.woods import Wood
 from ..pipeline import Design
 from ..section.properties import Section
-from ..units import KG_M3_PER_LB_FT3, format_force, format_length, format_mass, stress_in
+from ..units import KG_M3_PER_LB_FT3, format_force, format_length, format_mass, format_small_mass, stress_in
 from .figures import Figures
 from .fit import Prose, fit
-from .wording import FENCE_NOTE, GUARD_NOTE, aimed_words, cutter_rows, order_words, steps_words
+from .wording import (FENCE_NOTE, GUARD_NOTE, REGION_NOTE, aimed_words, cutter_rows, order_words, region_rows,
+                      steps_words)
 
 
 def length(spar: Spar, mm: float | None, tape: bool = False) -> str:
@@ -239,12 +240,31 @@ def print_build_summary(console: Console, design: Design, written: list) -> None
     console.print(Text("Before cutting, read the safety notes on page 1 of the report.", style="bold red"))
 
 
+def regions_table(design: Design) -> Table | None:
+    """The sheathing layers and reinforcing strips, one row each, worded as the report words them
+    (:func:`~stavegen.render.wording.region_rows`); None when the spar has neither."""
+    rows = region_rows(design)
+    if not rows:
+        return None
+    table = Table(title="Sheathing and reinforcement", header_style="bold", title_justify="left",
+                  box=box.SIMPLE_HEAD)
+    for k, head in enumerate(rows[0]):
+        table.add_column(head, justify="right" if k >= 4 else "left", no_wrap=k > 0)  # only the name may wrap
+    for row in rows[1:]:
+        table.add_row(*row)
+    return table
+
+
 def print_check(console: Console, design: Design) -> None:
     console.print(Prose(Text.from_markup(_headline(design.spar))))
     for line in design.solved:
         console.print(Prose(Text("solved: ", style="cyan") + Text(line)))
     console.print(fit(station_table(design)))
     console.print(fit(spar_table(design)))
+    regions = regions_table(design)
+    if regions is not None:
+        console.print(fit(regions, keys=1))
+        console.print(Prose(REGION_NOTE, style="dim"))
     for line in design.warnings:
         console.print(Prose(Text("warning: ", style="bold yellow") + Text(line)))
     console.print(Prose(verdict(design)))
@@ -427,6 +447,43 @@ def candidates_table(spar: Spar, comparison) -> Table:
             style="bold green" if chosen else (None if c.eligible else "dim"),
         )
     return table
+
+
+def sheathing_options_table(comparison) -> Table:
+    """The spar bare, with its layers, and with its layers and strips side by side
+    (:class:`stavegen.sheathing_options.SheathingComparison`): the sizes solved for each, weight, least ratios,
+    and the weight each saves against the bare spar."""
+    table = Table(title="Sheathing compared" + ("" if comparison.solves else " (sizes as drawn)"),
+                  header_style="bold", title_justify="left", box=box.SIMPLE_HEAD, pad_edge=False)
+    heads = ["option", "staves", "wall", "OD, heel to head", "weight", "least\nEI ratio", "least\nstrength ratio",
+             "saves against\nbare", ""]
+    for k, head in enumerate(heads):
+        table.add_column(head, justify="left" if k == 0 else "right", no_wrap=k != len(heads) - 1)
+    for option in comparison.options:
+        if option.design is None:
+            table.add_row(option.name, *["—"] * 7, "cannot be built (below)", style="dim")
+            continue
+        spar, r = option.spar, option.design.assessment
+        fig = Figures(spar)
+        wall = spar.hollow.wall
+        wall_text = (fig.dress(wall.largest) if wall.is_constant
+                     else f"{fig.dress(wall.smallest)}–{fig.dress(wall.largest)}")
+        od = spar.hollow.diameter
+        od_text = f"{fig.dress(float(od.at(0.0)))}–{fig.dress(float(od.at(spar.length)))}"
+        saved = comparison.saved(option)
+        share = saved / comparison.bare.mass if saved is not None and comparison.bare.mass > 0 else 0.0
+        saved_text = ("—" if option is comparison.bare or saved is None else
+                      f"{format_small_mass(saved, spar.units)} ({100 * share:.1f} %)" if saved >= 0 else
+                      f"{format_small_mass(-saved, spar.units)} heavier ({-100 * share:.1f} %)")
+        table.add_row(option.name, str(spar.hollow.staves), wall_text, od_text,
+                      format_small_mass(r.hollow.mass.mass, spar.units), f"{r.weakest_stiffness.ei_ratio:.3f}", f"{r.weakest_strength.strength_ratio:.3f}", saved_text,
+                      "passes" if r.passed else "FAILS", style=None if r.passed else "red")
+    return table
+
+
+def sheathing_option_notes(comparison) -> list[str]:
+    """One line for each option that cannot be built: why (the line its check would end with)."""
+    return [f"{o.name}: cannot be built: {o.refused}" for o in comparison.options if o.design is None]
 
 
 def candidate_notes(comparison) -> list[str]:

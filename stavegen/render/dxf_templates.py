@@ -41,7 +41,7 @@ from ..section.properties import Section
 from ..units import to_unit
 from .csv_cutlist import fails_line
 from .figures import Figures
-from .template_words import edge_names, end_view_caption, feather_note, mark_line
+from .template_words import edge_names, end_view_caption, feather_note, groove_words, mark_line
 from .wording import board_words, dressed_size
 
 Point = tuple[float, float]
@@ -59,8 +59,10 @@ LAYERS: dict[str, tuple[int, int, str]] = {
     "MARK-STATIONS": (94, 18, "station ticks across the stave, and their leaders"),
     "MARK-CENTRE": (8, 18, "the centre line of a stave tapered on both edges: both edges are measured from it"),
     "MARK-SCARFS": (6, 35, "scarf feather lines: where each scarf's slope begins"),
+    "MARK-GROOVES": (4, 25, "grooves for strips let into the outer face: both edge lines and the ends, to rout to "
+                            "the depth given (not to cut through)"),
     "MARK-GRAIN": (30, 25, "grain direction arrows, heel to head"),
-    "TEXT-LABELS": (7, 18, "segment labels, edge names, scarf notes"),
+    "TEXT-LABELS": (7, 18, "segment labels, edge names, scarf and groove notes"),
     "TEXT-STATIONS": (94, 18, "station positions from the heel and stave widths"),
     "END-STAVE": (5, 25, "end views: stave cross-sections, and the staves of the assembled section"),
     "END-BORE": (8, 18, "end views: the bore"),
@@ -264,7 +266,8 @@ class TemplateSheet:
         """Room (below, above) the segment's marks take outside its outline, mm."""
         s = self.style
         marks = self.layout.template_of[seg.label].marks
-        longest = max((s.width_of(mark_line(self.fig, m)) for m in marks if m.labelled), default=0.0)
+        grooves = self.layout.template_of[seg.label].grooves
+        longest = max((s.width_of(mark_line(self.fig, m, grooves)) for m in marks if m.labelled), default=0.0)
         return 3 * 1.8 * s.text, s.text + longest + s.text
 
     # Parts -----------------------------------------------------------------
@@ -295,7 +298,15 @@ class TemplateSheet:
             last = tx
             base = top + s.text
             pen.poly([at(mark.x, b), at(mark.x, top + 0.3 * s.text), at(tx, base - 0.2 * s.text)], "MARK-STATIONS")
-            pen.text(mark_line(self.fig, mark), at(tx + s.text / 2, base), s.text, "TEXT-STATIONS", rotation=90)
+            pen.text(mark_line(self.fig, mark, t.grooves), at(tx + s.text / 2, base), s.text, "TEXT-STATIONS",
+                     rotation=90)
+
+        # Grooves for strips let into the outer face: both edges, their ends inside the piece, and a note.
+        for groove in t.grooves:
+            for edge in groove.edges:
+                pen.poly(_shift(edge, ox, oy), "MARK-GROOVES")
+            for a, b in groove.ends:
+                pen.line(at(*a), at(*b), "MARK-GROOVES")
 
         # Scarfs: the feather line across the face, a note between it and the scarf's tip.
         for line in t.feather_lines:
@@ -342,6 +353,8 @@ class TemplateSheet:
         if not t.straight_notch_edge or not part.marks_outside:
             pen.text(notch_name, at((g[0] + g[1]) / 2, lo + 0.6 * h), h, "TEXT-LABELS",
                      align=TextEntityAlignment.MIDDLE_CENTER)
+        for groove in t.grooves:
+            self.groove_note(at, seg, groove, cuts, (gap(0), gap(1)))
         if not part.marks_outside:
             return
 
@@ -369,6 +382,23 @@ class TemplateSheet:
         pen.text(f"{board.id}: {board_words(board.size, self.units)} board, dressed "
                  f"{dressed_size(board.size, self.units)}. {rips}", (x0, top + 0.8 * s.text), s.text,
                  "TEXT-BOARDS")
+
+    def groove_note(self, at: Callable[[float, float], Point], seg: Segment, groove, cuts: list[float],
+                    taken: tuple[tuple[float, float], ...]) -> None:
+        """The groove's note, along it just above its upper edge, in the longest stretch between marks inside the
+        groove's range that the piece's label and grain arrow (``taken``) leave free, if any."""
+        s = self.style
+        stops = sorted({groove.start, groove.end, *[c for c in cuts if groove.start < c < groove.end]})
+        stretches = sorted(zip(stops, stops[1:]), key=lambda g: g[1] - g[0], reverse=True)
+        free = [g for g in stretches if g not in taken]
+        a, b = (free or stretches)[0]
+        top = max(groove.at(a)[0], groove.at(b)[0]) + groove.width / 2
+        square = min(seg.edges_at(a)[1], seg.edges_at(b)[1])
+        h = min(0.8 * s.text, 0.4 * (square - top))
+        if h <= 0:
+            return
+        self.pen.text(groove_words(self.fig, groove), at(a + s.text, top + 0.3 * h), h, "TEXT-LABELS",
+                      align=TextEntityAlignment.BOTTOM_LEFT)
 
     def grain_arrow(self, at: Callable[[float, float], Point], g: tuple[float, float], lo: float, hi: float) -> None:
         """An arrow along the grain, pointing to the head, in the stretch ``g`` between ``lo`` and ``hi``."""

@@ -22,6 +22,9 @@ it (docs/conventions.md, "Rounding the safe way"):
   height, down (a shallower cut leaves wood).
 - ``notch_depth`` down and ``apex_height`` up: the V to check a cut against,
   both on the side that leaves wood.
+- ``groove_depth``: a groove's depth below the stave's outer face for a strip let into it: up, so the
+  strip lies a little deeper and rounding never cuts into it (the groove's width is ``at_least``: the
+  strip must go in).
 - ``position`` and ``describe``: nearest, for marks along the spar and for
   figures that only describe (the plan's diameters, deflections).
 """
@@ -72,6 +75,9 @@ class Figures:
     def blade(self, mm: float | None) -> str:
         return self.units.length(mm, Way.DOWN)
 
+    def groove_depth(self, mm: float | None) -> str:
+        return self.units.length(mm, Way.UP)
+
     def fence(self, mm: float | None, nearer: bool) -> str:
         """A fence distance: ``nearer`` when moving the fence toward the blade leaves wood on the stave."""
         return self.units.length(mm, Way.DOWN if nearer else Way.UP)
@@ -106,6 +112,7 @@ class Figures:
             "dress": (Way.UP, None), "cut-length": (Way.UP, None), "at-least": (Way.UP, None),
             "least": (Way.DOWN, None), "mark-width": (Way.DOWN, self.width_step),
             "notch-depth": (Way.DOWN, None), "apex-height": (Way.UP, None), "blade": (Way.DOWN, None),
+            "groove-depth": (Way.UP, None),
             "fence-nearer": (Way.DOWN, None), "fence-farther": (Way.UP, None),
             "position": (Way.NEAREST, None), "describe": (Way.NEAREST, None),
         }[kind]

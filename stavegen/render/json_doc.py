@@ -97,6 +97,8 @@ def _station(check: StationCheck) -> dict[str, Any]:
         "glue_line_mm": sec.glue_line,
         "reasons": list(s.reasons),
         "wood_od_mm": 2 * sec.radius,
+        "wood_fore_aft_mm": sec.fore_aft,
+        "wood_athwartships_mm": sec.athwartships,
         "regions": _regions(check),
         "first_limit": None if check.hollow.first_limit is None else {
             "kind": check.hollow.first_limit.region.kind, "label": check.hollow.first_limit.region.label,

@@ -39,7 +39,8 @@ from ..pipeline import Design
 from ..units import MM_PER_INCH, format_length
 from .csv_cutlist import fails_line
 from .figures import Figures
-from .template_words import edge_names, end_view_caption, end_words, feather_note, mark_lines, template_name
+from .template_words import (edge_names, end_view_caption, end_words, feather_note, groove_words, mark_lines,
+                             template_name)
 from .pdf_common import BOLD, FONT, MM, ask_actual_size, build_date, draw_scale_bar, paper_size, source_name, \
     scale_bar_length
 
@@ -341,7 +342,7 @@ def _draw_template(p: _Painter, design: Design, place: Placement) -> None:
         a, b = seg.edges_at(mark.x)
         p.polyline([place.canvas(mark.x, a - 2), place.canvas(mark.x, b + 2)], width=0.35)
         if mark.labelled:
-            first, second = mark_lines(fig, mark)
+            first, second = mark_lines(fig, mark, t.grooves)
             p.text(place.x0 + mark.x, top_y + 3.4, first, size=6.5, align="centre", font=BOLD)
             p.text(place.x0 + mark.x, top_y + 6.6, second, size=6, align="centre")
     # Scarf feather lines: where the slope begins.
@@ -353,6 +354,18 @@ def _draw_template(p: _Painter, design: Design, place: Placement) -> None:
             p.text(place.x0 + line.x + 1, below, note, size=6)
         else:
             p.text(place.x0 + line.x - 1, below, note, size=6, align="right")
+    # Grooves for strips let into the outer face: both edges dashed, the ends across, a note above the groove.
+    for groove in t.grooves:
+        for edge in groove.edges:
+            p.polyline([place.canvas(x, y) for x, y in edge], width=0.35, dash=(4, 1.5))
+        for a, b in groove.ends:
+            p.polyline([place.canvas(*a), place.canvas(*b)], width=0.35)
+        stops = sorted({groove.start, groove.end, *(m.x for m in t.marks if groove.start < m.x < groove.end)})
+        for a, b in zip(stops, stops[1:]):  # the note in every stretch it fits, so each page shows it
+            note = groove_words(fig, groove)
+            if p.c.stringWidth(note, FONT, 5.5) / MM <= b - a - 4:
+                top = max(groove.at(a)[0], groove.at(b)[0]) + groove.width / 2
+                p.text(place.x0 + a + 2, place.y0 - top - 1.0, note, size=5.5)
     heel, head = end_words(t)
     p.text(place.x0, below, heel, size=6)
     p.text(place.x0 + t.length, below, head, size=6, align="right")

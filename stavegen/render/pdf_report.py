@@ -488,9 +488,17 @@ def _oval_section_drawing(r: Report, check: StationCheck) -> list:
     kinds = ", ".join(f"{r.fig.mark_width(kind.width)} ({kind.count} staves: "
                       f"{', '.join(str(m + 1) for m in kind.members)})" for kind in sec.kinds)
     box = sec.joint == "box"
+    regions = check.hollow.regions
+    layers = regions.of_kind("layer") if regions is not None else ()
+    strips = regions.of_kind("strip") if regions is not None else ()
+    wood_words = (f"the wood rounded to {r.fig.dress(sec.fore_aft)} fore-and-aft by {r.fig.dress(sec.athwartships)} "
+                  f"athwartships: the heavy oval (pale: wood taken off in rounding); sheathing (green) to the "
+                  f"finished {r.fig.dress(check.station.fore_aft)} by {r.fig.dress(check.station.athwart)}"
+                  if layers else
+                  f"finished {r.fig.dress(sec.fore_aft)} fore-and-aft by {r.fig.dress(sec.athwartships)} "
+                  f"athwartships: the heavy oval (pale: wood taken off in rounding)")
     notes = [
-        f"{n} staves, {sec.joint}; finished {r.fig.dress(sec.fore_aft)} fore-and-aft by "
-        f"{r.fig.dress(sec.athwartships)} athwartships: the heavy oval (pale: wood taken off in rounding)",
+        f"{n} staves, {sec.joint}; {wood_words}",
         f"stave widths before the notch, widest first: {kinds}; stave 1 faces athwartships, numbered "
         f"counter-clockwise looking from the heel",
         f"stave thickness {r.fig.dress(sec.thickness)}, wall {r.fig.dress(check.station.wall)}",
@@ -499,7 +507,7 @@ def _oval_section_drawing(r: Report, check: StationCheck) -> list:
         f"{r.length(sec.across_flats_athwartships)} athwartships" + ("; plugged here (grey)" if check.station.plug
                                                                      else ""),
         f"scale {_scale_words(sa, sb)} when printed at 100 %",
-    ]
+    ] + (["reinforcing strips in black"] if strips else [])
     if box:
         from ..section.box import KIND_NAMES
 
@@ -528,12 +536,20 @@ def _oval_section_drawing(r: Report, check: StationCheck) -> list:
     oval = [v for x, y in sec.finished_points(240) for v in (cx + x * k, cy + y * k)]
     for ring in rings:
         d.add(Polygon(ring, fillColor=PALE_WOOD, strokeColor=None))
+    for layer in reversed(layers):  # the sheathing over the rounded wood, outermost first (its outside drawn)
+        outside = layer.geometry.exterior.coords
+        d.add(Polygon([v for x, y in outside for v in (cx + x * k, cy + y * k)], fillColor=SHEATHING,
+                      strokeColor=colors.black, strokeWidth=0.3))
     d.add(Polygon(oval, fillColor=WOOD, strokeColor=None))
     for ring in rings:
         d.add(Polygon(ring, fillColor=None, strokeColor=colors.Color(0.45, 0.35, 0.2), strokeWidth=0.4))
     d.add(Polygon([v for x, y in sec.bore_points() for v in (cx + x * k, cy + y * k)],
                   fillColor=colors.Color(0.82, 0.82, 0.82) if check.station.plug else colors.white,
                   strokeColor=colors.Color(0.45, 0.35, 0.2), strokeWidth=0.4))
+    for strip in strips:
+        for part in getattr(strip.geometry, "geoms", [strip.geometry]):
+            d.add(Polygon([v for x, y in part.exterior.coords for v in (cx + x * k, cy + y * k)],
+                          fillColor=colors.Color(0.15, 0.15, 0.15), strokeColor=None))
     d.add(Polygon(oval, fillColor=None, strokeColor=colors.black, strokeWidth=1.1))
     for i, ring in enumerate(rings_mm):  # stave numbers on the outer faces
         mx = sum(x for x, _ in ring) / len(ring)
@@ -545,7 +561,7 @@ def _oval_section_drawing(r: Report, check: StationCheck) -> list:
     d.add(String(cx + half + 6, cy - 2.5, "fore-and-aft", fontName=ITALIC, fontSize=7, fillColor=axis))
     d.add(String(cx + 3, cy + half + 6, "athwartships", fontName=ITALIC, fontSize=7, fillColor=axis))
     _dim(d, (cx - a_mm * k, cy - b_mm * k - 6), (cx + a_mm * k, cy - b_mm * k - 6),
-         f"fore-and-aft {r.fig.dress(sec.fore_aft)}", (cx, cy - b_mm * k - 15))
+         f"{'wood ' if layers else ''}fore-and-aft {r.fig.dress(sec.fore_aft)}", (cx, cy - b_mm * k - 15))
     _check_bar(d, 0, 4, r, k)
     out = _section_page_head(r, check, d, notes, height)
     for kind in sec.kinds:

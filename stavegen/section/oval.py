@@ -92,6 +92,9 @@ class OvalSection:
     voids: Moments
     overlap: float
     shape: str = "oval"
+    face_middles: tuple[float, ...] = ()
+    """Each stave's middle along its face (x in its own frame): half-way between the corners it shares with its
+    neighbours on the glued-up polygon, where a reinforcing strip is centred."""
 
     @cached_property
     def _finished_polygon(self) -> Polygon:
@@ -395,13 +398,14 @@ def evaluate_oval(staves: int, joint: Joint, fore_aft: float, athwartships: floa
     if min(inner) <= 0:
         raise DesignError(f"wall {show(t)} is too thick for the bore{at}: the staves' inner faces would meet at "
                           "the axis", "hollow.wall")
-    frames, outlines, widths = [], [], []
+    frames, outlines, widths, middles = [], [], [], []
     for k in range(staves):
         nxt, prv = (k + 1) % staves, (k - 1) % staves
         u = (normals[k][1], -normals[k][0])
         left = _line_meet(normals[k], outer[k], normals[nxt], outer[nxt])  # shared with the next stave (notch side)
         right = _line_meet(normals[k], outer[k], normals[prv], outer[prv])
         x_left, x_right = u[0] * left[0] + u[1] * left[1], u[0] * right[0] + u[1] * right[1]
+        middles.append((x_left + x_right) / 2)
         if notch is None:
             frame = StaveFrame(x_left, x_right, inner[k], outer[k], None)
             poly = _bevel_polygon(frame, staves, x_left, x_right)
@@ -451,6 +455,7 @@ def evaluate_oval(staves: int, joint: Joint, fore_aft: float, athwartships: floa
         staves=staves, joint=joint.kind, fore_aft=fore_aft, athwartships=athwartships, thickness=t, notch=notch,
         outer_apothems=tuple(outer), widths=tuple(widths), frames=tuple(frames), outlines=tuple(outlines),
         bore_outline=tuple(bore_ring), wall=wall, bore=bore, voids=voids, overlap=overlap,
+        face_middles=tuple(middles),
     )
 
 

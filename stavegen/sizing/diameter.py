@@ -95,8 +95,11 @@ def _oval_scale_range(spar: Spar, point: Point) -> tuple[float, str, float, str]
     low, low_by = (1.0, PLAN) if bore <= 1.0 else (bore, BORE_CLOSES)
     high_by = CORNER_MINIMUM if corner else BORE_CORNERS
 
+    sheath = 2 * h.sheath(point.z, spar.length) if h.layers else 0.0  # the wood is rounded inside the layers
+
     def excess(k: float) -> float:
-        return corner_reach(h.staves, k * fore_aft, k * athwartships, t, h.planing_allowance, corner) - 1.0
+        return corner_reach(h.staves, k * fore_aft - sheath, k * athwartships - sheath, t, h.planing_allowance,
+                            corner) - 1.0
 
     if excess(low) >= 0:
         return low, low_by, low * (1 - 1e-9), high_by

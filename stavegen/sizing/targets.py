@@ -112,7 +112,8 @@ def station_at(spar: Spar, point: Point, radius: float, wall: float, section) ->
                    wall=wall, plug=point.plug, section=section,
                    plan_athwartships=(float(spar.plan.athwartships.at(point.z)) if spar.plan.athwartships is not None
                                       else None),
-                   athwartships=section.athwartships if two else None)
+                   athwartships=section.athwartships + 2 * (radius - wood_radius(spar, radius, point.z)) if two
+                   else None)
 
 
 def check_at(spar: Spar, point: Point, radius: float, wall: float) -> StationCheck:
@@ -125,8 +126,9 @@ def check_at(spar: Spar, point: Point, radius: float, wall: float) -> StationChe
     """
     thickness = system(spar.units).on_grid(wall, Way.UP)
     if spar.hollow.two_axis:
-        section = two_axis_section(spar, 2 * radius, 2 * radius * athwartships_share(spar, point.z), wall,
-                               place(spar, point), thickness=thickness)
+        wood = wood_radius(spar, radius, point.z)
+        section = two_axis_section(spar, 2 * wood, 2 * radius * athwartships_share(spar, point.z) - 2 * (radius - wood),
+                               wall, place(spar, point), thickness=thickness)
     else:
         section = hollow_section(spar, wood_radius(spar, radius, point.z), wall, place(spar, point),
                                  thickness=thickness)

@@ -83,8 +83,10 @@ def oval_wall_range(spar: Spar, z: float) -> tuple[float, str, float]:
     from ..section.oval import corner_reach
 
     h = spar.hollow
+    sheath = 2 * h.sheath(z, spar.length) if h.layers else 0.0  # the wood is rounded inside the layers
     fore_aft = float(h.diameter.at(z))
-    athwartships = fore_aft * athwartships_share(spar, z)
+    athwartships = fore_aft * athwartships_share(spar, z) - sheath
+    fore_aft -= sheath
     corner = h.min_corner_wall or 0.0
     thickest = min(fore_aft, athwartships) / 2 * (1 - 1e-9)
 
@@ -204,7 +206,11 @@ def _cap(spar: Spar, point: Point, by: str, limit: float, criteria: tuple[Criter
     if by == NO_BORE:
         return (f"at {place(spar, point)} a wall that thick leaves no bore: the staves would meet at the axis "
                 f"(finished radius {format_length(_radius(spar, point.z), spar.units)})")
-    name = next(c for c in criteria if c.name == by)
+    name = next((c for c in criteria if c.name == by), None)
+    if name is None:  # a bound of the geometry, not of a criterion (the notch, the oval's thickest wall)
+        what = ("the notch closes no thicker stave at the seams" if by in (NOTCH, NOTCH_UPPER)
+                else "the staves' inner faces would cross over" if by == BORE_CORNERS else by)
+        return f"at {place(spar, point)} no wall over {format_exact(limit, spar.units)} can be built ({what})"
     why = ("the plug there is stiffer than the staves" if point.plug is not None
            else "thicker walls open larger voids in the notches")
     return (f"at {place(spar, point)} the {name.name} falls below {name.target:.3f} with any wall over "

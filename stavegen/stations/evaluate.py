@@ -52,21 +52,31 @@ class Station:
         return self.plan_athwartships if self.plan_athwartships is not None else self.plan_diameter
 
 
-def _oval_stave_shape(section) -> object:
+def _oval_stave_shape(section, grooved: tuple = ()) -> object:
     """An oval's finished staves as shapely polygons: each clipped by the oval drawn as a 720-sided polygon
-    (drawing and outside measurement only, the figures are exact)."""
+    (drawing and outside measurement only, the figures are exact), less the grooves (strip and the wood over it)."""
     import shapely
     from shapely.geometry import Polygon
 
     oval = Polygon(section.finished_points(720))
-    pieces = [Polygon(ring).intersection(oval) for ring in section.placed_rings()]
-    return shapely.MultiPolygon([p for p in pieces if not p.is_empty and p.geom_type == "Polygon"])
+    cuts = [Polygon(r) for made in grooved for r in (*made.rings, *made.covers)]
+    pieces = []
+    for ring in section.placed_rings():
+        piece = Polygon(ring).intersection(oval)
+        for cut in cuts:
+            piece = piece.difference(cut)
+        pieces += [p for p in getattr(piece, "geoms", [piece]) if not p.is_empty and p.geom_type == "Polygon"]
+    return shapely.MultiPolygon(pieces)
 
 
-def _oval_bore_shape(section) -> object:
+def _oval_bore_shape(section, strips: tuple = ()) -> object:
     from shapely.geometry import Polygon
 
-    return Polygon(section.bore_points())
+    bore = Polygon(section.bore_points())
+    for made in strips:
+        for ring in made.rings:
+            bore = bore.difference(Polygon(ring))
+    return bore
 
 
 def _turned(m, across: bool):
@@ -76,26 +86,61 @@ def _turned(m, across: bool):
     return Moments(m.area, m.qy, m.qx, m.iyy, m.ixx, m.ixy) if across else m
 
 
-def oval_regions_at(spar: Spar, section, plug: Plug | None, direction: str = "athwartships") -> RegionSection:
+def oval_regions_at(spar: Spar, section, plug: Plug | None, direction: str = "athwartships",
+                    z: float | None = None) -> RegionSection:
     """The material regions of an oval section for bending in ``direction`` ("fore_aft" or "athwartships").
 
     A RegionSection bends about its horizontal axis (∫y² dA): as drawn, that is bending athwartships; for
     fore-and-aft bending the integrals are turned a quarter (x and y exchanged). Each region's ``reach`` is its
     farthest fibre across that axis (the oval's half-dimension for the staves, the bore's for a plug) and its
-    ``plastic`` the plastic modulus that way; the geometry is the oval's as drawn.
+    ``plastic`` the plastic modulus that way; the geometry is the oval's as drawn (the staves' and the plug's only
+    for bending athwartships, the layers' and strips' both ways, for drawing). ``section`` is the wood's
+    (rounded to the finished oval less the layers at ``z``); the strips in every stave and the layers over the
+    wood that cover ``z`` are counted (:mod:`stavegen.section.oval_sheath`); ``z`` None: none.
     """
+    from ..section.oval_sheath import OvalLayer, groove_cover_abs_moment, groove_cover_moments, oval_strip
+
     h = spar.hollow
     wood = h.wood
     across = direction == "fore_aft"
     a, b = section.semi_axes
     z_wall, z_bore = section.plastic_moduli_fore_aft if across else section.plastic_moduli_athwartships
     bore_reach = max(abs(x if across else y) for x, y in section.bore_points())
-    regions = [Region(STAVE, wood, _turned(section.wall, across), a if across else b,
+    wall, bore = section.wall, section.bore
+    strip_regions, grooved, in_bore = [], [], []
+    for strip in (h.strips_at(z, spar.length) if z is not None else ()):
+        made = oval_strip(section, strip.width, strip.thickness, strip.place, where(spar, z), spar.units)
+        ring = made.moments
+        if strip.place == "groove":
+            cover = groove_cover_moments(made, a, b)
+            wall = wall - ring - cover
+            z_wall -= made.abs_moment(across) + groove_cover_abs_moment(made, a, b, across)
+            grooved.append(made)
+        else:
+            bore = bore - ring
+            z_bore -= made.abs_moment(across)
+            in_bore.append(made)
+        strip_regions.append(Region(STRIP, strip.material, _turned(ring, across), made.reach(across),
+                                    strip.material.moe, shape=made.shape, pieces=section.staves,
+                                    label=f"strip {h.strips.index(strip) + 1}"))
+    regions = [Region(STAVE, wood, _turned(wall, across), a if across else b,
                       h.lamination_factor * wood.moe, plastic=z_wall,
-                      shape=None if across else partial(_oval_stave_shape, section), pieces=section.staves)]
+                      shape=None if across else partial(_oval_stave_shape, section, tuple(grooved)),
+                      pieces=section.staves, label="staves")]
     if plug is not None:
-        regions.append(Region(PLUG, plug.wood, _turned(section.bore, across), bore_reach, plug.wood.moe,
-                              plastic=z_bore, shape=None if across else partial(_oval_bore_shape, section)))
+        regions.append(Region(PLUG, plug.wood, _turned(bore, across), bore_reach, plug.wood.moe,
+                              plastic=z_bore, shape=None if across else partial(_oval_bore_shape, section,
+                                                                                   tuple(in_bore)),
+                              label="plug"))
+    regions += strip_regions
+    inner = 0.0
+    for k, layer in enumerate(h.layers):
+        if z is None or not layer.covers(z, spar.length):
+            continue
+        made = OvalLayer(a, b, inner, inner + layer.thickness)
+        regions.append(Region(LAYER, layer.material, _turned(made.moments, across), made.reach(across),
+                              layer.material.moe, shape=made.shape, label=f"layer {k + 1}"))
+        inner += layer.thickness
     return section_of(regions, wood.moe)
 
 
@@ -154,6 +199,24 @@ def _rectangle_ring(staves: int, width: float, bottom: float, top: float) -> Mom
     return Moments(staves * width * h, 0.0, 0.0, half, half, 0.0)
 
 
+def _groove_cover(staves: int, radius: float, width: float, top: float) -> Moments:
+    """What a groove takes out over its strip, in every stave: [−w/2, w/2] × [top, ∞) inside the round of
+    ``radius`` (the sliver between the strip's top and the round, cut away with the groove), exact for the
+    polygon clipped by the disc, turned by 2π/N (isotropic, as :func:`_rectangle_ring`)."""
+    from ..section.integrals import polygon_in_disc_moments
+
+    w = width / 2
+    one = polygon_in_disc_moments([[(-w, top), (w, top), (w, radius + 1.0), (-w, radius + 1.0)]], radius)
+    half = staves * one.polar / 2
+    return Moments(staves * one.area, 0.0, 0.0, half, half, 0.0)
+
+
+def cover_centre(radius: float, width: float, top: float) -> float:
+    """Roughly where the sliver over a grooved strip lies from the axis (mm): between the strip's top and the
+    round, for the plastic modulus (a point at its centroid, as the strips are taken)."""
+    return (top + radius) / 2
+
+
 def _ring_abs_y(staves: int, area: float, centre: float) -> float:
     """∫|y| dA of N small pieces of ``area`` at ``centre`` mm from the axis on each stave's axis (the diameter
     through stave 0's middle, as the wall's plastic modulus is taken): the pieces as points at their centroids."""
@@ -199,7 +262,7 @@ def regions_at(spar: Spar, section: Section, plug: Plug | None, z: float | None 
     layers or strips.
     """
     if getattr(section, "shape", "round") != "round":  # an oval: its regions as drawn, bending athwartships
-        return oval_regions_at(spar, section, plug)
+        return oval_regions_at(spar, section, plug, z=z)
     h = spar.hollow
     wood = h.wood
     z_wall, z_bore = section.plastic_moduli
@@ -212,9 +275,11 @@ def regions_at(spar: Spar, section: Section, plug: Plug | None, z: float | None 
         bottom, top = strip_span(strip, n, section.radius, section.inner_apothem, where(spar, z), spar.units)
         ring = _rectangle_ring(n, strip.width, bottom, top)
         cut = _ring_abs_y(n, strip.width * (top - bottom), (top + bottom) / 2)
-        if strip.place == "groove":
-            wall, z_wall = wall - ring, z_wall - cut
-            grooved.append((strip.width, bottom, top))
+        if strip.place == "groove":  # the groove is cut from the outer face: no wood over the strip either
+            cover = _groove_cover(n, section.radius, strip.width, top)
+            wall = wall - ring - cover
+            z_wall = z_wall - cut - _ring_abs_y(n, cover.area / n, cover_centre(section.radius, strip.width, top))
+            grooved.append((strip.width, bottom, section.radius + 1.0))
         else:
             bore, z_bore = bore - ring, z_bore - cut
             in_bore.append((strip.width, bottom, top))
@@ -360,8 +425,8 @@ class SectionCache:
         spar = self.spar
         radius = wood_radius(spar, float(spar.hollow.diameter.at(z)) / 2, z if cover is None else cover)
         wall = float(spar.hollow.wall.at(z))
-        if spar.hollow.two_axis:
-            athwartships = float(spar.hollow.athwartships.at(z))
+        if spar.hollow.two_axis:  # the wood's oval: the finished one less the layers all round
+            athwartships = float(spar.hollow.athwartships.at(z)) - 2 * (float(spar.hollow.diameter.at(z)) / 2 - radius)
             key = (round(radius, 9), round(wall, 9), round(athwartships, 9))
             section = self._cache.get(key)
             if section is None:
@@ -389,13 +454,13 @@ def evaluate_stations(spar: Spar, marks: tuple[StationMark, ...] | None = None,
             z=mark.z,
             reasons=mark.reasons,
             plan_diameter=float(spar.plan.diameter.at(mark.z)),
-            diameter=section.fore_aft if spar.hollow.two_axis else float(spar.hollow.diameter.at(mark.z)),
+            diameter=float(spar.hollow.diameter.at(mark.z)),
             wall=float(spar.hollow.wall.at(mark.z)),
             plug=plug,
             section=section,
             plan_athwartships=(float(spar.plan.athwartships.at(mark.z)) if spar.plan.athwartships is not None
                                else None),
-            athwartships=section.athwartships if spar.hollow.two_axis else None,
+            athwartships=float(spar.hollow.athwartships.at(mark.z)) if spar.hollow.two_axis else None,
             regions=regions_at(spar, section, plug, mark.z),
         ))
     return tuple(stations)
