@@ -252,6 +252,7 @@ def test_box_file_reads():
     ({"hollow": {"corner": "mitred"}}, "hollow.corner", "sides-between-faces"),
     ({"hollow": {"notch_cut": "follow-wall"}}, "hollow.notch_cut", "thickest wall"),
     ({"hollow": {"staves": "auto"}}, "hollow.staves", "4 pieces"),
+    ({"hollow": {"layer": [{"material": "glass-6oz", "plies": 1}]}}, "hollow.layer", "a box not yet"),
 ])
 def test_bad_box_input_names_the_key(change, key, words):
     with pytest.raises(InputError) as caught:
