@@ -200,10 +200,18 @@ def test_min_corner_wall_warns_over_voids():
 
 
 def test_head_load_is_named_and_stiffness_per_unit_load_is_given():
-    doc = json.loads(to_json(design(make_spar())))
+    """Left out, the head load is the reference load: the plan's solid round (the test spar: 100 mm of Sitka
+    spruce, 3 m) bends 2 % of its length at the head under it, F = 0.02 L · 3EI / L³ (Roark, cantilever with an
+    end load, PL³/3EI)."""
+    spar = make_spar()
+    doc = json.loads(to_json(design(spar)))
     beam = doc["beam"]
-    assert beam["head_load_N"] == 1000.0 and beam["head_load_given"] is False
-    assert beam["hollow_head_stiffness_N_per_mm"] == pytest.approx(1000.0 / beam["hollow_tip_deflection_mm"])
+    ei = spar.plan.wood.moe * math.pi * 100.0**4 / 64
+    assert beam["head_load_N"] == pytest.approx(0.02 * 3000.0 * 3 * ei / 3000.0**3, rel=1e-3)
+    assert beam["plan_tip_deflection_mm"] == pytest.approx(0.02 * 3000.0, rel=1e-9)
+    assert beam["head_load_given"] is False
+    assert beam["hollow_head_stiffness_N_per_mm"] == pytest.approx(beam["head_load_N"] /
+                                                                  beam["hollow_tip_deflection_mm"])
     named = json.loads(to_json(design(parse_spar(spar_dict(spar={"head_load": "225 lbf"}), "x.toml"))))
     assert named["beam"]["head_load_N"] == pytest.approx(225 * 4.4482216152605)
     assert named["beam"]["head_load_given"] is True
@@ -211,14 +219,14 @@ def test_head_load_is_named_and_stiffness_per_unit_load_is_given():
 
 def test_a_head_load_that_bends_the_plan_past_a_tenth_of_its_length_is_warned():
     """Beam theory (small deflections, PL³/3EI for a cantilever of constant section, Roark Table 8.1 case 1a):
-    the linear head deflection means little past about a tenth of the length. A slender test spar under the
-    1 kN default bends further than that: the check says so in one sentence, with a load that would bend it
-    2 % (linear, so load × 0.02 / bent), and none is said under that load."""
+    the linear head deflection means little past about a tenth of the length. A slender test spar under a
+    named 1 kN bends further than that: the check says so in one sentence, with a load that would bend it
+    2 % (linear, so load × 0.02 / bent), and none is said under that load nor under the reference load."""
     from stavegen.checks.advice import warnings_for
     from stavegen.checks.assess import assess
 
     shape = {"plan": {"stations": [[0, 40], [3000, 40]]}, "hollow": {"wall": 8, "staves": 6}}
-    result = assess(parse_spar(spar_dict(**shape), "x.toml"))
+    result = assess(parse_spar(spar_dict(**shape, spar={"head_load": "1 kN"}), "x.toml"))
     bent = result.plan.tip_deflection / result.spar.length
     e = result.spar.plan.wood.moe
     assert result.plan.tip_deflection == pytest.approx(1000.0 * 3000.0**3 / (3 * e * math.pi * 40.0**4 / 64), rel=1e-6)
@@ -229,3 +237,6 @@ def test_a_head_load_that_bends_the_plan_past_a_tenth_of_its_length_is_warned():
     quiet = assess(parse_spar(spar_dict(**shape, spar={"head_load": f"{gentle:.6f} N"}), "x.toml"))
     assert quiet.plan.tip_deflection / quiet.spar.length == pytest.approx(0.02, rel=1e-3)
     assert not [w for w in warnings_for(quiet) if w.startswith("The head load")]
+    reference = assess(parse_spar(spar_dict(**shape), "x.toml"))
+    assert reference.plan.tip_deflection == pytest.approx(0.02 * 3000.0, rel=1e-9)
+    assert not [w for w in warnings_for(reference) if w.startswith("The head load")]

@@ -125,7 +125,7 @@ def test_starter_defaults_are_the_loaders(units, tmp_path):
     text = starter_text(units)
     at_default = {k.name for d in (schema.SPAR, schema.HOLLOW, schema.STOCK, schema.OUTPUT) for k in d.keys
                   if k.example is None and k.aside is None and k.kind not in ("table", "tables")}
-    assert {"edge_allowance", "head_load", "min_strength_ratio", "notch_cut"} <= at_default
+    assert {"edge_allowance", "min_strength_ratio", "notch_cut"} <= at_default
 
     def read(text: str):  # the figures, not whether the file wrote them
         spar = parse_spar(tomllib.loads(text), "s.toml")

@@ -4,7 +4,7 @@ from __future__ import annotations
 
 from ..stations.evaluate import where
 from ..units import Way, format_length, system
-from .assess import Assessment
+from .assess import REFERENCE_BEND, Assessment
 
 # Common practice (no source): scarf slope at least 8:1; end allowance 2 to 4 in per stave end.
 MIN_SCARF_RATIO = 8.0
@@ -48,12 +48,12 @@ def warnings_for(result: Assessment) -> list[str]:
     bent = result.plan.tip_deflection / spar.length
     if bent > LINEAR_DEFLECTION_LIMIT:
         unit = system(spar.units)
-        out.append(f"The head load ({unit.force(result.head_load)}"
-                   f"{'' if spar.head_load_given else ', the reference load'}) bends the plan's spar "
+        out.append(f"The head load ({unit.force(result.head_load)}, spar.head_load) bends the plan's spar "
                    f"{unit.length(result.plan.tip_deflection)} at the head, {100 * bent:.0f} % of its length: far "
                    "outside the small deflections the figure is worked for. The hollow / plan ratios and the head "
                    f"stiffness still hold; for readable deflections name a smaller spar.head_load (about "
-                   f"{unit.force(result.head_load * 0.02 / bent)} bends the plan's head 2 % of its length).")
+                   f"{unit.force(result.head_load * REFERENCE_BEND / bent)} bends the plan's head "
+                   f"{100 * REFERENCE_BEND:.0f} % of its length), or leave it out for that reference load.")
     for joint in result.joints:
         out += joint.warnings()
     return out

@@ -12,6 +12,12 @@ from .beam import MassFigures, euler_load, mass_and_centre, tip_deflection
 from .ratios import (ATHWARTSHIPS, DIRECTIONS, FORE_AFT, StationCheck, Stiffness, check_station, hollow_round,
                      hollow_stiffness, plan_stiffness, solid_round)
 
+# The reference head load bends the plan's solid spar this share of its length at the head: small enough for the
+# linear (small-deflection) figure to hold, large enough to read on a tape; a convention of stavegen's, not a rig
+# load.
+REFERENCE_BEND = 0.02
+
+
 @dataclass(frozen=True)
 class SparFigures:
     """Mass (kg), centre of gravity (mm from heel), head deflection under the head load (mm), Euler load (N)."""
@@ -69,8 +75,9 @@ class Assessment:
 
     @property
     def head_load(self) -> float:
-        """The sideways head load the deflections are compared under (N): the file's, or the 1 kN default."""
-        return self.spar.head_load
+        """The sideways head load the deflections are compared under (N): the file's, or the reference load
+        (:data:`REFERENCE_BEND`)."""
+        return self.plan.head_load
 
     @property
     def ei_target(self) -> float:
@@ -179,6 +186,15 @@ def _stretch_figures(spar: Spar, cache: SectionCache, marks: tuple[StationMark, 
     return stretches, plan, hollow
 
 
+def head_load_for(spar: Spar, stretches, plan, direction: str = "") -> float:
+    """The head load the deflections are compared under (N): the file's, or the reference load, the one that
+    bends the plan's solid spar :data:`REFERENCE_BEND` of its length at the head (in its weaker direction).
+    Deflection is linear in the load, so the plan's deflection under 1 N scales to it."""
+    if spar.head_load is not None:
+        return spar.head_load
+    return REFERENCE_BEND * spar.length / _figures(spar, stretches, plan, 1.0, direction).tip_deflection
+
+
 def _figures(spar: Spar, stretches, stiffness, load: float, direction: str = "") -> SparFigures:
     """Mass, centre and the beam figures; bending in ``direction`` (empty: a round's single stiffness), with
     both directions' figures kept for a spar that is not round."""
@@ -258,11 +274,12 @@ def assess(spar: Spar, marks: tuple[StationMark, ...] | None = None, cache: Sect
     stretches, plan, hollow = _stretch_figures(spar, cache, used_marks)
     two_axis = spar.hollow.two_axis or spar.plan.shape != "round"
     direction = weaker_direction(hollow) if two_axis else ""
+    load = head_load_for(spar, stretches, plan, direction)
     return Assessment(
         spar=spar,
         stations=checks,
-        plan=_figures(spar, stretches, plan, spar.head_load, direction),
-        hollow=_figures(spar, stretches, hollow, spar.head_load, direction),
+        plan=_figures(spar, stretches, plan, load, direction),
+        hollow=_figures(spar, stretches, hollow, load, direction),
         regions=region_totals(checks, stretches, hollow),
         joints=check_joints(spar, cache),
     )

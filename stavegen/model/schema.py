@@ -169,10 +169,13 @@ SPAR = Table("spar", "What the spar is and the unit the file is written in.", re
                             "in lb/ft³", "mm": "millimetres; stresses in MPa, densities in kg/m³"}),
     Key("length", "length", "heel to head, finished", example=_u('"16 ft"', '"4.9 m"')),
     Key("head_load", "force", "sideways load at the head for the whole-spar deflection figures",
-        default="1 kN",
+        default=Words("the reference load: the one that bends the plan's solid spar 2 % of its length at the head"),
+        aside=_u('"25 lbf"', '"100 N"'),
         note="Not a rig load (stavegen computes none): the head deflection of the plan and of the hollow spar "
              "are compared under it. Deflection grows in proportion to it, so the hollow / plan ratios and the "
-             "head stiffness do not depend on it; the report says which load was used."),
+             "head stiffness do not depend on it; the report says which load was used. The reference load "
+             "keeps the figure readable on any size of spar (a fixed load bends a dinghy's mast further than "
+             "its length and a yacht's not at all)."),
 ))
 
 PLAN = Table("plan", "The solid spar drawn in the plans: the stiffness and strength target.", required=True,

@@ -31,7 +31,6 @@ TAPERS = ("square-edge", "symmetric")
 # following the wall station by station ("follow-wall": thickness tapered first, a CNC router's job).
 NOTCH_CUTS = ("thickest-wall", "follow-wall")
 DEFAULT_STRENGTH_TARGET = 1.0  # the hollow spar at least as strong as the plan unless the file accepts less
-DEFAULT_HEAD_LOAD = 1000.0  # N: the reference sideways head load for comparing deflections (1 kN)
 STRIP_PLACES = ("inner-face", "groove")  # where reinforcing tape lies in each stave
 PAPERS = ("letter", "a4")
 SHAPES = ("round", "oval", "rectangle")  # plan.shape: a round, an ellipse, a rectangle
@@ -322,7 +321,8 @@ class Spar:
     stock: Stock | None
     output: OutputOptions = field(default_factory=OutputOptions)
     source: str = ""
-    head_load: float = DEFAULT_HEAD_LOAD
+    head_load: float | None = None
+    """The file's sideways head load (N) for the deflection figures; None: the check's reference load."""
     head_load_given: bool = False
     parting: Parting | None = None
     """Where the spar comes apart, for a two-piece spar ([parting]); None for one piece."""

@@ -29,6 +29,7 @@ from reportlab.platypus import (CondPageBreak, KeepTogether, PageBreak, Paragrap
                                 Table, TableStyle)
 
 from ..cautions import CAUTIONS, HEADLINE
+from ..checks.assess import REFERENCE_BEND
 from ..checks.ratios import StationCheck
 from ..pipeline import Design
 from ..section.properties import Section, bore_ring
@@ -289,8 +290,9 @@ def summary(r: Report) -> list:
               if saved >= 0 else f"The hollow spar is {format_mass(-saved, units)} heavier than the plan.")
     load_note = (f"The head load, {load_words}, is the one the spar file names (spar.head_load)"
                  if spar.head_load_given else
-                 f"The head load, {load_words}, is a reference load, not a rig load (stavegen computes none; set "
-                 f"spar.head_load to use your own)")
+                 f"The head load, {load_words}, is the reference load, the one that bends the plan's solid spar "
+                 f"{100 * REFERENCE_BEND:.0f} % of its length at the head; not a rig load (stavegen computes none; "
+                 f"set spar.head_load to use your own)")
     load_note += ("; deflection grows in proportion to it, so the hollow / plan ratios and the head stiffness do "
                   "not depend on it.")
     out = [r.h2("Summary"), facts, Spacer(1, 6),

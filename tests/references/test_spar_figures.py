@@ -16,7 +16,6 @@ from scipy.integrate import solve_ivp
 from scipy.optimize import brentq
 
 from stavegen.checks.assess import assess
-from stavegen.model.spar import DEFAULT_HEAD_LOAD
 from stavegen.checks.beam import euler_load, tip_deflection
 
 from conftest import make_spar
@@ -30,7 +29,7 @@ def test_uniform_spar_closed_forms():
     ei_plan = spar.plan.wood.moe * math.pi * 100**4 / 64
     L = 3000.0
     for figures, ei in ((result.hollow, ei_hollow), (result.plan, ei_plan)):
-        assert figures.tip_deflection == pytest.approx(DEFAULT_HEAD_LOAD * L**3 / (3 * ei), rel=1e-3)
+        assert figures.tip_deflection == pytest.approx(result.head_load * L**3 / (3 * ei), rel=1e-3)
         assert figures.euler_load == pytest.approx(math.pi**2 * ei / (4 * L**2), rel=1e-3)
         assert figures.mass.centre == pytest.approx(L / 2, rel=1e-9)
         # Head stiffness, load over deflection: 3 E I / L³ whatever the load.
@@ -100,6 +99,8 @@ def test_head_load_from_the_file_scales_deflection_only():
     """A named head load: deflection in proportion (δ = F L³ / 3EI), the ratios and the head stiffness unchanged."""
     base = assess(make_spar())
     named = assess(make_spar(spar={"head_load": "500 N"}))
-    assert named.hollow.tip_deflection == pytest.approx(0.5 * base.hollow.tip_deflection, rel=1e-12)
+    assert named.head_load == 500.0
+    assert named.hollow.tip_deflection == pytest.approx(500.0 / base.head_load * base.hollow.tip_deflection,
+                                                        rel=1e-12)
     assert named.hollow.head_stiffness == pytest.approx(base.hollow.head_stiffness, rel=1e-12)
     assert named.compared("deflection") == pytest.approx(base.compared("deflection"), rel=1e-12)
