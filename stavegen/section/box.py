@@ -38,7 +38,7 @@ from ..errors import DesignError, area as area_figure
 from ..units import format_length
 from .ellipse import rounded_rectangle_half_moment, rounded_rectangle_moments
 from .integrals import Moments, ring_moments
-from .oval import StaveKind, _to_axis, kind_count, kind_of, normal_angle
+from .oval import StaveKind, UnequalStaves, _to_axis, kind_count, kind_of, normal_angle
 from .staves import INTERFERENCE_TOLERANCE, StaveFrame
 
 PIECES = 4
@@ -64,7 +64,7 @@ def rounded_rectangle_points(half_x: float, half_y: float, corner: float, per_qu
 
 
 @dataclass(frozen=True)
-class BoxSection:
+class BoxSection(UnequalStaves):
     """A finished box section (mm, mm², mm⁴); x fore-and-aft, y athwartships. Read as an oval section is."""
 
     joint: str
@@ -172,34 +172,8 @@ class BoxSection:
         return 0.0
 
     @property
-    def radius(self) -> float:
-        """Half the larger outside dimension, mm (for figures that need one)."""
-        return max(self.fore_aft, self.athwartships) / 2
-
-    @property
     def void_area(self) -> float:
         return 0.0
-
-    @property
-    def stave_width(self) -> float:
-        """The widest piece's width, mm."""
-        return max(self.widths)
-
-    @property
-    def narrowest_stave(self) -> float:
-        return min(self.widths)
-
-    @property
-    def outer_apothem(self) -> float:
-        return self.outer_apothems[self.widths.index(max(self.widths))]
-
-    @property
-    def frame(self) -> StaveFrame:
-        return self.frames[self.widths.index(max(self.widths))]
-
-    @property
-    def stave_outline(self) -> tuple[tuple[float, float], ...]:
-        return self.outlines[0]
 
     @property
     def across_flats(self) -> float:

@@ -72,8 +72,41 @@ class StaveKind:
         return len(self.members)
 
 
+class UnequalStaves:
+    """What a section of staves that are not all alike (an oval's, a box's) says of its widest stave and its
+    size, for the code that reads one stave (the layout's settings, the figures): read off ``widths``,
+    ``outer_apothems``, ``frames`` and ``outlines``, one per stave, and the outside dimensions."""
+
+    @property
+    def radius(self) -> float:
+        """Half the larger outside dimension, mm (the round section's radius, for figures that need one)."""
+        return max(self.fore_aft, self.athwartships) / 2
+
+    @property
+    def stave_width(self) -> float:
+        """The widest stave's width (before any notch), mm."""
+        return max(self.widths)
+
+    @property
+    def narrowest_stave(self) -> float:
+        return min(self.widths)
+
+    @property
+    def outer_apothem(self) -> float:
+        """The widest stave's outer apothem, mm."""
+        return self.outer_apothems[self.widths.index(max(self.widths))]
+
+    @property
+    def frame(self) -> StaveFrame:
+        return self.frames[self.widths.index(max(self.widths))]
+
+    @property
+    def stave_outline(self) -> tuple[tuple[float, float], ...]:
+        return self.outlines[0]
+
+
 @dataclass(frozen=True)
-class OvalSection:
+class OvalSection(UnequalStaves):
     """A finished oval section of N staves (mm, mm², mm⁴); x fore-and-aft, y athwartships."""
 
     staves: int
@@ -187,35 +220,8 @@ class OvalSection:
         return self.bore.ixx
 
     @property
-    def radius(self) -> float:
-        """Half the larger outside dimension, mm (the round section's radius, for figures that need one)."""
-        return max(self.fore_aft, self.athwartships) / 2
-
-    @property
     def void_area(self) -> float:
         return self.voids.area
-
-    @property
-    def stave_width(self) -> float:
-        """The widest stave's width before the notch, mm."""
-        return max(self.widths)
-
-    @property
-    def narrowest_stave(self) -> float:
-        return min(self.widths)
-
-    @property
-    def outer_apothem(self) -> float:
-        """The widest stave's outer apothem, mm."""
-        return self.outer_apothems[self.widths.index(max(self.widths))]
-
-    @property
-    def frame(self) -> StaveFrame:
-        return self.frames[self.widths.index(max(self.widths))]
-
-    @property
-    def stave_outline(self) -> tuple[tuple[float, float], ...]:
-        return self.outlines[0]
 
     @property
     def across_flats(self) -> float:
