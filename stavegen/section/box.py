@@ -91,18 +91,6 @@ class BoxSection(UnequalStaves):
 
     # --- as the oval's ------------------------------------------------------------------------------------
     @property
-    def assembled(self) -> "BoxSection":
-        return self
-
-    @property
-    def semi_axes(self) -> tuple[float, float]:
-        return self.fore_aft / 2, self.athwartships / 2
-
-    @property
-    def area(self) -> float:
-        return self.wall.area
-
-    @property
     def inertia_fore_aft(self) -> float:
         """∫x² dA of the finished wall: resists bending in the fore-and-aft plane, mm⁴ (the centroid is the axis)."""
         return self.wall.iyy
@@ -112,25 +100,9 @@ class BoxSection(UnequalStaves):
         return self.wall.ixx
 
     @property
-    def inertia(self) -> float:
-        return min(self.inertia_fore_aft, self.inertia_athwartships)
-
-    @property
     def bore_half(self) -> tuple[float, float]:
         """The bore's half-dimensions fore-and-aft and athwartships, mm."""
         return self.outer_apothems[3] - self.thickness, self.outer_apothems[0] - self.thickness
-
-    @property
-    def bore_inertia(self) -> float:
-        return self.bore.iyy if self.inertia_fore_aft <= self.inertia_athwartships else self.bore.ixx
-
-    @property
-    def bore_inertia_fore_aft(self) -> float:
-        return self.bore.iyy
-
-    @property
-    def bore_inertia_athwartships(self) -> float:
-        return self.bore.ixx
 
     @property
     def finished_wall(self) -> float:

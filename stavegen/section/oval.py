@@ -104,6 +104,37 @@ class UnequalStaves:
     def stave_outline(self) -> tuple[tuple[float, float], ...]:
         return self.outlines[0]
 
+    # the whole section, both ways (``wall`` and ``bore`` are Moments about the spar's axis)
+    @property
+    def assembled(self):
+        return self
+
+    @property
+    def semi_axes(self) -> tuple[float, float]:
+        return self.fore_aft / 2, self.athwartships / 2
+
+    @property
+    def area(self) -> float:
+        return self.wall.area
+
+    @property
+    def inertia(self) -> float:
+        """The smaller of the two, mm⁴ (the direction the section is weaker in)."""
+        return min(self.inertia_fore_aft, self.inertia_athwartships)
+
+    @property
+    def bore_inertia(self) -> float:
+        """The bore's second moment in the weaker direction of the wall, mm⁴."""
+        return self.bore.iyy if self.inertia_fore_aft <= self.inertia_athwartships else self.bore.ixx
+
+    @property
+    def bore_inertia_fore_aft(self) -> float:
+        return self.bore.iyy
+
+    @property
+    def bore_inertia_athwartships(self) -> float:
+        return self.bore.ixx
+
 
 @dataclass(frozen=True)
 class OvalSection(UnequalStaves):
@@ -160,18 +191,6 @@ class OvalSection(UnequalStaves):
 
     # --- the two directions -------------------------------------------------------------------------------
     @property
-    def assembled(self) -> "OvalSection":
-        return self
-
-    @property
-    def semi_axes(self) -> tuple[float, float]:
-        return self.fore_aft / 2, self.athwartships / 2
-
-    @property
-    def area(self) -> float:
-        return self.wall.area
-
-    @property
     def inertia_fore_aft(self) -> float:
         """∫x² dA of the finished wall about its centroid: resists bending in the fore-and-aft plane, mm⁴."""
         return self.wall.iyy - self.wall.qx**2 / self.wall.area
@@ -180,16 +199,6 @@ class OvalSection(UnequalStaves):
     def inertia_athwartships(self) -> float:
         """∫y² dA of the finished wall about its centroid: resists bending athwartships, mm⁴."""
         return self.wall.ixx - self.wall.qy**2 / self.wall.area
-
-    @property
-    def inertia(self) -> float:
-        """The smaller of the two, mm⁴ (the direction the section is weaker in)."""
-        return min(self.inertia_fore_aft, self.inertia_athwartships)
-
-    @property
-    def bore_inertia(self) -> float:
-        """The bore's second moment in the weaker direction of the wall, mm⁴."""
-        return self.bore.iyy if self.inertia_fore_aft <= self.inertia_athwartships else self.bore.ixx
 
     @property
     def inner_apothem(self) -> float:
@@ -210,14 +219,6 @@ class OvalSection(UnequalStaves):
     @property
     def bore_corner_radius(self) -> float:
         return 0.0
-
-    @property
-    def bore_inertia_fore_aft(self) -> float:
-        return self.bore.iyy
-
-    @property
-    def bore_inertia_athwartships(self) -> float:
-        return self.bore.ixx
 
     @property
     def void_area(self) -> float:
