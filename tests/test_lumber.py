@@ -323,3 +323,47 @@ def test_a_layout_solves_the_same_cutting_problem_once(monkeypatch):
     assert two.board_feet == pytest.approx(order_lumber(again, s).board_feet, abs=1e-9)  # a fresh solve agrees
     order_lumber(apart, s, solved=solved)
     assert len(calls) == 3
+
+
+def test_a_solve_that_reached_no_limit_answers_for_higher_limits(monkeypatch):
+    """The scarf aiming orders each placement with light limits, then the chosen ones with full limits. A light
+    solve that ended no stage on a limit is the full solve (HiGHS and the generation are deterministic): it is
+    reused, and its boards are those of a fresh solve with the full limits. A solve a limit did end is not."""
+    import stavegen.layout.lumber as lumber
+
+    calls = []
+    real = lumber._solve
+    monkeypatch.setattr(lumber, "_solve", lambda *a, **k: calls.append(a[1]) or real(*a, **k))
+    s = stock([5.5 * IN, 7.25 * IN], [8 * FT, 12 * FT])
+    pieces = [piece(i, (5 + i % 3) * FT, (1.25 + 0.125 * (i % 2)) * IN) for i in range(1, 9)]
+    light, full = lumber.Work(rounds=20, nodes=200), lumber.Work()
+    solved: dict = {}
+    first = order_lumber(pieces, s, work=light, solved=solved)
+    again = order_lumber(pieces, s, work=full, solved=solved)
+    assert calls == [light] and first.proven_optimal
+    fresh = order_lumber(pieces, s, work=full)
+    assert [(b.size, b.rips) for b in again.boards] == [(b.size, b.rips) for b in fresh.boards]
+    # one round of column generation, which this job needs more of: the full limits solve afresh
+    calls.clear()
+    solved = {}
+    one_round = lumber.Work(rounds=1, nodes=200)
+    order_lumber(pieces, s, work=one_round, pattern_limit=0, solved=solved)
+    assert next(iter(solved.values()))[0].limited
+    order_lumber(pieces, s, work=full, pattern_limit=0, solved=solved)
+    assert calls == [one_round, full]
+
+
+def test_the_integer_solve_takes_its_extra_option_without_falling_back(monkeypatch):
+    """The HiGHS installed knows the option the integer solve passes (an older one solves without it)."""
+    import warnings
+
+    import stavegen.layout.lumber as lumber
+
+    seen = []
+    real = lumber.milp
+    monkeypatch.setattr(lumber, "milp", lambda *a, **k: seen.append(dict(k["options"])) or real(*a, **k))
+    s = stock([5.5 * IN], [8 * FT])
+    with warnings.catch_warnings():
+        warnings.simplefilter("error")
+        order = order_lumber([piece(i, 3 * FT, 1.5 * IN) for i in range(1, 6)], s)
+    assert order.proven_optimal and len(seen) == 1 and seen[0].items() >= lumber._HIGHS_EXTRA.items()
