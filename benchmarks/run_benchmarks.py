@@ -96,6 +96,22 @@ def import_cost(py: str, command: list[str], repeat: int) -> dict:
     return figures
 
 
+def build_against_imports(py: str, sample: Path, tmp: Path, rounds: int) -> dict:
+    """The build of ``sample`` and a process importing just what it loads, run by turns ``rounds`` times.
+
+    On a shared machine the speed drifts over minutes; timed by turns, both figures see the same drift, and
+    the ratio is the median of the rounds' ratios.
+    """
+    mods = [m for m in loaded_modules(py, ["build", str(sample), "-o", str(tmp / "pair-probe")])
+            if m.startswith("stavegen")]
+    build, imports = [], []
+    for i in range(rounds):
+        imports.append(measure([py, "-c", "import " + ", ".join(mods)], 1)["cpu"])
+        build.append(measure([py, "-m", "stavegen", "build", str(sample), "-o", str(tmp / f"pair-{i}")], 1)["cpu"])
+    return {"build": statistics.median(build), "imports": statistics.median(imports),
+            "ratio": statistics.median(b / i for b, i in zip(build, imports)), "rounds": rounds}
+
+
 def generated_spar(folder: Path, stations: int, staves: int | str = 16, length_m: float = 12.0,
                    wall: str = '[[0, 46], [8000, 46], [{length}, 32]]', stock: float = 48) -> Path:
     """A generated 12 m spar of ``staves`` staves whose marks and file positions give about ``stations`` stations."""
@@ -150,6 +166,64 @@ def auto_sample(folder: Path, sample: Path) -> Path:
     path = folder / f"auto-{sample.name}"
     path.write_text(text)
     return path
+
+
+_SPLIT = r"""
+import importlib, json, sys, time
+from pathlib import Path
+t0 = time.process_time()
+for m in sys.argv[1].split():
+    importlib.import_module(m)
+out = {"importing what build loads (no interpreter start)": time.process_time() - t0}
+import stavegen.layout.lumber as lumber
+from stavegen.model.loader import load_spar
+from stavegen.pipeline import design
+from stavegen.render import dxf_templates
+from stavegen.render.csv_cutlist import to_csv
+from stavegen.render.json_doc import write_json
+from stavegen.render.pdf_fullsize import write_fullsize
+from stavegen.render.pdf_report import write_report
+highs = [0.0]
+def timed(f):
+    def run(*a, **k):
+        t = time.process_time()
+        try:
+            return f(*a, **k)
+        finally:
+            highs[0] += time.process_time() - t
+    return run
+lumber._ip, lumber._lp = timed(lumber._ip), timed(lumber._lp)
+folder = Path(sys.argv[3])
+def stage(name, f):
+    t = time.process_time()
+    got = f()
+    out[name] = time.process_time() - t
+    return got
+result = stage("design", lambda: design(load_spar(Path(sys.argv[2])), layout=True))
+out["HiGHS"] = highs[0]
+stage("JSON and CSV", lambda: (write_json(result, folder / "a.json"), to_csv(result)))
+stage("report PDF", lambda: write_report(result, folder / "r.pdf"))
+stage("full-size PDF", lambda: write_fullsize(result, folder / "f.pdf"))
+def sheets():
+    sheet = dxf_templates.template_document(result)
+    sheet.saveas(folder / "t.dxf")
+    dxf_templates.cut_document(result, full=sheet).saveas(folder / "c.dxf")
+stage("DXF sheets", sheets)
+print(json.dumps(out))
+"""
+
+
+def build_split(py: str, sample: Path, tmp: Path, repeat: int) -> dict:
+    """Where one build's CPU goes, in one process per run (medians): importing what ``build`` loads, the design
+    (of it the HiGHS solves of the lumber orders), and each output as its library draws it."""
+    mods = [m for m in loaded_modules(py, ["build", str(sample), "-o", str(tmp / "split-probe")])
+            if m.startswith("stavegen")]
+    runs = []
+    for _ in range(repeat):
+        done = subprocess.run([py, "-c", _SPLIT, " ".join(mods), str(sample), str(tmp)], capture_output=True,
+                              text=True, cwd=WORKDIR["cwd"], check=True)
+        runs.append(json.loads(done.stdout.splitlines()[-1]))
+    return {k: statistics.median(r[k] for r in runs) for k in runs[0]}
 
 
 def section_timing(count: int = 2000) -> tuple[float, float]:
@@ -232,6 +306,9 @@ def main() -> None:
                               ("build", ["build", str(SIZED[0]), "-o", str(tmp / "imports")]),
                               ("size", ["size", str(auto_sample(tmp, SIZED[0]))])):
             results["imports"][name] = import_cost(py, command, opts.repeat)
+        results["split"] = build_split(py, SIZED[0], tmp, opts.repeat)
+        results["pair"] = build_against_imports(py, SIZED[0], tmp, max(7, opts.repeat))
+        results["split runs"] = opts.repeat
         if opts.before:
             (tmp / "before").mkdir()
             results["before"] = run_jobs(opts.before, tmp / "before", opts.repeat, growth=False)
@@ -245,6 +322,7 @@ def main() -> None:
         print(f"{key}: {value['seconds']:.3f} s wall, {value['cpu']:.3f} s CPU, peak {value['peak_mb']:.0f} MB")
     for key, value in results["imports"].items():
         print(f"imports of {key}: {value['cpu']:.3f} s CPU ({' '.join(value['libraries'])})")
+    print("one build, in process: " + ", ".join(f"{k} {v:.3f} s" for k, v in results["split"].items()))
     (ROOT / "benchmarks" / "last-run.json").write_text(json.dumps(results, indent=2) + "\n")
     if opts.write:
         write_doc(results)
@@ -261,8 +339,10 @@ def _row(key: str, value: dict, before: dict | None) -> str:
 def write_doc(results: dict) -> None:
     jobs, imports, before = results["jobs"], results["imports"], results.get("before")
     rows = [_row(k, v, before) for k, v in jobs.items() if k not in ("floor", "bare floor")]
-    build_cpu = jobs["build daysailer-mast.toml"]["cpu"]
-    build_ratio = build_cpu / imports["build"]["cpu"]
+    pair = results.get("pair") or {"build": jobs["build daysailer-mast.toml"]["cpu"],
+                                   "imports": imports["build"]["cpu"], "rounds": 0}
+    build_cpu, import_cpu = pair["build"], pair["imports"]
+    build_ratio = pair.get("ratio", build_cpu / import_cpu)
     size_ratios = {s.name: jobs[f"size {s.name}"]["seconds"] / jobs[f"build {s.name}"]["seconds"]
                    for s in SIZED}
     size_cpu_ratios = {s.name: jobs[f"size {s.name}, one process"]["cpu"] / jobs[f"build {s.name}"]["cpu"]
@@ -325,13 +405,41 @@ running it), and the libraries among them. `check`, `section`, `woods` and
 
 | goal | measured | met |
 | --- | --- | --- |
-| a sample build within {GOALS['sample_build_over_imports']} × the CPU of importing what it needs | day-sailer mast: {build_cpu:.2f} s against {imports['build']['cpu']:.2f} s, {build_ratio:.2f} × | {"yes" if build_ratio <= GOALS['sample_build_over_imports'] else "no"} |
+| a sample build within {GOALS['sample_build_over_imports']} × the CPU of importing what it needs (the two run by turns, {pair['rounds']} rounds, medians) | day-sailer mast: {build_cpu:.2f} s against {import_cpu:.2f} s, {build_ratio:.2f} × | {"yes" if build_ratio <= GOALS['sample_build_over_imports'] else "no"} |
 | `size` under 3 × one build of the sample as given (wall) | {", ".join(f"{k}: {v:.2f} ×" for k, v in size_ratios.items())} | {"yes" if max(size_ratios.values()) < 3 else "no"} |
 | the same in CPU, one process | {", ".join(f"{k}: {v:.2f} ×" for k, v in size_cpu_ratios.items())} | {"yes" if max(size_cpu_ratios.values()) < 3 else "no"} |
 | peak memory under 300 MB | worst {max(peaks):.0f} MB | {"yes" if max(peaks) < 300 else "no"} |
 | check CPU linear in stations (100 → 1,000 → 8,000) | {check[0]:.2f} s → {check[1]:.2f} s → {check[2]:.2f} s | {(check[2] - check[1]) / 7000 * 1e3:.2f} ms a station past 1,000, {(check[1] - check[0]) / 900 * 1e3:.2f} ms before |
 | build CPU linear in stations | {build[0]:.2f} s → {build[1]:.2f} s → {build[2]:.2f} s | {(build[2] - build[1]) / 7000 * 1e3:.2f} ms a station past 1,000, {(build[1] - build[0]) / 900 * 1e3:.2f} ms before |
 | size CPU linear in stations (100 → 1,000) | {size[0]:.2f} s → {size[1]:.2f} s | {(size[1] - size[0]) / 900 * 1e3:.2f} ms a station |
+"""
+    split = results.get("split")
+    if split:
+        drawing = split["HiGHS"] + split["report PDF"] + split["full-size PDF"] + split["DXF sheets"]
+        floor = (import_cpu + drawing) / import_cpu
+        goal = GOALS["sample_build_over_imports"]
+        verdict = (f"The {goal} × goal sits below what HiGHS, ezdxf and reportlab take to prove the cutting plan "
+                   "and draw the six files (cProfile, 2026-12-02: stavegen's own renderer code is about 7 % of the "
+                   "DXF's and the report's time and a quarter of the full-size PDF's)." if floor > goal else
+                   f"That leaves {(goal - 1) * import_cpu - drawing:.2f} s for "
+                   f"stavegen's own work within the {goal} × goal.")
+        stage_rows = "\n".join(f"| {k} | {v:.3f} s |" for k, v in split.items())
+        text += f"""
+### Where a build's CPU goes
+
+The day-sailer mast built in one process, each stage timed with
+`time.process_time` (`build_split` in the runner; medians of
+{results.get("split runs", "several")} runs). "HiGHS" is the part of the design spent in the
+lumber orders' LP and integer solves; the outputs are each written by
+their library from what the layout computed.
+
+| stage | CPU |
+| --- | ---: |
+{stage_rows}
+
+The solves and the outputs alone come to {drawing:.2f} s: with the
+imports ({import_cpu:.2f} s as a process, run by turns with the build) that is {floor:.2f} × the
+imports before any of stavegen's own design work. {verdict}
 """
     doc = ROOT / "docs" / "benchmarks.md"
     # Keep the hand-written sections (from "### What profiling found" on).

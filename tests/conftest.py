@@ -3,7 +3,12 @@
 from __future__ import annotations
 
 import copy
+import os
 from pathlib import Path
+
+# reportlab checks every attribute its graphics shapes are given while the tests draw (stavegen turns the check
+# off for speed; the drawing is the same): set before stavegen or reportlab is imported.
+os.environ.setdefault("RL_shapeChecking", "1")
 
 import pytest
 from typer.testing import CliRunner

@@ -354,16 +354,44 @@ def test_a_solve_that_reached_no_limit_answers_for_higher_limits(monkeypatch):
 
 
 def test_the_integer_solve_takes_its_extra_option_without_falling_back(monkeypatch):
-    """The HiGHS installed knows the option the integer solve passes (an older one solves without it)."""
+    """The HiGHS installed knows the option the integer solves pass (an older one solves without it), and the
+    warning scipy gives for an option it does not list is not shown."""
     import warnings
 
-    import stavegen.layout.lumber as lumber
+    from stavegen.layout import highs
 
     seen = []
-    real = lumber.milp
-    monkeypatch.setattr(lumber, "milp", lambda *a, **k: seen.append(dict(k["options"])) or real(*a, **k))
+    real = highs.milp
+    monkeypatch.setattr(highs, "milp", lambda *a, **k: seen.append(dict(k["options"])) or real(*a, **k))
     s = stock([5.5 * IN], [8 * FT])
     with warnings.catch_warnings():
         warnings.simplefilter("error")
         order = order_lumber([piece(i, 3 * FT, 1.5 * IN) for i in range(1, 6)], s)
-    assert order.proven_optimal and len(seen) == 1 and seen[0].items() >= lumber._HIGHS_EXTRA.items()
+    assert order.proven_optimal and len(seen) == 1 and seen[0].items() >= highs.EXTRA.items()
+
+
+@pytest.mark.parametrize("refuses", [False, True])
+def test_an_older_highs_without_the_option_still_solves(monkeypatch, refuses):
+    """An option this HiGHS does not know is ignored with a warning (not shown) or refused with an error; either
+    way the order is solved, proven least, with the board feet of the solve with the option."""
+    import warnings
+
+    from stavegen.layout import highs
+
+    s = stock([5.5 * IN, 7.25 * IN], [8 * FT, 12 * FT])
+    pieces = [piece(i, (5 + i % 3) * FT, (1.25 + 0.125 * (i % 2)) * IN) for i in range(1, 9)]
+    with_option = order_lumber(pieces, s)
+    monkeypatch.setattr(highs, "EXTRA", {"no_such_highs_option": False})
+    if refuses:
+        real = highs.milp
+
+        def strict(*a, **k):
+            if "no_such_highs_option" in k["options"]:
+                raise AttributeError("'HighsOptions' object has no attribute 'no_such_highs_option'")
+            return real(*a, **k)
+        monkeypatch.setattr(highs, "milp", strict)
+    with warnings.catch_warnings():
+        warnings.simplefilter("error")
+        order = order_lumber(pieces, s)
+    check_order(order, pieces, s)
+    assert order.proven_optimal and order.board_feet == pytest.approx(with_option.board_feet, abs=1e-9)

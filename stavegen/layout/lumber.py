@@ -50,17 +50,17 @@ import math
 import os
 import sys
 import time
-import warnings
 from collections import defaultdict
 from dataclasses import dataclass, field, replace
 
 import numpy as np
-from scipy.optimize import LinearConstraint, linprog, milp
+from scipy.optimize import LinearConstraint, linprog
 from scipy.sparse import coo_matrix
 
 from ..errors import InputError
 from ..model.spar import Stock
 from ..units import format_length
+from . import highs
 
 MM_PER_INCH = 25.4
 BOARD_FOOT_MM3 = 144.0 * MM_PER_INCH**3  # one board foot, mm³
@@ -531,31 +531,13 @@ def _quiet_stdout():
         os.close(saved)
 
 
-# HiGHS options scipy does not list but hands to HiGHS as they are (scipy.optimize.milp's documented
-# behaviour, with a RuntimeWarning). The feasibility-jump heuristic looks for a first plan, which this model
-# always has (the one-type rips): on 231 cutting problems of the samples, generated spars and `size` runs it
-# took 41 % of the integer solves' CPU and changed no status, optimum or node count (5 solutions differ, at
-# the same board feet). An older HiGHS that lacks the option solves without it.
-_HIGHS_EXTRA = {"mip_heuristic_run_feasibility_jump": False}
-
-
-def _milp(m: _Model, options: dict):
-    def run(extra: dict):
-        with warnings.catch_warnings():
-            warnings.filterwarnings("ignore", "Unrecognized options detected", RuntimeWarning)
-            return milp(m.cost, constraints=LinearConstraint(m.A, -np.inf, m.upper),
-                        integrality=np.ones(len(m.cost)), options={**options, **extra})
-    try:
-        return run(_HIGHS_EXTRA)
-    except (AttributeError, KeyError, ValueError):  # this HiGHS has no such option
-        return run({})
-
-
 def _ip(m: _Model, work: Work, clock_left: float) -> tuple[np.ndarray | None, bool, bool]:
     """Integer solve within ``work.nodes`` nodes: (counts per column or None, proven optimal,
     stopped by the clock guard)."""
     with _quiet_stdout():
-        res = _milp(m, {"node_limit": work.nodes, "time_limit": max(0.5, clock_left), "mip_rel_gap": 1e-9})
+        res = highs.solve(m.cost, constraints=LinearConstraint(m.A, -np.inf, m.upper),
+                          integrality=np.ones(len(m.cost)),
+                          options={"node_limit": work.nodes, "time_limit": max(0.5, clock_left), "mip_rel_gap": 1e-9})
     clock = res.status == 1  # scipy's status 1 is HiGHS's time limit (the node limit is status 4)
     if res.x is None:
         return None, False, clock

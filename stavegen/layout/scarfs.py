@@ -47,11 +47,12 @@ from dataclasses import dataclass
 from typing import Callable, Sequence
 
 import numpy as np
-from scipy.optimize import Bounds, LinearConstraint, milp
+from scipy.optimize import Bounds, LinearConstraint
 
 from ..errors import DesignError
 from ..model.spar import Stock
 from ..units import format_length
+from . import highs
 from .lumber import WORK, LumberOrder, Piece, Work, board_feet_rate, order_lumber
 from .staves import StavePlan
 
@@ -203,8 +204,8 @@ def _solve(start: float, end: float, spar_length: float, rules: ScarfRules, coun
     lower[t_index], upper[t_index] = 0.0, rules.longest_piece
     # A node limit, not a time limit: the same spar gives the same scarfs on any machine (the time limit is a
     # last guard only; these models are small and prove in a few nodes).
-    result = milp(objective, constraints=LinearConstraint(np.array(rows), lo, hi), integrality=integrality,
-                  bounds=Bounds(lower, upper), options={"node_limit": SCARF_NODES, "time_limit": 60})
+    result = highs.solve(objective, constraints=LinearConstraint(np.array(rows), lo, hi), integrality=integrality,
+                         bounds=Bounds(lower, upper), options={"node_limit": SCARF_NODES, "time_limit": 60})
     if result.x is None:
         return None
     return [[float(result.x[c(p, i)]) for i in range(counts[p])] for p in range(P)]

@@ -14,13 +14,23 @@ from __future__ import annotations
 
 import bisect
 import math
+import os
 from dataclasses import dataclass
 from pathlib import Path
 from typing import Callable
 from xml.sax.saxutils import escape
 
-from reportlab.graphics.charts.lineplots import LinePlot
-from reportlab.graphics.shapes import Circle, Drawing, Line, Polygon, Rect, String
+from reportlab import rl_config
+
+# reportlab checks every attribute set on a graphics shape, "a big help when developing" that "slows down
+# shapes" (its words, reportlab/graphics/shapes.py); the drawing is the same either way. Off for stavegen's
+# drawings unless RL_shapeChecking, reportlab's own switch, says otherwise (the tests set it on). It must be
+# set before reportlab.graphics is first imported.
+if "RL_shapeChecking" not in os.environ:
+    rl_config.shapeChecking = 0
+
+from reportlab.graphics.charts.lineplots import LinePlot  # noqa: E402
+from reportlab.graphics.shapes import Circle, Drawing, Line, Polygon, Rect, String  # noqa: E402
 from reportlab.lib import colors
 from reportlab.lib.enums import TA_LEFT
 from reportlab.lib.styles import ParagraphStyle
