@@ -13,7 +13,6 @@ import math
 import re
 from dataclasses import dataclass
 from enum import Enum
-from fractions import Fraction
 
 from .errors import shown
 
@@ -155,8 +154,8 @@ def inch_fraction(inches: float, denominator: int = 32) -> tuple[int, int, int, 
     sign = -1 if inches < 0 else 1
     total = round(abs(inches) * denominator)
     whole, num = divmod(total, denominator)
-    frac = Fraction(num, denominator)
-    return sign if total else 1, whole, frac.numerator, frac.denominator if num else 1
+    common = math.gcd(num, denominator)  # 0/32 keeps 1 as its denominator below
+    return sign if total else 1, whole, num // common, denominator // common if num else 1
 
 
 def format_inches(mm: float, mark: bool = True, denominator: int = 32) -> str:

@@ -358,6 +358,24 @@ def test_fullsize_outlines_are_drawn_at_one_to_one(built):
                    for c in page["curves"]), seg.label
 
 
+def test_fullsize_tile_pages_draw_only_what_shows_in_their_window(built):
+    """A tile page holds no path that lies wholly outside its window (pdfplumber's bounding boxes, in points):
+    what is clipped away is not written. The marks that do show are checked against the DXF in test_templates."""
+    s = sheet(built["design"])
+    wx, wy, ww, wh = s.window
+    slack = 1.5 * PT_PER_MM  # a stroke's half width and the drawing's own margin
+    for t in s.tiles:
+        page = built["full_pages"][t.page - 1]
+        height = page["size"][1]
+        drawn = page["curves"] + page["lines"]
+        assert drawn
+        for c in drawn:
+            if height - c["top"] > wy + wh + slack:  # the page header above the window: its scale bar
+                continue
+            assert c["x1"] >= wx - slack and c["x0"] <= wx + ww + slack, (t.name, c["x0"], c["x1"])
+            assert height - c["top"] >= wy - slack and height - c["bottom"] <= wy + wh + slack, t.name
+
+
 def test_fullsize_end_views_are_drawn_at_one_to_one_inside_the_window(built):
     """The layout's end views (stave ends, assembled sections, plug ends) on their own pages after the
     templates: every outline drawn at 1:1 (its width and height in points, read back by pdfplumber) wholly inside

@@ -435,14 +435,23 @@ def _machining(m: Machining, fig: Figures) -> dict[str, Any]:
 
 def _clean(value: Any) -> Any:
     """JSON has no NaN or infinity: write them as null; numpy scalars become plain numbers."""
+    kind = type(value)  # the common kinds first: a long spar's document holds many thousand figures
+    if kind is float:
+        return value if math.isfinite(value) else None
+    if kind is str or kind is int or kind is bool or value is None:
+        return value
+    if kind is dict:
+        return {k: _clean(v) for k, v in value.items()}
+    if kind is list or kind is tuple:
+        return [_clean(v) for v in value]
     if isinstance(value, np.generic):
-        value = value.item()
-    if isinstance(value, float) and not math.isfinite(value):
-        return None
+        return _clean(value.item())
     if isinstance(value, dict):
         return {k: _clean(v) for k, v in value.items()}
     if isinstance(value, (list, tuple)):
         return [_clean(v) for v in value]
+    if isinstance(value, float) and not math.isfinite(value):
+        return None
     return value
 
 

@@ -296,6 +296,9 @@ class _Painter:
         return x1 >= bx0 and x0 <= bx1 and y1 >= by0 and y0 <= by1
 
     def polyline(self, points, close: bool = False, width: float = 0.5, dash=None, gray: float = 0.0) -> None:
+        xs, ys = [x for x, _ in points], [y for _, y in points]
+        if not self.visible(min(xs) - 1, max(xs) + 1, min(ys) - 1, max(ys) + 1):  # off this page: nothing shows
+            return
         c = self.c
         c.saveState()
         c.setLineWidth(width)
@@ -339,9 +342,12 @@ def _draw_template(p: _Painter, design: Design, place: Placement) -> None:
     # The template's marks across the piece, the figures of the labelled ones above it.
     top_y = place.top
     for mark in t.marks:
+        x = place.x0 + mark.x
+        if not p.visible(x - 80, x + 80, -math.inf, math.inf):  # neither its line nor its figures on this page
+            continue
         a, b = seg.edges_at(mark.x)
         p.polyline([place.canvas(mark.x, a - 2), place.canvas(mark.x, b + 2)], width=0.35)
-        if mark.labelled:
+        if mark.labelled and p.visible(x - 80, x + 80, top_y - 2, top_y + 12):  # text() would show a line
             first, second = mark_lines(fig, mark, t.grooves)
             p.text(place.x0 + mark.x, top_y + 3.4, first, size=6.5, align="centre", font=BOLD)
             p.text(place.x0 + mark.x, top_y + 6.6, second, size=6, align="centre")
@@ -438,7 +444,9 @@ def _header(c, design: Design, sheet_: Sheet, title: str, right: str, detail: st
     draw_scale_bar(c, bx, y1 - 28, spar, height=5)
 
 
-def _tile_page(c, design: Design, sheet_: Sheet, tile: Tile, total: int) -> None:
+def _tile_page(c, design: Design, sheet_: Sheet, tile: Tile, total: int,
+               marks: list[tuple[float, float]]) -> None:
+    """One tile's page; ``marks`` are the sheet's registration crosses (:func:`crosses`)."""
     left = sheet_.tile_at(tile.row, tile.col - 1)
     right = sheet_.tile_at(tile.row, tile.col + 1)
     up = sheet_.tile_at(tile.row - 1, tile.col) if sheet_.row_overlap else None
@@ -476,7 +484,7 @@ def _tile_page(c, design: Design, sheet_: Sheet, tile: Tile, total: int) -> None
         p.polyline([(tile.x, down.y), (tile.x + tile.width, down.y)], **gray_dash)
     for place in sheet_.placements:
         _draw_template(p, design, place)
-    for x, y in crosses(sheet_):
+    for x, y in marks:
         _draw_cross(p, x, y)
     c.restoreState()
 
@@ -640,8 +648,9 @@ def write_fullsize(design: Design, path: str | Path) -> None:
     c.setSubject(f"1:1 templates from {source_name(design.spar)}")
     _map_page(c, design, sheet_, total)
     c.showPage()
+    marks = crosses(sheet_)
     for tile in sheet_.tiles:
-        _tile_page(c, design, sheet_, tile, total)
+        _tile_page(c, design, sheet_, tile, total, marks)
         c.showPage()
     for number in range(1, end_count + 1):
         _end_page(c, design, sheet_, placed, too_big, number, 2 + len(sheet_.tiles), total)
