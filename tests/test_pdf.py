@@ -459,3 +459,26 @@ def test_other_joints_tapers_and_sizes(case, tmp_path):
     with pdfplumber.open(tmp_path / "f.pdf") as pdf:
         for page in pdf.pages:
             assert any(abs(r["width"] - SCALE_BAR_PT["mm"]) <= 0.1 for r in page.rects)
+
+
+@pytest.mark.parametrize("name, notched", [("catboat-box-boom.toml", False), ("daysailer-mast.toml", True)])
+def test_report_station_table_has_notch_columns_only_where_a_notch_is_cut(tmp_path, name, notched):
+    """A box (no notch at any station) gets no notch-depth and apex-height columns of dashes, nor their words;
+    a birdsmouth spar keeps both. Read back with pdfplumber: the table's header lines and its rows."""
+    d = design(load_spar(SAMPLES / name), layout=True)
+    assert any(c.station.section.notch is not None for c in d.assessment.stations) == notched
+    write_report(d, tmp_path / "r.pdf")
+    with pdfplumber.open(tmp_path / "r.pdf") as pdf:
+        pages = [page.extract_text() for page in pdf.pages]
+    start = next(i for i, t in enumerate(pages) if "Station by station against the plan" in t)
+    lines = pages[start].splitlines()
+    head = next(k for k, line in enumerate(lines) if line.startswith("from heel"))
+    header = _flat(" ".join(lines[head - 1:head + 1]))  # the headers' two lines, words side by side
+    assert ("notch apex" in header and "depth height" in header) == notched, header
+    rows = [line for line in lines[head + 1:] if re.match(r"^\d", line)]
+    assert rows
+    if not notched:  # no pair of empty cells left where the notch columns were
+        assert not any(" - - " in f" {line} " for line in rows), rows[:3]
+    text = _flat(pages[start])
+    assert ("apex height is above the stave's inner face" in text) == notched
+    assert ("before the notch is cut" in text) == notched

@@ -330,6 +330,7 @@ def _rough_width(r: Report, z: float) -> float | None:
     return max(found) if found else None
 
 
+NOTCH_COLUMNS = (6, 7)  # the station table's notch depth and apex height: left out where no station has a notch
 STATION_ROWS_PER_TABLE = 200  # an even number: the stripes run on across blocks
 
 
@@ -385,6 +386,11 @@ def station_table(r: Report) -> list:
         if note:
             marks.append((i, not c.ok))
     widths = [18, 14, 15, 13, 17, 17, 14, 14, 12, 14, 9, 24]
+    notched = any(c.station.section.notch is not None for c in a.stations)
+    keep = [i for i in range(len(widths)) if notched or i not in NOTCH_COLUMNS]  # no notch: no empty columns
+    rows = [[row[i] for i in keep] for row in rows]
+    widths = [widths[i] for i in keep]
+    plug_col = keep.index(10)
     scale = r.width / (sum(widths) * MM)
     tables = []
     # Blocks of rows, each its own table with the header: reportlab measures every row left each time a
@@ -392,7 +398,8 @@ def station_table(r: Report) -> list:
     for start in range(1, max(len(rows), 2), STATION_ROWS_PER_TABLE):
         table = _table([list(row) for row in [rows[0]] + rows[start:start + STATION_ROWS_PER_TABLE]],
                        widths=[w * MM * scale for w in widths])
-        table.setStyle(TableStyle([("ALIGN", (10, 0), (-1, -1), "LEFT"), ("LEFTPADDING", (11, 0), (11, -1), 6)]))
+        table.setStyle(TableStyle([("ALIGN", (plug_col, 0), (-1, -1), "LEFT"),
+                                   ("LEFTPADDING", (plug_col + 1, 0), (plug_col + 1, -1), 6)]))
         for i, short in marks:
             if start <= i < start + STATION_ROWS_PER_TABLE:
                 j = i - start + 1
@@ -408,11 +415,12 @@ def station_table(r: Report) -> list:
             f"its plastic shape factor between the rectangle (1.00) and the solid round, {ff:.3f} at the least "
             f"strength station: a hollow section is credited with less than a solid one"
             + (" (a box below the rectangle's 1.00)." if r.spar.hollow.is_box else "."))
+    notch_words = ("Notch depth is along the width from the notched edge to the V's apex; apex height is above the "
+                   "stave's inner face. " if notched else "")
     return [PageBreak(), r.h2("Station by station against the plan"),
-            r.p(r.t(f"Positions from the heel of the finished spar. Stave widths are across the broad face before "
-                    f"the notch is cut, rounded down (narrower staves close a smaller bore; see the templates for "
-                    f"the exact line); walls, diameters and rough widths are rounded up. {rough}Notch depth is along "
-                    f"the width from the notched edge to the V's apex; apex height is above the stave's inner face. "
+            r.p(r.t(f"Positions from the heel of the finished spar. Stave widths are across the broad face"
+                    f"{' before the notch is cut' if notched else ''}, rounded down (narrower staves close a smaller "
+                    f"bore; see the templates for the exact line); walls, diameters and rough widths are rounded up. {rough}{notch_words}"
                     f"EI ratio target {a.ei_target:.3f}; strength ratio target {a.strength_target:.3f}. {form}"),
                 "small"), Spacer(1, 4), *tables]
 
