@@ -255,6 +255,11 @@ def recover(folder: Path) -> list[str]:
 
 STOPPED = "stopped by {name}; no output was changed"
 _LIVE: list["OutputSet"] = []  # sets being written, for the signal handler
+# Blocks of _SignalsHeld open now, and the stop signals that came while one was. Blocking a signal holds it for
+# the main thread only: the kernel hands a process's signal to any thread that does not block it (rich's
+# refresh thread, a solver's workers), and Python then runs the handler in the main thread all the same.
+_HELD = {"depth": 0}
+_DEFERRED: list[int] = []
 
 
 class _SignalGuard:
@@ -276,6 +281,9 @@ class _SignalGuard:
 
     @staticmethod
     def _stop(signum, frame) -> None:
+        if _HELD["depth"]:  # inside a held block: it runs when the block ends
+            _DEFERRED.append(signum)
+            return
         for out in list(_LIVE):
             out._abandon()
         name = signal.Signals(signum).name
@@ -291,17 +299,44 @@ class _SignalGuard:
 
 
 class _SignalsHeld:
-    """SIGTERM, SIGHUP and SIGINT wait (are blocked) inside the block; delivered when it ends."""
+    """SIGTERM, SIGHUP and SIGINT wait inside the block and take their course when it ends.
+
+    They are blocked in the main thread, and, as a signal a thread other than the main one takes still runs
+    its Python handler in the main thread at once, the handlers defer too: a stop signal's (see
+    :class:`_SignalGuard`) and, for the block, SIGINT's."""
 
     def __enter__(self) -> "_SignalsHeld":
-        self.active = hasattr(signal, "pthread_sigmask") and threading.current_thread() is threading.main_thread()
+        main = threading.current_thread() is threading.main_thread()
+        self.active = hasattr(signal, "pthread_sigmask") and main
+        self.saved_int = None
+        if main and _HELD["depth"] == 0:
+            try:
+                self.saved_int = signal.signal(signal.SIGINT, _defer)
+            except (OSError, ValueError):
+                pass
         if self.active:
             self.old = signal.pthread_sigmask(signal.SIG_BLOCK, _BLOCKED_IN_COMMIT)
+        _HELD["depth"] += 1
         return self
 
     def __exit__(self, *exc) -> None:
+        _HELD["depth"] -= 1
+        if self.saved_int is not None:
+            signal.signal(signal.SIGINT, self.saved_int)
         if self.active:
             signal.pthread_sigmask(signal.SIG_SETMASK, self.old)
+        if _HELD["depth"] or not _DEFERRED:
+            return
+        pending = list(_DEFERRED)
+        _DEFERRED.clear()
+        for signum in pending:
+            if signal.getsignal(signum) is _SignalGuard._stop:  # still writing: remove the temporaries, stop
+                _SignalGuard._stop(signum, None)
+        signal.raise_signal(pending[0])  # the set is in place, or SIGINT: the signal takes its usual course
+
+
+def _defer(signum, frame) -> None:
+    _DEFERRED.append(signum)
 
 
 class OutputSet:

@@ -299,3 +299,45 @@ def test_identical_input_gives_identical_files(tmp_path):
     for name in sets[0]:
         assert sets[0][name] == sets[1][name], name
     assert json.loads(sets[0][f"{SLUG}.json"])["spar"]["name"] == "Day-sailer mast"
+
+
+_OTHER_THREAD_CHILD = textwrap.dedent("""
+    import os, signal, sys, tempfile, threading, time
+    from pathlib import Path
+    import stavegen.outputs as outputs
+
+    # A thread that does not block the signal, started before any writing, as rich's refresh thread is.
+    threading.Thread(target=threading.Event().wait, daemon=True).start()
+    real = tempfile.mkstemp
+
+    def mkstemp(*args, **kwargs):
+        made = real(*args, **kwargs)
+        # Process-directed, and blocked in this thread: the kernel hands it to the other thread, and Python runs
+        # the handler here at once, before the temporary is listed for removal, unless the handler defers.
+        os.kill(os.getpid(), getattr(signal, sys.argv[2]))
+        time.sleep(0.2)
+        return made
+
+    tempfile.mkstemp = mkstemp
+    try:
+        with outputs.OutputSet(Path(sys.argv[1])) as out:
+            out.add("a.txt", lambda p: p.write_text("new"))
+            out.commit()
+    except KeyboardInterrupt:
+        sys.exit(130)
+""")
+
+
+@pytest.mark.parametrize("name, code", [("SIGTERM", 128 + signal.SIGTERM), ("SIGHUP", 128 + signal.SIGHUP),
+                                        ("SIGINT", 130)])
+def test_a_signal_taken_by_another_thread_while_a_temporary_is_made_leaves_nothing(tmp_path, name, code):
+    """A signal blocked in the main thread goes to another thread (the kernel's choice), and Python still runs
+    its handler in the main thread: the handlers defer while signals are held, so the temporary made in that
+    moment is removed with the rest and the earlier file stays."""
+    out = tmp_path / "out"
+    out.mkdir()
+    (out / "a.txt").write_text("old")
+    child = subprocess.run([sys.executable, "-c", _OTHER_THREAD_CHILD, str(out), name], cwd=ROOT,
+                           capture_output=True, text=True, timeout=120)
+    assert child.returncode == code, child.stderr
+    assert sorted(os.listdir(out)) == ["a.txt"] and (out / "a.txt").read_text() == "old"
