@@ -440,10 +440,6 @@ def _clean(value: Any) -> Any:
         return value if math.isfinite(value) else None
     if kind is str or kind is int or kind is bool or value is None:
         return value
-    if kind is dict:
-        return {k: _clean(v) for k, v in value.items()}
-    if kind is list or kind is tuple:
-        return [_clean(v) for v in value]
     if isinstance(value, np.generic):
         return _clean(value.item())
     if isinstance(value, dict):

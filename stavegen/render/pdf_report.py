@@ -420,7 +420,8 @@ def station_table(r: Report) -> list:
     return [PageBreak(), r.h2("Station by station against the plan"),
             r.p(r.t(f"Positions from the heel of the finished spar. Stave widths are across the broad face"
                     f"{' before the notch is cut' if notched else ''}, rounded down (narrower staves close a smaller "
-                    f"bore; see the templates for the exact line); walls, diameters and rough widths are rounded up. {rough}{notch_words}"
+                    f"bore; see the templates for the exact line); walls, diameters and rough widths are rounded up. "
+                    f"{rough}{notch_words}"
                     f"EI ratio target {a.ei_target:.3f}; strength ratio target {a.strength_target:.3f}. {form}"),
                 "small"), Spacer(1, 4), *tables]
 
