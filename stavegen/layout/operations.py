@@ -170,14 +170,22 @@ def machining(spar: Spar, plan: StavePlan, staves: tuple[tuple[Segment, ...], ..
         t = reference.thickness
         box = spar.hollow.is_box  # a box's faces and sides are cut differently (a face's rebates): by kind
         firsts: dict[int, CutterSettings] = {}
+        # Blanks are on the grid, so segments share them: a kind's settings for one blank (following the
+        # kind's first passes) are worked out once. The first blank's own search is kept apart.
+        same: dict[tuple[int, Blank], CutterSettings] = {}
         for stave in staves:
             kind = kind_of_stave(spar, stave[0].stave) if box else widest_kind
             own = section_at(widest_st.z, kind) if box else reference
             for seg in stave:
                 blank, rough = blank_for(spar, seg, t)
                 first = firsts.get(kind)
-                settings = cutter_settings(own, kerf, blank, plan=first.saw if first else None)
-                firsts.setdefault(kind, settings)
+                if first is None:
+                    settings = cutter_settings(own, kerf, blank)
+                    firsts[kind] = settings
+                else:
+                    settings = same.get((kind, blank))
+                    if settings is None:
+                        settings = same[(kind, blank)] = cutter_settings(own, kerf, blank, plan=first.saw)
                 segments.append(SegmentSetup(seg.label, blank, rough, settings))
         for st, stave, kind in extremes:
             seg = _segment_holding(staves, st.z, stave)
