@@ -308,6 +308,8 @@ def main() -> None:
             results["imports"][name] = import_cost(py, command, opts.repeat)
         results["split"] = build_split(py, SIZED[0], tmp, opts.repeat)
         results["pair"] = build_against_imports(py, SIZED[0], tmp, max(7, opts.repeat))
+        results["pairs"] = {sample.name: build_against_imports(py, sample, tmp, 3)
+                            for sample in sorted((ROOT / "samples").glob("*.toml"))}
         results["split runs"] = opts.repeat
         if opts.before:
             (tmp / "before").mkdir()
@@ -412,6 +414,24 @@ running it), and the libraries among them. `check`, `section`, `woods` and
 | check CPU linear in stations (100 → 1,000 → 8,000) | {check[0]:.2f} s → {check[1]:.2f} s → {check[2]:.2f} s | {(check[2] - check[1]) / 7000 * 1e3:.2f} ms a station past 1,000, {(check[1] - check[0]) / 900 * 1e3:.2f} ms before |
 | build CPU linear in stations | {build[0]:.2f} s → {build[1]:.2f} s → {build[2]:.2f} s | {(build[2] - build[1]) / 7000 * 1e3:.2f} ms a station past 1,000, {(build[1] - build[0]) / 900 * 1e3:.2f} ms before |
 | size CPU linear in stations (100 → 1,000) | {size[0]:.2f} s → {size[1]:.2f} s | {(size[1] - size[0]) / 900 * 1e3:.2f} ms a station |
+"""
+    pairs = results.get("pairs")
+    if pairs:
+        goal = GOALS["sample_build_over_imports"]
+        met = sum(v["ratio"] <= goal for v in pairs.values())
+        pair_rows = "\n".join(f"| {k} | {v['build']:.2f} s | {v['imports']:.2f} s | {v['ratio']:.2f} × |"
+                              for k, v in pairs.items())
+        text += f"""
+### Every sample against its imports
+
+Each bundled sample (a boat file builds every spar in it) built by turns
+with a process importing what that build loads, 3 rounds each, medians; a
+rough figure on this machine (single rounds of one sample swing by a
+tenth or more). {met} of {len(pairs)} are within the {goal} × goal.
+
+| sample | build CPU | imports CPU | ratio |
+| --- | ---: | ---: | ---: |
+{pair_rows}
 """
     split = results.get("split")
     if split:
